@@ -1,0 +1,296 @@
+//! The ground before loading and the constitutive rules every engine shares:
+//! the depth grid, initial stresses (σv0, u0, σ'v0, σ'p0), one-dimensional
+//! compressibility from Cr/Cc (e–log σ'), and undrained strength by SHANSEP
+//! (Ladd & Foott 1974; Ladd 1991) or a gain ratio, never below measured su0.
+
+use crate::model::*;
+use serde::Serialize;
+
+/// ln(10), for converting Cc/Cr (per log10 cycle) to tangent moduli.
+const LN10: f64 = std::f64::consts::LN_10;
+
+/// Properties a clay node needs, copied from its layer.
+#[derive(Debug, Clone, Copy, Serialize)]
+pub struct ClayProps {
+    pub e0: f64,
+    pub cc: f64,
+    pub cr: f64,
+    pub c_alpha: f64,
+    pub cv_m2_per_day: f64,
+    pub ch_m2_per_day: f64,
+    pub model: StrengthModel,
+}
+
+/// One node of the depth grid with its initial state.
+#[derive(Debug, Clone, Serialize)]
+pub struct Node {
+    /// Depth below OGL, m.
+    pub z_m: f64,
+    /// Index of the layer the node belongs to (the one below an interface).
+    pub layer: usize,
+    /// Total vertical stress, kPa.
+    pub sigma_v0_kpa: f64,
+    /// Hydrostatic pore pressure, kPa.
+    pub u0_kpa: f64,
+    /// Initial vertical effective stress, kPa.
+    pub sigma_v0_eff_kpa: f64,
+    /// Initial preconsolidation pressure, kPa (≥ σ'v0).
+    pub sigma_p0_kpa: f64,
+    /// Measured in-situ strength at this depth, kPa (0 where not measured).
+    pub su_measured_kpa: f64,
+    /// Initial undrained strength, kPa (0 in sand).
+    pub su0_kpa: f64,
+    /// Clay properties, None in sand.
+    pub clay: Option<ClayProps>,
+}
+
+/// Total vertical stress at depth z below OGL, kPa (bulk weight above the
+/// water table, saturated below; common practice).
+pub fn sigma_v0(ground: &Ground, z_m: f64) -> f64 {
+    let dw = ground.groundwater_depth_m;
+    let mut top = 0.0;
+    let mut sum = 0.0;
+    for l in &ground.layers {
+        let bottom = if matches!(l.kind, LayerKind::StiffBase) {
+            f64::INFINITY
+        } else {
+            top + l.thickness_m
+        };
+        let lo = top.min(z_m);
+        let hi = bottom.min(z_m);
+        let dry = (hi.min(dw) - lo).max(0.0);
+        let wet = (hi - lo.max(dw)).max(0.0);
+        sum += dry * l.unit_weight_kn_m3 + wet * l.saturated_unit_weight_kn_m3;
+        if z_m <= bottom {
+            break;
+        }
+        top = bottom;
+    }
+    sum
+}
+
+/// Hydrostatic pore pressure at depth z, kPa.
+pub fn u0(ground: &Ground, z_m: f64) -> f64 {
+    GAMMA_W * (z_m - ground.groundwater_depth_m).max(0.0)
+}
+
+/// Index of the layer containing depth z (the lower one at an interface).
+pub fn layer_index(ground: &Ground, z_m: f64) -> usize {
+    let mut top = 0.0;
+    for (i, l) in ground.layers.iter().enumerate() {
+        if matches!(l.kind, LayerKind::StiffBase) || z_m < top + l.thickness_m - 1e-9 {
+            return i;
+        }
+        top += l.thickness_m;
+    }
+    ground.layers.len() - 1
+}
+
+/// Depth of the top of layer `i` below OGL, m.
+pub fn layer_top(ground: &Ground, i: usize) -> f64 {
+    ground.layers[..i].iter().map(|l| l.thickness_m).sum()
+}
+
+/// Measured su0 at depth z from a layer's points (linear, constant beyond).
+pub fn su_measured(points: &[(f64, f64)], z_m: f64) -> f64 {
+    match points {
+        [] => 0.0,
+        [only] => only.1,
+        _ => {
+            if z_m <= points[0].0 {
+                return points[0].1;
+            }
+            for w in points.windows(2) {
+                if z_m <= w[1].0 {
+                    let f = (z_m - w[0].0) / (w[1].0 - w[0].0);
+                    return w[0].1 + f * (w[1].1 - w[0].1);
+                }
+            }
+            points[points.len() - 1].1
+        }
+    }
+}
+
+/// SHANSEP undrained strength su = S σ'v (σ'p/σ'v)^m, kPa (Ladd 1991).
+pub fn shansep(s: f64, m: f64, sigma_v_eff: f64, sigma_p: f64) -> f64 {
+    let ocr = (sigma_p / sigma_v_eff).max(1.0);
+    s * sigma_v_eff * ocr.powf(m)
+}
+
+/// Undrained strength at a node for the current σ'v and σ'p (kPa).
+pub fn su_now(node: &Node, sigma_v_eff: f64, sigma_p: f64) -> f64 {
+    let Some(clay) = node.clay else { return 0.0 };
+    let base = match clay.model {
+        StrengthModel::Shansep { s, m } => shansep(s, m, sigma_v_eff.max(1e-3), sigma_p),
+        StrengthModel::GainRatio { ratio } => {
+            node.su_measured_kpa + ratio * (sigma_v_eff - node.sigma_v0_eff_kpa).max(0.0)
+        }
+    };
+    base.max(node.su_measured_kpa)
+}
+
+/// Vertical strain from the stress history of a node (e–log σ' law):
+/// recompression with Cr up to σ'p0, virgin compression with Cc beyond, and
+/// swelling with Cr from the largest stress σ'max back to σ'.
+pub fn strain(clay: &ClayProps, s0: f64, sp0: f64, smax: f64, s: f64) -> f64 {
+    let recompression = clay.cr * (smax.min(sp0) / s0).max(1.0).log10();
+    let virgin = clay.cc * (smax.max(sp0) / sp0).log10();
+    let swell = clay.cr * (smax / s.max(1e-3)).log10();
+    (recompression + virgin - swell) / (1.0 + clay.e0)
+}
+
+/// Tangent coefficient of volume compressibility mv = dε/dσ', 1/kPa.
+pub fn mv_tangent(clay: &ClayProps, s: f64, sp: f64) -> f64 {
+    let index = if s >= sp { clay.cc } else { clay.cr };
+    index / (LN10 * (1.0 + clay.e0) * s.max(1.0))
+}
+
+/// mv on the virgin line at σ', 1/kPa (the reference for permeability).
+pub fn mv_virgin(clay: &ClayProps, s: f64) -> f64 {
+    clay.cc / (LN10 * (1.0 + clay.e0) * s.max(1.0))
+}
+
+/// Build the depth grid: every layer interface is a node; clay layers get
+/// spacing ≤ `max_dz` and at least 8 intervals; sand layers 2 intervals.
+pub fn grid(project: &Project) -> Vec<Node> {
+    let g = &project.ground;
+    let mut zs = vec![0.0];
+    let mut top = 0.0;
+    for l in g.layers.iter().filter(|l| !matches!(l.kind, LayerKind::StiffBase)) {
+        let n = match l.kind {
+            LayerKind::Clay(_) => ((l.thickness_m / project.analysis.max_node_spacing_m).ceil() as usize).max(8),
+            _ => 2,
+        };
+        for j in 1..=n {
+            zs.push(top + l.thickness_m * j as f64 / n as f64);
+        }
+        top += l.thickness_m;
+    }
+    zs.into_iter().map(|z| node_at(project, z)).collect()
+}
+
+/// Initial state of the ground at depth z.
+pub fn node_at(project: &Project, z_m: f64) -> Node {
+    // The deepest node belongs to the layer above the base.
+    let depth = project.profile_depth_m();
+    let li = layer_index(&project.ground, z_m.min(depth - 1e-6).max(0.0));
+    node_at_layer(project, z_m, li)
+}
+
+/// Initial state at depth z taking the properties of layer `li` (used for
+/// the two sides of a layer interface).
+pub fn node_at_layer(project: &Project, z_m: f64, li: usize) -> Node {
+    let g = &project.ground;
+    let layer = &g.layers[li];
+    let sv = sigma_v0(g, z_m);
+    let u = u0(g, z_m);
+    let se = (sv - u).max(0.1);
+    let (clay, sp, su_m) = match &layer.kind {
+        LayerKind::Clay(c) => {
+            let sp = match c.preconsolidation {
+                Preconsolidation::Ocr(o) => o * se,
+                Preconsolidation::PopKpa(p) => se + p,
+                Preconsolidation::SigmaPKpa(p) => p,
+            }
+            .max(se);
+            let props = ClayProps {
+                e0: c.e0,
+                cc: c.cc,
+                cr: c.cr,
+                c_alpha: c.c_alpha,
+                cv_m2_per_day: c.cv_m2_per_day,
+                ch_m2_per_day: c.ch_m2_per_day,
+                model: c.strength.model,
+            };
+            (Some(props), sp, su_measured(&c.strength.su0_points, z_m))
+        }
+        _ => (None, se, 0.0),
+    };
+    let mut node = Node {
+        z_m,
+        layer: li,
+        sigma_v0_kpa: sv,
+        u0_kpa: u,
+        sigma_v0_eff_kpa: se,
+        sigma_p0_kpa: sp,
+        su_measured_kpa: su_m,
+        su0_kpa: 0.0,
+        clay,
+    };
+    node.su0_kpa = su_now(&node, se, sp);
+    node
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn two_layer_ground() -> Ground {
+        let clay = Clay {
+            e0: 1.5,
+            cc: 0.5,
+            cr: 0.05,
+            c_alpha: 0.0,
+            preconsolidation: Preconsolidation::Ocr(1.0),
+            cv_m2_per_day: 0.01,
+            ch_m2_per_day: 0.01,
+            strength: Strength { model: StrengthModel::Shansep { s: 0.22, m: 0.8 }, su0_points: vec![] },
+        };
+        Ground {
+            groundwater_depth_m: 1.0,
+            base_drained: true,
+            layers: vec![
+                Layer { name: "crust".into(), thickness_m: 2.0, unit_weight_kn_m3: 17.0, saturated_unit_weight_kn_m3: 18.0, kind: LayerKind::Clay(clay.clone()) },
+                Layer { name: "soft".into(), thickness_m: 10.0, unit_weight_kn_m3: 15.0, saturated_unit_weight_kn_m3: 16.0, kind: LayerKind::Clay(clay) },
+            ],
+        }
+    }
+
+    #[test]
+    fn effective_stress_by_hand() {
+        // Common practice arithmetic: water table 1 m down; crust 17 kN/m³
+        // above it and 18 below; soft clay 16 saturated. At z = 5 m:
+        // σv = 1×17 + 1×18 + 3×16 = 83 kPa; u0 = 9.81×4 = 39.24 kPa;
+        // σ'v = 43.76 kPa.
+        let g = two_layer_ground();
+        assert!((sigma_v0(&g, 5.0) - 83.0).abs() < 1e-9);
+        assert!((u0(&g, 5.0) - 39.24).abs() < 1e-9);
+        assert!((sigma_v0(&g, 5.0) - u0(&g, 5.0) - 43.76).abs() < 1e-9);
+        // Above the water table: σv = 0.5 × 17.
+        assert!((sigma_v0(&g, 0.5) - 8.5).abs() < 1e-9);
+    }
+
+    #[test]
+    fn shansep_ladd_typical_values() {
+        // Ladd (1991) typical S = 0.22, m = 0.8: σ'v = 50, σ'p = 100 kPa →
+        // su = 0.22 × 50 × 2^0.8 = 19.15 kPa.
+        let su = shansep(0.22, 0.8, 50.0, 100.0);
+        assert!((su - 19.15).abs() < 0.05, "su = {su}");
+    }
+
+    #[test]
+    fn settlement_of_overconsolidated_layer_loaded_past_sigma_p() {
+        // S = H/(1+e0) [Cr log(σ'p/σ'0) + Cc log(σ'f/σ'p)] with H = 4 m,
+        // e0 = 1.2, Cc = 0.6, Cr = 0.06, σ'0 = 40, σ'p = 60, Δσ = 60 kPa
+        // (textbook e–log σ' rule) gives 0.261 m.
+        let clay = ClayProps { e0: 1.2, cc: 0.6, cr: 0.06, c_alpha: 0.0, cv_m2_per_day: 0.0, ch_m2_per_day: 0.0, model: StrengthModel::GainRatio { ratio: 0.0 } };
+        let s = 4.0 * strain(&clay, 40.0, 60.0, 100.0, 100.0);
+        assert!((s - 0.261).abs() < 0.261 * 0.005, "s = {s}");
+    }
+
+    #[test]
+    fn strain_swells_back_with_cr() {
+        let clay = ClayProps { e0: 1.0, cc: 0.5, cr: 0.05, c_alpha: 0.0, cv_m2_per_day: 0.0, ch_m2_per_day: 0.0, model: StrengthModel::GainRatio { ratio: 0.0 } };
+        let loaded = strain(&clay, 50.0, 50.0, 100.0, 100.0);
+        let unloaded = strain(&clay, 50.0, 50.0, 100.0, 50.0);
+        assert!((loaded - unloaded - 0.05 * 2f64.log10() / 2.0).abs() < 1e-12);
+    }
+
+    #[test]
+    fn measured_profile_interpolates() {
+        let pts = [(1.0, 10.0), (5.0, 20.0)];
+        assert_eq!(su_measured(&pts, 0.0), 10.0);
+        assert!((su_measured(&pts, 3.0) - 15.0).abs() < 1e-12);
+        assert_eq!(su_measured(&pts, 9.0), 20.0);
+    }
+}

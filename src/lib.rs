@@ -1,0 +1,20 @@
+//! fillpace: staged construction of embankments on soft clay.
+//!
+//! Data flows one way: `input` reads and validates a project file into a
+//! `model::Project`; `ground`, `load`, `consolidation` and `response` predict
+//! pore pressure, settlement and strength through time; `stability` finds the
+//! factor of safety on slip circles; `schedule` plans the lifts on a working
+//! calendar; `report` writes the results. `main.rs` only wires these up.
+
+pub mod consolidation;
+pub mod error;
+pub mod ground;
+pub mod input;
+pub mod load;
+pub mod model;
+pub mod response;
+
+#[cfg(test)]
+pub(crate) mod fixtures;
+
+pub use error::{Error, Result};

@@ -1,0 +1,305 @@
+//! The validated project: plain data in SI units (m, kN, kPa, days) that every
+//! engine takes. Nothing here is optional that validation should have settled;
+//! values arrive here only through `input::load`, which checks ranges and
+//! cross-field rules. Field units are in the names or the doc comments.
+
+use chrono::{NaiveDate, Weekday};
+use serde::Serialize;
+
+/// Unit weight of water, kN/m³ (common practice value).
+pub const GAMMA_W: f64 = 9.81;
+
+/// Seconds-free time: days per year used to convert cv given in m²/year.
+pub const DAYS_PER_YEAR: f64 = 365.25;
+
+/// A whole validated project.
+#[derive(Debug, Clone, Serialize)]
+pub struct Project {
+    pub info: ProjectInfo,
+    pub ground: Ground,
+    pub embankment: Embankment,
+    pub drains: Option<Drains>,
+    pub construction: Construction,
+    pub criteria: Criteria,
+    pub stability: StabilityOptions,
+    pub analysis: AnalysisOptions,
+    /// A proposed lift sequence (may be empty).
+    pub sequence: Vec<ProposedLift>,
+}
+
+/// Title-block information.
+#[derive(Debug, Clone, Serialize)]
+pub struct ProjectInfo {
+    pub title: String,
+    pub reference: String,
+    pub location: String,
+    pub revision: String,
+    /// First possible day of earthworks.
+    pub start_date: NaiveDate,
+    /// Period over which residual settlement is judged, years.
+    pub design_life_years: f64,
+}
+
+/// Layered ground below the original ground level (OGL), top-down.
+#[derive(Debug, Clone, Serialize)]
+pub struct Ground {
+    /// Depth of the groundwater table below OGL, m (≥ 0).
+    pub groundwater_depth_m: f64,
+    /// Layers from the surface down.
+    pub layers: Vec<Layer>,
+    /// Whether the bottom of the lowest compressible layer drains when it rests
+    /// on a stiff base (sand layers always drain).
+    pub base_drained: bool,
+}
+
+/// One soil layer.
+#[derive(Debug, Clone, Serialize)]
+pub struct Layer {
+    pub name: String,
+    /// Thickness, m.
+    pub thickness_m: f64,
+    /// Bulk unit weight above the water table, kN/m³.
+    pub unit_weight_kn_m3: f64,
+    /// Saturated unit weight below the water table, kN/m³.
+    pub saturated_unit_weight_kn_m3: f64,
+    pub kind: LayerKind,
+}
+
+/// What a layer is, with the properties that kind needs.
+#[derive(Debug, Clone, Serialize)]
+#[serde(tag = "kind", rename_all = "kebab-case")]
+pub enum LayerKind {
+    /// Compressible, low-permeability clay (undrained in stability).
+    Clay(Clay),
+    /// Free-draining sand or gravel (drained in stability, u = 0 boundary).
+    Sand {
+        /// Effective friction angle, degrees.
+        friction_deg: f64,
+        /// Effective cohesion, kPa.
+        cohesion_kpa: f64,
+    },
+    /// Stiff base: incompressible, no slip surface passes through it.
+    StiffBase,
+}
+
+/// Clay compressibility, flow and strength.
+#[derive(Debug, Clone, Serialize)]
+pub struct Clay {
+    pub e0: f64,
+    pub cc: f64,
+    pub cr: f64,
+    /// Secondary compression index (per log cycle of time), 0 when not given.
+    pub c_alpha: f64,
+    pub preconsolidation: Preconsolidation,
+    /// Vertical coefficient of consolidation, m²/day.
+    pub cv_m2_per_day: f64,
+    /// Horizontal coefficient of consolidation, m²/day.
+    pub ch_m2_per_day: f64,
+    pub strength: Strength,
+}
+
+/// How σ'p is described for a clay layer.
+#[derive(Debug, Clone, Copy, Serialize)]
+#[serde(tag = "by", content = "value", rename_all = "kebab-case")]
+pub enum Preconsolidation {
+    /// σ'p = OCR · σ'v0.
+    Ocr(f64),
+    /// σ'p = σ'v0 + POP, kPa.
+    PopKpa(f64),
+    /// σ'p given directly, kPa (constant over the layer).
+    SigmaPKpa(f64),
+}
+
+/// Undrained strength description for a clay layer.
+#[derive(Debug, Clone, Serialize)]
+pub struct Strength {
+    pub model: StrengthModel,
+    /// Measured in-situ profile su0(z): (depth below OGL m, su kPa), sorted by
+    /// depth; empty when not measured. su never falls below it.
+    pub su0_points: Vec<(f64, f64)>,
+}
+
+/// How strength evolves with effective stress.
+#[derive(Debug, Clone, Copy, Serialize)]
+#[serde(tag = "model", rename_all = "kebab-case")]
+pub enum StrengthModel {
+    /// su = S σ'v (σ'p/σ'v)^m (Ladd & Foott 1974; Ladd 1991).
+    Shansep { s: f64, m: f64 },
+    /// su = su0 + ratio · Δσ'v (Δσ'v above the initial σ'v0, only when loaded
+    /// beyond the largest previous stress).
+    GainRatio { ratio: f64 },
+}
+
+/// Embankment cross-section (symmetric trapezoid).
+#[derive(Debug, Clone, Serialize)]
+pub struct Embankment {
+    /// Final design height of the crest above OGL, m.
+    pub design_height_m: f64,
+    /// Full crest width, m.
+    pub crest_width_m: f64,
+    /// Side slope, horizontal per vertical.
+    pub side_slope_h_per_v: f64,
+    /// Fill bulk unit weight, kN/m³.
+    pub fill_unit_weight_kn_m3: f64,
+    /// Fill effective cohesion, kPa.
+    pub fill_cohesion_kpa: f64,
+    /// Fill effective friction angle, degrees.
+    pub fill_friction_deg: f64,
+    /// Temporary surcharge above design height, m (0 = none).
+    pub surcharge_height_m: f64,
+    /// Stability berms on both sides, inner first.
+    pub berms: Vec<Berm>,
+    /// Basal geosynthetic design tensile force, kN/m (0 = none).
+    pub reinforcement_kn_per_m: f64,
+}
+
+/// A stability berm: a flat platform at `height_m` above OGL extending
+/// `width_m` beyond where the main slope meets that height.
+#[derive(Debug, Clone, Copy, Serialize)]
+pub struct Berm {
+    pub width_m: f64,
+    pub height_m: f64,
+}
+
+/// Drain installation pattern.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum DrainPattern {
+    Triangular,
+    Square,
+}
+
+/// Prefabricated vertical drains.
+#[derive(Debug, Clone, Serialize)]
+pub struct Drains {
+    pub pattern: DrainPattern,
+    /// Centre-to-centre spacing, m.
+    pub spacing_m: f64,
+    /// Equivalent drain diameter dw, m ((a+b)/2 for a band drain).
+    pub diameter_m: f64,
+    /// Penetration below OGL, m.
+    pub depth_m: f64,
+    /// Smear-zone diameter over drain diameter, ds/dw (1 = no smear).
+    pub smear_ratio: f64,
+    /// Undisturbed over smeared horizontal permeability, kh/ks.
+    pub kh_over_ks: f64,
+    /// Discharge capacity qw, m³/day; None = infinite (no well resistance).
+    pub discharge_m3_per_day: Option<f64>,
+}
+
+/// Construction practice and calendar.
+#[derive(Debug, Clone, Serialize)]
+pub struct Construction {
+    /// Rate of placing fill on a working day, m/day.
+    pub placement_rate_m_per_day: f64,
+    pub lift_min_m: f64,
+    pub lift_max_m: f64,
+    pub lift_increment_m: f64,
+    pub min_rest_days: u32,
+    /// Working days of the week.
+    #[serde(serialize_with = "ser_weekdays")]
+    pub working_days: Vec<Weekday>,
+    /// Non-working dates (ranges expanded, sorted, unique).
+    pub holidays: Vec<NaiveDate>,
+    /// Fraction of working days lost to weather, spread evenly (0 ≤ f < 0.8).
+    pub weather_downtime_fraction: f64,
+}
+
+fn ser_weekdays<S: serde::Serializer>(days: &[Weekday], s: S) -> Result<S::Ok, S::Error> {
+    s.collect_seq(days.iter().map(|d| d.to_string()))
+}
+
+/// Acceptance criteria.
+#[derive(Debug, Clone, Serialize)]
+pub struct Criteria {
+    /// FS required at the end of each lift.
+    pub fs_construction: f64,
+    /// FS required in service (long term, at design height).
+    pub fs_service: f64,
+    /// Surcharge comes off when the centreline average degree of consolidation
+    /// reaches this value (0–1), if set.
+    pub surcharge_removal_degree: Option<f64>,
+    /// …or when the residual settlement over the design life falls below this, m.
+    pub residual_settlement_limit_m: Option<f64>,
+}
+
+/// Options of the stability engine.
+#[derive(Debug, Clone, Serialize)]
+pub struct StabilityOptions {
+    /// Factor applied to fill c' and tan φ' (1 = full drained strength).
+    pub fill_strength_factor: f64,
+    /// Whether the fill carries no shear on the active side of a circle
+    /// (a tension crack through the fill). Default true: see DEVELOPERS.md.
+    pub fill_tension_crack: bool,
+    /// Number of slices per circle (≥ 30).
+    pub slices: usize,
+}
+
+/// How consolidation is modelled.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum ConsolidationMode {
+    /// Constant mv and cv per layer (for checks against closed forms).
+    Linear,
+    /// mv from Cr/Cc at the current σ'v against σ'p; k held constant.
+    StressDependent,
+}
+
+/// How excess pore pressure is generated by a load increment.
+#[derive(Debug, Clone, Copy, Serialize)]
+#[serde(tag = "rule", rename_all = "kebab-case")]
+pub enum PorePressureRule {
+    /// Δu = Δσz (one-dimensional loading).
+    Vertical,
+    /// Δu = B [Δσ3 + A (Δσ1 − Δσ3)] from the 2-D principal increments.
+    Skempton { a: f64, b: f64 },
+}
+
+/// Options of the ground response engine.
+#[derive(Debug, Clone, Serialize)]
+pub struct AnalysisOptions {
+    pub mode: ConsolidationMode,
+    pub pore_pressure: PorePressureRule,
+    /// Largest node spacing in the depth grid, m.
+    pub max_node_spacing_m: f64,
+    /// Time step while fill is being placed, days.
+    pub placement_step_days: f64,
+    /// Time step during rests, days.
+    pub rest_step_days: f64,
+}
+
+/// One lift of a proposed sequence: `thickness_m` placed from `start` at the
+/// construction rate on working days.
+#[derive(Debug, Clone, Copy, Serialize)]
+pub struct ProposedLift {
+    pub thickness_m: f64,
+    pub start: NaiveDate,
+}
+
+impl Project {
+    /// Depth of the top of the stiff base below OGL, or of the profile bottom.
+    pub fn profile_depth_m(&self) -> f64 {
+        self.ground
+            .layers
+            .iter()
+            .filter(|l| !matches!(l.kind, LayerKind::StiffBase))
+            .map(|l| l.thickness_m)
+            .sum()
+    }
+
+    /// Highest crest the fill may reach above OGL, m (design + surcharge).
+    pub fn max_height_m(&self) -> f64 {
+        self.embankment.design_height_m + self.embankment.surcharge_height_m
+    }
+}
+
+impl Drains {
+    /// Diameter of the soil cylinder drained by one drain, de, m:
+    /// 1.05 s (triangular) or 1.128 s (square) (Barron 1948; Hansbo 1981).
+    pub fn influence_diameter_m(&self) -> f64 {
+        match self.pattern {
+            DrainPattern::Triangular => 1.05 * self.spacing_m,
+            DrainPattern::Square => 1.128 * self.spacing_m,
+        }
+    }
+}

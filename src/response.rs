@@ -1,0 +1,238 @@
+//! The ground response engine: several consolidation columns across the
+//! half-width (centreline, crest edge, mid-slope, toe and beyond), loaded by
+//! the embankment's elastic stress increments as the fill rises, with the
+//! settlement make-up fill and the buoyancy of fill that settles below the
+//! water table both part of the load. It owns the evolving `State` and the
+//! strength field the stability engine samples.
+
+use crate::consolidation::{Column, ColumnState};
+use crate::load::{self, Stress};
+use crate::model::*;
+use serde::Serialize;
+use std::sync::OnceLock;
+
+/// Spacing of the fill-thickness levels at which stress fields are computed
+/// and between which they are interpolated linearly, m.
+const LEVEL_M: f64 = 0.1;
+/// Number of cached levels (0 … 60 m).
+const LEVELS: usize = 601;
+
+/// The response engine for one project.
+pub struct Engine<'p> {
+    pub project: &'p Project,
+    pub columns: Vec<Column>,
+    /// Unit-weight stress fields per thickness level: [level] → [column][node].
+    table: Vec<OnceLock<Vec<Vec<Stress>>>>,
+}
+
+/// The state of the ground and the fill at one moment.
+#[derive(Debug, Clone)]
+pub struct State {
+    /// Days since the project start date (may be fractional).
+    pub day: f64,
+    /// Crest height above OGL that has been built (design profile), m.
+    pub height_m: f64,
+    /// Fill thickness as placed including settlement make-up, m.
+    pub placed_m: f64,
+    pub cols: Vec<ColumnState>,
+    /// Settlement per column, m.
+    pub settlement_m: Vec<f64>,
+}
+
+/// Named offsets of the columns, for reports.
+#[derive(Debug, Clone, Serialize)]
+pub struct ColumnInfo {
+    pub name: &'static str,
+    pub x_m: f64,
+}
+
+impl<'p> Engine<'p> {
+    /// Build the columns at the standard offsets of the final section.
+    pub fn new(project: &'p Project) -> Engine<'p> {
+        let columns = column_offsets(project)
+            .iter()
+            .map(|c| Column::new(project, c.x_m))
+            .collect();
+        let table = (0..LEVELS).map(|_| OnceLock::new()).collect();
+        Engine { project, columns, table }
+    }
+
+    /// Columns' names and offsets.
+    pub fn column_info(&self) -> Vec<ColumnInfo> {
+        column_offsets(self.project)
+    }
+
+    /// State before any fill.
+    pub fn initial_state(&self) -> State {
+        State {
+            day: 0.0,
+            height_m: 0.0,
+            placed_m: 0.0,
+            cols: self.columns.iter().map(|c| c.initial_state()).collect(),
+            settlement_m: vec![0.0; self.columns.len()],
+        }
+    }
+
+    fn level(&self, j: usize) -> &Vec<Vec<Stress>> {
+        self.table[j].get_or_init(|| self.field(j as f64 * LEVEL_M))
+    }
+
+    /// Stress fields for unit fill weight and thickness t (all columns).
+    fn field(&self, t: f64) -> Vec<Vec<Stress>> {
+        let prof = load::profile(&self.project.embankment, t);
+        self.columns
+            .iter()
+            .map(|c| c.nodes.iter().map(|n| load::stress(&prof, 1.0, c.x_m, n.z_m)).collect())
+            .collect()
+    }
+
+    /// Stress increments in column `c` under placed thickness t and fill
+    /// weight `gamma` kN/m³.
+    fn loads(&self, c: usize, t: f64, gamma: f64, out: &mut Vec<Stress>) {
+        out.clear();
+        let pos = t / LEVEL_M;
+        let j = pos.floor() as usize;
+        if j + 1 >= LEVELS {
+            let prof = load::profile(&self.project.embankment, t);
+            let col = &self.columns[c];
+            out.extend(col.nodes.iter().map(|n| load::stress(&prof, gamma, col.x_m, n.z_m)));
+            return;
+        }
+        let f = pos - j as f64;
+        let (lo, hi) = (&self.level(j)[c], &self.level(j + 1)[c]);
+        out.extend(lo.iter().zip(hi).map(|(a, b)| Stress {
+            sz: gamma * (a.sz + f * (b.sz - a.sz)),
+            sx: gamma * (a.sx + f * (b.sx - a.sx)),
+            txz: gamma * (a.txz + f * (b.txz - a.txz)),
+        }));
+    }
+
+    /// Advance by `dt_days` with the crest at `height_end_m` above OGL at the
+    /// end of the step. Fill is made up for settlement so far (one step
+    /// behind), and fill below the water table counts at submerged weight.
+    pub fn advance(&self, st: &mut State, dt_days: f64, height_end_m: f64) {
+        let e = &self.project.embankment;
+        let s_c = st.settlement_m[0];
+        let placed = if height_end_m > 0.0 { height_end_m + s_c } else { 0.0 };
+        let gamma = effective_fill_weight(e.fill_unit_weight_kn_m3, placed, s_c, self.project.ground.groundwater_depth_m);
+        let rule = self.project.analysis.pore_pressure;
+        let mut buf = Vec::new();
+        for (c, col) in self.columns.iter().enumerate() {
+            self.loads(c, placed, gamma, &mut buf);
+            col.step(&mut st.cols[c], &buf, rule, dt_days);
+            st.settlement_m[c] = col.settlement(&st.cols[c]);
+        }
+        st.day += dt_days;
+        st.height_m = height_end_m;
+        st.placed_m = placed;
+    }
+
+    /// Centreline settlement when the current load has fully consolidated, m.
+    pub fn final_settlement_centre(&self, st: &State) -> f64 {
+        self.columns[0].final_settlement(&st.cols[0])
+    }
+
+    /// Average degree of consolidation under the centreline (0–1).
+    pub fn degree_centre(&self, st: &State) -> f64 {
+        self.columns[0].degree(&st.cols[0])
+    }
+
+    /// Largest excess pore pressure anywhere, kPa.
+    pub fn peak_excess(&self, st: &State) -> f64 {
+        st.cols.iter().flat_map(|c| c.u.iter().copied()).fold(0.0, f64::max)
+    }
+
+    /// Value of a nodal quantity at depth z in column c (linear between nodes).
+    pub fn at_depth(&self, c: usize, z_m: f64, f: impl Fn(usize) -> f64) -> f64 {
+        let nodes = &self.columns[c].nodes;
+        let i = nodes.partition_point(|n| n.z_m < z_m).clamp(1, nodes.len() - 1);
+        let (a, b) = (&nodes[i - 1], &nodes[i]);
+        let w = ((z_m - a.z_m) / (b.z_m - a.z_m)).clamp(0.0, 1.0);
+        f(i - 1) * (1.0 - w) + f(i) * w
+    }
+
+    /// Excess pore pressure at depth z in column c, kPa.
+    pub fn excess_at(&self, st: &State, c: usize, z_m: f64) -> f64 {
+        self.at_depth(c, z_m, |i| st.cols[c].u[i])
+    }
+
+    /// Undrained strength at depth z in column c, kPa.
+    pub fn su_at(&self, st: &State, c: usize, z_m: f64) -> f64 {
+        let col = &self.columns[c];
+        self.at_depth(c, z_m, |i| col.su(&st.cols[c], i))
+    }
+
+    /// The strength field of the current state, for the stability engine.
+    pub fn su_field(&self, st: &State) -> SuField {
+        SuField {
+            xs: self.columns.iter().map(|c| c.x_m).collect(),
+            zs: self.columns[0].nodes.iter().map(|n| n.z_m).collect(),
+            su: self
+                .columns
+                .iter()
+                .zip(&st.cols)
+                .map(|(col, s)| (0..col.nodes.len()).map(|i| col.su(s, i)).collect())
+                .collect(),
+        }
+    }
+}
+
+/// Fill unit weight averaged over the placed thickness, kN/m³, with the part
+/// that has settled below the water table at submerged weight.
+pub fn effective_fill_weight(gamma: f64, placed_m: f64, settlement_m: f64, water_depth_m: f64) -> f64 {
+    if placed_m <= 0.0 {
+        return gamma;
+    }
+    let submerged = (settlement_m - water_depth_m).clamp(0.0, placed_m);
+    gamma - GAMMA_W * submerged / placed_m
+}
+
+/// Column offsets: centreline, crest edge, mid-slope, toe, and two beyond the
+/// toe (half and one and a half times the compressible depth).
+pub fn column_offsets(project: &Project) -> Vec<ColumnInfo> {
+    let prof = load::profile(&project.embankment, project.max_height_m());
+    let b = 0.5 * project.embankment.crest_width_m;
+    let toe = prof.last().map_or(b, |p| p.0);
+    let d = project.profile_depth_m();
+    vec![
+        ColumnInfo { name: "centreline", x_m: 0.0 },
+        ColumnInfo { name: "crest edge", x_m: b },
+        ColumnInfo { name: "mid-slope", x_m: 0.5 * (b + toe) },
+        ColumnInfo { name: "toe", x_m: toe },
+        ColumnInfo { name: "beyond toe", x_m: toe + 0.5 * d },
+        ColumnInfo { name: "far field", x_m: toe + 1.5 * d },
+    ]
+}
+
+/// Undrained strength sampled on the columns: su[column][node], kPa. All
+/// columns share one depth grid.
+#[derive(Debug, Clone)]
+pub struct SuField {
+    pub xs: Vec<f64>,
+    pub zs: Vec<f64>,
+    pub su: Vec<Vec<f64>>,
+}
+
+impl SuField {
+    /// su at offset x (symmetric about the centreline) and depth z below OGL:
+    /// linear in z on each column, linear in x between columns, constant
+    /// beyond the outermost column.
+    pub fn sample(&self, x: f64, z: f64) -> f64 {
+        let x = x.abs();
+        let j = self.xs.partition_point(|&c| c < x);
+        if j == 0 {
+            return self.on_column(0, z);
+        }
+        if j >= self.xs.len() {
+            return self.on_column(self.xs.len() - 1, z);
+        }
+        let w = (x - self.xs[j - 1]) / (self.xs[j] - self.xs[j - 1]);
+        self.on_column(j - 1, z) * (1.0 - w) + self.on_column(j, z) * w
+    }
+
+    fn on_column(&self, c: usize, z: f64) -> f64 {
+        let i = self.zs.partition_point(|&d| d < z).clamp(1, self.zs.len() - 1);
+        let w = ((z - self.zs[i - 1]) / (self.zs[i] - self.zs[i - 1])).clamp(0.0, 1.0);
+        self.su[c][i - 1] * (1.0 - w) + self.su[c][i] * w
+    }
+}
