@@ -13,6 +13,7 @@ pub mod input;
 pub mod load;
 pub mod model;
 pub mod response;
+pub mod stability;
 
 #[cfg(test)]
 pub(crate) mod fixtures;

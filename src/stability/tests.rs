@@ -1,0 +1,157 @@
+//! Checks of the stability engine against classical published solutions.
+
+use super::search::search;
+use super::*;
+use crate::fixtures;
+
+/// A strength field with the same su everywhere.
+fn uniform_su(su: f64) -> SuField {
+    SuField { xs: vec![0.0, 1.0e4], zs: vec![0.0, 100.0], su: vec![vec![su, su], vec![su, su]] }
+}
+
+/// Deep uniform clay (40 m, su given by the field) under a strip of width
+/// 2 m carrying q: a 1 cm "fill" of weight q/0.01 with no strength.
+fn strip_project(q: f64) -> Project {
+    let mut p = fixtures::uniform_clay(40.0, 1.0, "drained", "");
+    p.embankment.crest_width_m = 2.0;
+    p.embankment.side_slope_h_per_v = 0.001;
+    p.embankment.fill_friction_deg = 0.0;
+    p.embankment.fill_unit_weight_kn_m3 = q / 0.01;
+    p
+}
+
+#[test]
+fn strip_load_on_clay_fellenius_circle() {
+    // Fellenius (1927): the critical circle under a strip load on φ = 0 clay
+    // fails at q = 5.52 su, so FS = 5.52 su/q (within 1.5%), and never below
+    // Prandtl's 5.14 su/q.
+    let (su, q) = (10.0, 50.0);
+    let p = strip_project(q);
+    let field = uniform_su(su);
+    let s = Section::new(&p, 0.01, &field);
+    let r = search(&s).unwrap();
+    let expect = 5.52 * su / q;
+    assert!((r.critical.fs - expect).abs() < 0.015 * expect, "FS = {} vs {expect}", r.critical.fs);
+    assert!(r.critical.fs > 5.14 * su / q);
+    assert!(r.circles_tried >= 2000);
+}
+
+#[test]
+fn fs_scales_with_su_in_phi_zero_problem() {
+    // φ = 0: FS is proportional to su (exact for any method).
+    let p = strip_project(50.0);
+    let (f1, f2) = (uniform_su(10.0), uniform_su(20.0));
+    let c = Circle { xc_m: 1.0, yc_m: 0.7, r_m: 2.2 };
+    let a = Section::new(&p, 0.01, &f1).analyse(c).unwrap();
+    let b = Section::new(&p, 0.01, &f2).analyse(c).unwrap();
+    assert!((b.fs / a.fs - 2.0).abs() < 1e-9);
+}
+
+/// Homogeneous φ = 0 slope: the slope body is fill with c' = su and the
+/// foundation 40 m of the same clay.
+fn taylor_project(su: f64, gamma: f64, h: f64, n: f64) -> Project {
+    let mut p = fixtures::uniform_clay(40.0, 1.0, "drained", "");
+    p.ground.groundwater_depth_m = 50.0;
+    for l in &mut p.ground.layers {
+        l.unit_weight_kn_m3 = gamma;
+        l.saturated_unit_weight_kn_m3 = gamma;
+    }
+    let e = &mut p.embankment;
+    e.design_height_m = h;
+    e.crest_width_m = 200.0;
+    e.side_slope_h_per_v = n;
+    e.fill_unit_weight_kn_m3 = gamma;
+    e.fill_cohesion_kpa = su;
+    e.fill_friction_deg = 0.0;
+    p.stability.fill_tension_crack = false;
+    p
+}
+
+#[test]
+fn taylor_deep_base_failure_stability_number() {
+    // Taylor (1948): a φ = 0 slope flatter than 53° on a deep deposit fails
+    // by a deep base circle at the stability number N = γH/cm = 5.52, where
+    // cm = su/FS is the mobilised strength (within 3%).
+    let (su, gamma, h) = (20.0, 18.0, 5.0);
+    let p = taylor_project(su, gamma, h, 2.0);
+    let field = uniform_su(su);
+    let s = Section::new(&p, h, &field);
+    let r = search(&s).unwrap();
+    let n = gamma * h * r.critical.fs / su;
+    assert!((n - 5.52).abs() < 0.03 * 5.52, "N = {n}, FS = {}", r.critical.fs);
+}
+
+#[test]
+fn verruijt_c_phi_slope() {
+    // Verruijt (Soil Mechanics, Delft), as used for code_aster benchmark
+    // SSNP006 (V6.03.006): homogeneous slope 4.5 m high at 1:2, γ = 16 kN/m³,
+    // c' = 5 kPa, φ' = 20°, dry; Bishop simplified FS = 1.534 (Plaxis SRM
+    // 1.54). Foundation 2 m of the same soil on a rigid base. Within 3%.
+    let mut p = fixtures::uniform_clay(2.0, 1.0, "drained", "");
+    p.ground.groundwater_depth_m = 10.0;
+    p.ground.layers[0].kind = LayerKind::Sand { friction_deg: 20.0, cohesion_kpa: 5.0 };
+    for l in &mut p.ground.layers {
+        l.unit_weight_kn_m3 = 16.0;
+        l.saturated_unit_weight_kn_m3 = 16.0;
+    }
+    let e = &mut p.embankment;
+    e.design_height_m = 4.5;
+    e.crest_width_m = 60.0;
+    e.side_slope_h_per_v = 2.0;
+    e.fill_unit_weight_kn_m3 = 16.0;
+    e.fill_cohesion_kpa = 5.0;
+    e.fill_friction_deg = 20.0;
+    p.stability.fill_tension_crack = false;
+    let field = uniform_su(1.0);
+    let r = search(&Section::new(&p, 4.5, &field)).unwrap();
+    assert!((r.critical.fs - 1.534).abs() < 0.03 * 1.534, "FS = {}", r.critical.fs);
+    // Bishop and Ordinary agree roughly; Ordinary is usually lower for c-φ.
+    assert!(r.critical.fs_ordinary <= r.critical.fs * 1.02);
+}
+
+#[test]
+fn fs_independent_of_slice_count_beyond_thirty() {
+    let p = taylor_project(20.0, 18.0, 5.0, 2.0);
+    let field = uniform_su(20.0);
+    let c = Circle { xc_m: 108.0, yc_m: 15.0, r_m: 25.0 };
+    let mut fs = Vec::new();
+    for n in [30, 60, 240] {
+        let mut q = p.clone();
+        q.stability.slices = n;
+        fs.push(Section::new(&q, 5.0, &field).analyse(c).unwrap().fs);
+    }
+    for f in &fs {
+        assert!((f - fs[2]).abs() < 0.005 * fs[2], "{fs:?}");
+    }
+}
+
+#[test]
+fn reinforcement_never_lowers_fs() {
+    let mut p = taylor_project(20.0, 18.0, 5.0, 2.0);
+    let field = uniform_su(20.0);
+    let plain = search(&Section::new(&p, 5.0, &field)).unwrap().critical.fs;
+    p.embankment.reinforcement_kn_per_m = 200.0;
+    let reinforced = search(&Section::new(&p, 5.0, &field)).unwrap().critical.fs;
+    assert!(reinforced >= plain - 1e-6, "{reinforced} < {plain}");
+}
+
+#[test]
+fn berm_never_lowers_fs_of_through_toe_mechanism() {
+    let mut p = taylor_project(20.0, 18.0, 5.0, 2.0);
+    let field = uniform_su(20.0);
+    let plain = search(&Section::new(&p, 5.0, &field)).unwrap().critical.fs;
+    p.embankment.berms = vec![Berm { width_m: 8.0, height_m: 2.0 }];
+    let bermed = search(&Section::new(&p, 5.0, &field)).unwrap().critical.fs;
+    assert!(bermed >= plain - 1e-6, "{bermed} < {plain}");
+}
+
+#[test]
+fn circle_missing_the_ground_is_rejected() {
+    let p = taylor_project(20.0, 18.0, 5.0, 2.0);
+    let field = uniform_su(20.0);
+    let s = Section::new(&p, 5.0, &field);
+    let miss = s.analyse(Circle { xc_m: 100.0, yc_m: 20.0, r_m: 5.0 });
+    assert_eq!(miss.unwrap_err(), Reject::NoIntersection);
+    let deep = s.analyse(Circle { xc_m: 100.0, yc_m: 20.0, r_m: 80.0 });
+    assert_eq!(deep.unwrap_err(), Reject::IntoBase);
+}
