@@ -34,25 +34,16 @@ impl fmt::Display for InputIssue {
 pub enum Error {
     /// A file could not be read.
     #[error("cannot read {}: {source}", path.display())]
-    Read {
-        path: PathBuf,
-        source: std::io::Error,
-    },
+    Read { path: PathBuf, source: std::io::Error },
     /// An input file has one or more problems.
     #[error("{}", render_issues(file, issues))]
-    Input {
-        file: String,
-        issues: Vec<InputIssue>,
-    },
+    Input { file: String, issues: Vec<InputIssue> },
     /// A command-line value is out of range or inconsistent with the project.
     #[error("{0}")]
     Usage(String),
     /// An output could not be written (nothing partial is left behind).
     #[error("cannot write {}: {source}", path.display())]
-    Write {
-        path: PathBuf,
-        source: std::io::Error,
-    },
+    Write { path: PathBuf, source: std::io::Error },
     /// A computation could not produce a trustworthy answer.
     #[error("{0}")]
     Computation(String),

@@ -221,6 +221,75 @@ pub fn node_at_layer(project: &Project, z_m: f64, li: usize) -> Node {
     node
 }
 
+/// One row of the layer table of `fillpace check`.
+#[derive(Debug, Clone, Serialize)]
+pub struct LayerRow {
+    pub name: String,
+    /// "clay", "sand" or "stiff-base".
+    pub kind: &'static str,
+    pub top_m: f64,
+    pub thickness_m: f64,
+    pub unit_weight_kn_m3: f64,
+    pub saturated_unit_weight_kn_m3: f64,
+    /// Cc/(1+e0), clay only.
+    pub compression_ratio: Option<f64>,
+    /// cv and ch, m²/year, clay only.
+    pub cv_m2_per_year: Option<f64>,
+    pub ch_m2_per_year: Option<f64>,
+}
+
+/// The initial ground model: layers and a sampled depth profile.
+#[derive(Debug, Clone, Serialize)]
+pub struct Summary {
+    pub groundwater_depth_m: f64,
+    pub base_drained: bool,
+    pub layers: Vec<LayerRow>,
+    /// Initial state sampled every `step` m and at layer mid-depths.
+    pub profile: Vec<Node>,
+}
+
+/// Build the initial ground model summary, profile sampled every `step_m`.
+pub fn summary(project: &Project, step_m: f64) -> Summary {
+    let g = &project.ground;
+    let mut layers = Vec::new();
+    let mut top = 0.0;
+    for l in &g.layers {
+        let (kind, ratio, cv, ch) = match &l.kind {
+            LayerKind::Clay(c) => (
+                "clay",
+                Some(c.cc / (1.0 + c.e0)),
+                Some(c.cv_m2_per_day * DAYS_PER_YEAR),
+                Some(c.ch_m2_per_day * DAYS_PER_YEAR),
+            ),
+            LayerKind::Sand { .. } => ("sand", None, None, None),
+            LayerKind::StiffBase => ("stiff-base", None, None, None),
+        };
+        layers.push(LayerRow {
+            name: l.name.clone(),
+            kind,
+            top_m: top,
+            thickness_m: l.thickness_m,
+            unit_weight_kn_m3: l.unit_weight_kn_m3,
+            saturated_unit_weight_kn_m3: l.saturated_unit_weight_kn_m3,
+            compression_ratio: ratio,
+            cv_m2_per_year: cv,
+            ch_m2_per_year: ch,
+        });
+        top += l.thickness_m;
+    }
+    let depth = project.profile_depth_m();
+    let n = (depth / step_m).ceil() as usize;
+    let profile = (0..=n)
+        .map(|k| node_at(project, (k as f64 * step_m).min(depth)))
+        .collect();
+    Summary {
+        groundwater_depth_m: g.groundwater_depth_m,
+        base_drained: g.base_drained,
+        layers,
+        profile,
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -234,14 +303,29 @@ mod tests {
             preconsolidation: Preconsolidation::Ocr(1.0),
             cv_m2_per_day: 0.01,
             ch_m2_per_day: 0.01,
-            strength: Strength { model: StrengthModel::Shansep { s: 0.22, m: 0.8 }, su0_points: vec![] },
+            strength: Strength {
+                model: StrengthModel::Shansep { s: 0.22, m: 0.8 },
+                su0_points: vec![],
+            },
         };
         Ground {
             groundwater_depth_m: 1.0,
             base_drained: true,
             layers: vec![
-                Layer { name: "crust".into(), thickness_m: 2.0, unit_weight_kn_m3: 17.0, saturated_unit_weight_kn_m3: 18.0, kind: LayerKind::Clay(clay.clone()) },
-                Layer { name: "soft".into(), thickness_m: 10.0, unit_weight_kn_m3: 15.0, saturated_unit_weight_kn_m3: 16.0, kind: LayerKind::Clay(clay) },
+                Layer {
+                    name: "crust".into(),
+                    thickness_m: 2.0,
+                    unit_weight_kn_m3: 17.0,
+                    saturated_unit_weight_kn_m3: 18.0,
+                    kind: LayerKind::Clay(clay.clone()),
+                },
+                Layer {
+                    name: "soft".into(),
+                    thickness_m: 10.0,
+                    unit_weight_kn_m3: 15.0,
+                    saturated_unit_weight_kn_m3: 16.0,
+                    kind: LayerKind::Clay(clay),
+                },
             ],
         }
     }
@@ -273,14 +357,30 @@ mod tests {
         // S = H/(1+e0) [Cr log(σ'p/σ'0) + Cc log(σ'f/σ'p)] with H = 4 m,
         // e0 = 1.2, Cc = 0.6, Cr = 0.06, σ'0 = 40, σ'p = 60, Δσ = 60 kPa
         // (textbook e–log σ' rule) gives 0.261 m.
-        let clay = ClayProps { e0: 1.2, cc: 0.6, cr: 0.06, c_alpha: 0.0, cv_m2_per_day: 0.0, ch_m2_per_day: 0.0, model: StrengthModel::GainRatio { ratio: 0.0 } };
+        let clay = ClayProps {
+            e0: 1.2,
+            cc: 0.6,
+            cr: 0.06,
+            c_alpha: 0.0,
+            cv_m2_per_day: 0.0,
+            ch_m2_per_day: 0.0,
+            model: StrengthModel::GainRatio { ratio: 0.0 },
+        };
         let s = 4.0 * strain(&clay, 40.0, 60.0, 100.0, 100.0);
         assert!((s - 0.261).abs() < 0.261 * 0.005, "s = {s}");
     }
 
     #[test]
     fn strain_swells_back_with_cr() {
-        let clay = ClayProps { e0: 1.0, cc: 0.5, cr: 0.05, c_alpha: 0.0, cv_m2_per_day: 0.0, ch_m2_per_day: 0.0, model: StrengthModel::GainRatio { ratio: 0.0 } };
+        let clay = ClayProps {
+            e0: 1.0,
+            cc: 0.5,
+            cr: 0.05,
+            c_alpha: 0.0,
+            cv_m2_per_day: 0.0,
+            ch_m2_per_day: 0.0,
+            model: StrengthModel::GainRatio { ratio: 0.0 },
+        };
         let loaded = strain(&clay, 50.0, 50.0, 100.0, 100.0);
         let unloaded = strain(&clay, 50.0, 50.0, 100.0, 50.0);
         assert!((loaded - unloaded - 0.05 * 2f64.log10() / 2.0).abs() < 1e-12);

@@ -6,13 +6,18 @@
 //! factor of safety on slip circles; `schedule` plans the lifts on a working
 //! calendar; `report` writes the results. `main.rs` only wires these up.
 
+pub mod app;
+pub mod cli;
 pub mod consolidation;
 pub mod error;
 pub mod ground;
 pub mod input;
 pub mod load;
 pub mod model;
+pub mod output;
+pub mod report;
 pub mod response;
+pub mod schedule;
 pub mod stability;
 
 #[cfg(test)]

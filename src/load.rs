@@ -172,8 +172,7 @@ mod tests {
         // the embankment (crest half-width b, slope width a) at its centreline.
         // Half embankment = uniform strip 0..b plus falling ramp b..a+b.
         let z = 1.0;
-        let s = uniform_strip(1.0, 0.0, 1.0, 0.0, z).sz
-            + piece(1.0, 1.0, 2.0, 0.0, 0.0, z).sz;
+        let s = uniform_strip(1.0, 0.0, 1.0, 0.0, z).sz + piece(1.0, 1.0, 2.0, 0.0, 0.0, z).sz;
         assert!((s - 0.455).abs() < 0.002, "I = {s}");
     }
 
@@ -218,7 +217,10 @@ mod tests {
             fill_cohesion_kpa: 0.0,
             fill_friction_deg: 30.0,
             surcharge_height_m: 0.0,
-            berms: vec![crate::model::Berm { width_m: 5.0, height_m: 2.0 }],
+            berms: vec![crate::model::Berm {
+                width_m: 5.0,
+                height_m: 2.0,
+            }],
             reinforcement_kn_per_m: 0.0,
         };
         let p = profile(&e, 6.0);

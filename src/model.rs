@@ -228,8 +228,9 @@ pub struct Criteria {
 pub struct StabilityOptions {
     /// Factor applied to fill c' and tan φ' (1 = full drained strength).
     pub fill_strength_factor: f64,
-    /// Whether the fill carries no shear on the active side of a circle
-    /// (a tension crack through the fill). Default true: see DEVELOPERS.md.
+    /// Whether the fill is cracked (no shear) where the slip surface rises
+    /// through it on the active side more steeply than the Rankine active
+    /// plane 45° + φ'/2. Default true: see DEVELOPERS.md.
     pub fill_tension_crack: bool,
     /// Number of slices per circle (≥ 30).
     pub slices: usize,

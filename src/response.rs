@@ -54,7 +54,11 @@ impl<'p> Engine<'p> {
             .map(|c| Column::new(project, c.x_m))
             .collect();
         let table = (0..LEVELS).map(|_| OnceLock::new()).collect();
-        Engine { project, columns, table }
+        Engine {
+            project,
+            columns,
+            table,
+        }
     }
 
     /// Columns' names and offsets.
@@ -74,11 +78,11 @@ impl<'p> Engine<'p> {
     }
 
     fn level(&self, j: usize) -> &Vec<Vec<Stress>> {
-        self.table[j].get_or_init(|| self.field(j as f64 * LEVEL_M))
+        self.table[j].get_or_init(|| self.unit_stress(j as f64 * LEVEL_M))
     }
 
     /// Stress fields for unit fill weight and thickness t (all columns).
-    fn field(&self, t: f64) -> Vec<Vec<Stress>> {
+    fn unit_stress(&self, t: f64) -> Vec<Vec<Stress>> {
         let prof = load::profile(&self.project.embankment, t);
         self.columns
             .iter()
@@ -114,7 +118,12 @@ impl<'p> Engine<'p> {
         let e = &self.project.embankment;
         let s_c = st.settlement_m[0];
         let placed = if height_end_m > 0.0 { height_end_m + s_c } else { 0.0 };
-        let gamma = effective_fill_weight(e.fill_unit_weight_kn_m3, placed, s_c, self.project.ground.groundwater_depth_m);
+        let gamma = effective_fill_weight(
+            e.fill_unit_weight_kn_m3,
+            placed,
+            s_c,
+            self.project.ground.groundwater_depth_m,
+        );
         let rule = self.project.analysis.pore_pressure;
         let mut buf = Vec::new();
         for (c, col) in self.columns.iter().enumerate() {
@@ -162,11 +171,13 @@ impl<'p> Engine<'p> {
         self.at_depth(c, z_m, |i| col.su(&st.cols[c], i))
     }
 
-    /// The strength field of the current state, for the stability engine.
-    pub fn su_field(&self, st: &State) -> SuField {
-        SuField {
+    /// Strength and settlement of the current state, for the stability
+    /// engine.
+    pub fn field(&self, st: &State) -> GroundField {
+        GroundField {
             xs: self.columns.iter().map(|c| c.x_m).collect(),
             zs: self.columns[0].nodes.iter().map(|n| n.z_m).collect(),
+            settlement_m: st.settlement_m.clone(),
             su: self
                 .columns
                 .iter()
@@ -195,25 +206,57 @@ pub fn column_offsets(project: &Project) -> Vec<ColumnInfo> {
     let toe = prof.last().map_or(b, |p| p.0);
     let d = project.profile_depth_m();
     vec![
-        ColumnInfo { name: "centreline", x_m: 0.0 },
-        ColumnInfo { name: "crest edge", x_m: b },
-        ColumnInfo { name: "mid-slope", x_m: 0.5 * (b + toe) },
+        ColumnInfo {
+            name: "centreline",
+            x_m: 0.0,
+        },
+        ColumnInfo {
+            name: "crest edge",
+            x_m: b,
+        },
+        ColumnInfo {
+            name: "mid-slope",
+            x_m: 0.5 * (b + toe),
+        },
         ColumnInfo { name: "toe", x_m: toe },
-        ColumnInfo { name: "beyond toe", x_m: toe + 0.5 * d },
-        ColumnInfo { name: "far field", x_m: toe + 1.5 * d },
+        ColumnInfo {
+            name: "beyond toe",
+            x_m: toe + 0.5 * d,
+        },
+        ColumnInfo {
+            name: "far field",
+            x_m: toe + 1.5 * d,
+        },
     ]
 }
 
-/// Undrained strength sampled on the columns: su[column][node], kPa. All
-/// columns share one depth grid.
+/// The ground's state as the stability engine needs it: undrained strength
+/// on the columns, su[column][node] kPa at original depths (all columns share
+/// one depth grid), and the surface settlement of each column, m.
 #[derive(Debug, Clone)]
-pub struct SuField {
+pub struct GroundField {
     pub xs: Vec<f64>,
     pub zs: Vec<f64>,
     pub su: Vec<Vec<f64>>,
+    pub settlement_m: Vec<f64>,
 }
 
-impl SuField {
+impl GroundField {
+    /// Surface settlement at offset x, m (linear between columns, constant
+    /// beyond the outermost).
+    pub fn settlement(&self, x: f64) -> f64 {
+        let x = x.abs();
+        let j = self.xs.partition_point(|&c| c < x);
+        if j == 0 {
+            return self.settlement_m[0];
+        }
+        if j >= self.xs.len() {
+            return self.settlement_m[self.xs.len() - 1];
+        }
+        let w = (x - self.xs[j - 1]) / (self.xs[j] - self.xs[j - 1]);
+        self.settlement_m[j - 1] * (1.0 - w) + self.settlement_m[j] * w
+    }
+
     /// su at offset x (symmetric about the centreline) and depth z below OGL:
     /// linear in z on each column, linear in x between columns, constant
     /// beyond the outermost column.

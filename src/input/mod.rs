@@ -33,10 +33,7 @@ pub fn parse(text: &str, file: &str) -> Result<Project> {
     let mut on_unknown = |p: serde_ignored::Path<'_>| unknown.push(ignored_path(&p));
     let de = serde_ignored::Deserializer::new(toml::Value::Table(table), &mut on_unknown);
     let typed: std::result::Result<RawProject, _> = serde_path_to_error::deserialize(de);
-    let mut issues: Vec<InputIssue> = unknown
-        .iter()
-        .map(|p| unknown_key_issue(p, &lines))
-        .collect();
+    let mut issues: Vec<InputIssue> = unknown.iter().map(|p| unknown_key_issue(p, &lines)).collect();
     match typed {
         Err(e) => {
             let key = error_path(e.path());
@@ -59,7 +56,7 @@ pub fn parse(text: &str, file: &str) -> Result<Project> {
 }
 
 fn describe_serde(msg: &str) -> String {
-    let msg = msg.trim_end_matches(|c| c == '\n');
+    let msg = msg.trim_end_matches('\n');
     if msg.starts_with("missing field") {
         format!("{msg}: this key is required (see the project-file reference in README.md)")
     } else {
@@ -80,9 +77,7 @@ fn ignored_path(p: &serde_ignored::Path<'_>) -> String {
                 format!("{head}.{key}")
             }
         }
-        P::Some { parent } | P::NewtypeStruct { parent } | P::NewtypeVariant { parent } => {
-            ignored_path(parent)
-        }
+        P::Some { parent } | P::NewtypeStruct { parent } | P::NewtypeVariant { parent } => ignored_path(parent),
     }
 }
 

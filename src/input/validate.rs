@@ -41,7 +41,10 @@ impl Check<'_> {
             Low::Excl(b) => (v > b, format!("{b} < {short}")),
         };
         if !v.is_finite() {
-            self.bad(key, format!("= {v} is not a finite number; allowed: {low_text} ≤ {high}"));
+            self.bad(
+                key,
+                format!("= {v} is not a finite number; allowed: {low_text} ≤ {high}"),
+            );
         } else if !ok_low || v > high {
             self.bad(key, format!("= {v} is out of range; allowed: {low_text} ≤ {high}"));
         }
@@ -87,7 +90,10 @@ impl Check<'_> {
             Some(s) => match allowed.iter().find(|a| **a == s) {
                 Some(a) => a,
                 None => {
-                    self.bad(key, format!("= \"{s}\" is not allowed; use one of: {}", allowed.join(", ")));
+                    self.bad(
+                        key,
+                        format!("= \"{s}\" is not allowed; use one of: {}", allowed.join(", ")),
+                    );
                     allowed[0]
                 }
             },
@@ -97,7 +103,10 @@ impl Check<'_> {
 
 /// Validate the whole raw project.
 pub fn project(raw: &RawProject, lines: &LineMap) -> Result<Project, Vec<InputIssue>> {
-    let mut c = Check { lines, issues: Vec::new() };
+    let mut c = Check {
+        lines,
+        issues: Vec::new(),
+    };
     let info = info(&mut c, &raw.project);
     let ground = ground(&mut c, &raw.ground);
     let embankment = embankment(&mut c, &raw.embankment);
@@ -134,13 +143,28 @@ fn info(c: &mut Check, r: &RawInfo) -> ProjectInfo {
         location: r.location.clone().unwrap_or_default(),
         revision: r.revision.clone().unwrap_or_else(|| "-".into()),
         start_date: c.date("project.start_date", &r.start_date),
-        design_life_years: c.opt("project.design_life_years", r.design_life_years, 20.0, Low::Excl(0.0), 200.0),
+        design_life_years: c.opt(
+            "project.design_life_years",
+            r.design_life_years,
+            20.0,
+            Low::Excl(0.0),
+            200.0,
+        ),
     }
 }
 
 fn ground(c: &mut Check, r: &RawGround) -> Ground {
-    let base_drained = c.choice("ground.base_drainage", r.base_drainage.as_deref(), &["drained", "undrained"]) == "drained";
-    let gwd = c.num("ground.groundwater_depth_m", r.groundwater_depth_m, Low::Incl(0.0), 50.0);
+    let base_drained = c.choice(
+        "ground.base_drainage",
+        r.base_drainage.as_deref(),
+        &["drained", "undrained"],
+    ) == "drained";
+    let gwd = c.num(
+        "ground.groundwater_depth_m",
+        r.groundwater_depth_m,
+        Low::Incl(0.0),
+        50.0,
+    );
     if r.layers.is_empty() {
         c.bad("ground.layers", "is empty; give at least one clay layer".into());
     }
@@ -152,13 +176,27 @@ fn ground(c: &mut Check, r: &RawGround) -> Ground {
         layers.push(layer);
     }
     if !r.layers.is_empty() && !layers.iter().any(|l| matches!(l.kind, LayerKind::Clay(_))) {
-        c.bad("ground.layers", "has no layer of kind = \"clay\"; at least one is needed".into());
+        c.bad(
+            "ground.layers",
+            "has no layer of kind = \"clay\"; at least one is needed".into(),
+        );
     }
-    let depth: f64 = layers.iter().filter(|l| !matches!(l.kind, LayerKind::StiffBase)).map(|l| l.thickness_m).sum();
+    let depth: f64 = layers
+        .iter()
+        .filter(|l| !matches!(l.kind, LayerKind::StiffBase))
+        .map(|l| l.thickness_m)
+        .sum();
     if depth > 80.0 {
-        c.bad("ground.layers", format!("total thickness {depth} m above the base exceeds the supported 80 m"));
+        c.bad(
+            "ground.layers",
+            format!("total thickness {depth} m above the base exceeds the supported 80 m"),
+        );
     }
-    Ground { groundwater_depth_m: gwd, layers, base_drained }
+    Ground {
+        groundwater_depth_m: gwd,
+        layers,
+        base_drained,
+    }
 }
 
 fn layer(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, last: bool) -> Layer {
@@ -171,17 +209,32 @@ fn layer(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, last: bool) -> Laye
         (Some(t), _) => c.num(&k("thickness_m"), t, Low::Excl(0.0), 60.0),
         (None, "stiff-base") => 0.0,
         (None, _) => {
-            c.bad(&k("thickness_m"), "is missing; every clay or sand layer needs a thickness".into());
+            c.bad(
+                &k("thickness_m"),
+                "is missing; every clay or sand layer needs a thickness".into(),
+            );
             1.0
         }
     };
     if kind_name == "stiff-base" && !last {
-        c.bad(&k("kind"), "= \"stiff-base\" is only allowed for the lowest layer".into());
+        c.bad(
+            &k("kind"),
+            "= \"stiff-base\" is only allowed for the lowest layer".into(),
+        );
     }
     let gamma = c.num(&k("unit_weight_kn_m3"), r.unit_weight_kn_m3, Low::Incl(10.0), 25.0);
-    let gamma_sat = c.opt(&k("saturated_unit_weight_kn_m3"), r.saturated_unit_weight_kn_m3, gamma, Low::Incl(10.0), 25.0);
+    let gamma_sat = c.opt(
+        &k("saturated_unit_weight_kn_m3"),
+        r.saturated_unit_weight_kn_m3,
+        gamma,
+        Low::Incl(10.0),
+        25.0,
+    );
     if gamma_sat < gamma {
-        c.bad(&k("saturated_unit_weight_kn_m3"), format!("= {gamma_sat} must not be smaller than unit_weight_kn_m3 ({gamma})"));
+        c.bad(
+            &k("saturated_unit_weight_kn_m3"),
+            format!("= {gamma_sat} must not be smaller than unit_weight_kn_m3 ({gamma})"),
+        );
     }
     let kind = match kind_name {
         "clay" => LayerKind::Clay(clay(c, key, r, top_m, thickness_m)),
@@ -191,7 +244,13 @@ fn layer(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, last: bool) -> Laye
         },
         _ => LayerKind::StiffBase,
     };
-    Layer { name: r.name.clone(), thickness_m, unit_weight_kn_m3: gamma, saturated_unit_weight_kn_m3: gamma_sat, kind }
+    Layer {
+        name: r.name.clone(),
+        thickness_m,
+        unit_weight_kn_m3: gamma,
+        saturated_unit_weight_kn_m3: gamma_sat,
+        kind,
+    }
 }
 
 fn clay(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, thickness_m: f64) -> Clay {
@@ -206,16 +265,35 @@ fn clay(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, thickness_m: f64) ->
     let cc = need(c, "cc", r.cc);
     let cr = need(c, "cr", r.cr);
     let cv = need(c, "cv_m2_per_year", r.cv_m2_per_year);
-    let e0 = if e0.is_nan() { 1.0 } else { c.num(&k("e0"), e0, Low::Excl(0.1), 10.0) };
-    let cc = if cc.is_nan() { 1.0 } else { c.num(&k("cc"), cc, Low::Excl(0.0), 5.0) };
-    let cr = if cr.is_nan() { 0.1 } else { c.num(&k("cr"), cr, Low::Excl(0.0), 1.0) };
+    let e0 = if e0.is_nan() {
+        1.0
+    } else {
+        c.num(&k("e0"), e0, Low::Excl(0.1), 10.0)
+    };
+    let cc = if cc.is_nan() {
+        1.0
+    } else {
+        c.num(&k("cc"), cc, Low::Excl(0.0), 5.0)
+    };
+    let cr = if cr.is_nan() {
+        0.1
+    } else {
+        c.num(&k("cr"), cr, Low::Excl(0.0), 1.0)
+    };
     if cr >= cc {
         c.bad(&k("cr"), format!("= {cr} must be smaller than cc ({cc})"));
     }
-    let cv = if cv.is_nan() { 1.0 } else { c.num(&k("cv_m2_per_year"), cv, Low::Excl(0.0), 1000.0) };
+    let cv = if cv.is_nan() {
+        1.0
+    } else {
+        c.num(&k("cv_m2_per_year"), cv, Low::Excl(0.0), 1000.0)
+    };
     let ch = match (r.ch_m2_per_year, r.ch_over_cv) {
         (Some(_), Some(_)) => {
-            c.bad(&k("ch_over_cv"), "give either ch_m2_per_year or ch_over_cv, not both".into());
+            c.bad(
+                &k("ch_over_cv"),
+                "give either ch_m2_per_year or ch_over_cv, not both".into(),
+            );
             cv
         }
         (Some(ch), None) => c.num(&k("ch_m2_per_year"), ch, Low::Excl(0.0), 1000.0),
@@ -263,13 +341,21 @@ fn strength(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, thickness_m: f64
         }
         _ => {
             if su0_points.is_empty() {
-                c.bad(&k("strength"), "= \"gain-ratio\" needs a measured su0 profile (su0_top_kpa/su0_bottom_kpa or su0_points)".into());
+                c.bad(
+                    &k("strength"),
+                    "= \"gain-ratio\" needs a measured su0 profile (su0_top_kpa/su0_bottom_kpa or su0_points)".into(),
+                );
             }
             let ratio = r.gain_ratio.unwrap_or_else(|| {
-                c.bad(&k("gain_ratio"), "is missing; strength = \"gain-ratio\" needs it".into());
+                c.bad(
+                    &k("gain_ratio"),
+                    "is missing; strength = \"gain-ratio\" needs it".into(),
+                );
                 0.2
             });
-            StrengthModel::GainRatio { ratio: c.num(&k("gain_ratio"), ratio, Low::Incl(0.0), 0.6) }
+            StrengthModel::GainRatio {
+                ratio: c.num(&k("gain_ratio"), ratio, Low::Incl(0.0), 0.6),
+            }
         }
     };
     Strength { model, su0_points }
@@ -290,7 +376,10 @@ fn su0_profile(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, thickness_m: 
         }
         (Some(points), None, None) => su0_points(c, &k("su0_points"), points, top_m, thickness_m),
         (Some(_), _, _) => {
-            c.bad(&k("su0_points"), "give either su0_points or su0_top_kpa/su0_bottom_kpa, not both".into());
+            c.bad(
+                &k("su0_points"),
+                "give either su0_points or su0_top_kpa/su0_bottom_kpa, not both".into(),
+            );
             Vec::new()
         }
     }
@@ -304,14 +393,20 @@ fn su0_points(c: &mut Check, key: &str, points: &[Vec<f64>], top_m: f64, thickne
     for (i, p) in points.iter().enumerate() {
         let pk = format!("{key}[{i}]");
         if p.len() != 2 {
-            c.bad(&pk, format!("has {} numbers; each point is [depth below ground m, su kPa]", p.len()));
+            c.bad(
+                &pk,
+                format!("has {} numbers; each point is [depth below ground m, su kPa]", p.len()),
+            );
             continue;
         }
         let z = c.num(&pk, p[0], Low::Incl(top_m), top_m + thickness_m);
         let su = c.num(&pk, p[1], Low::Excl(0.0), 500.0);
         if let Some(last) = out.last() {
             if z <= last.0 {
-                c.bad(&pk, format!("depth {z} m must be deeper than the previous point ({} m)", last.0));
+                c.bad(
+                    &pk,
+                    format!("depth {z} m must be deeper than the previous point ({} m)", last.0),
+                );
             }
         }
         out.push((z, su));
@@ -329,7 +424,10 @@ fn embankment(c: &mut Check, r: &RawEmbankment) -> Embankment {
         let height_m = c.num(&format!("{bk}.height_m"), b.height_m, Low::Excl(0.0), h);
         if let Some(prev) = berms.last().map(|b: &Berm| b.height_m) {
             if height_m >= prev {
-                c.bad(&format!("{bk}.height_m"), format!("= {height_m} must be lower than the berm inside it ({prev} m)"));
+                c.bad(
+                    &format!("{bk}.height_m"),
+                    format!("= {height_m} must be lower than the berm inside it ({prev} m)"),
+                );
             }
         }
         berms.push(Berm { width_m, height_m });
@@ -338,12 +436,29 @@ fn embankment(c: &mut Check, r: &RawEmbankment) -> Embankment {
         design_height_m: h,
         crest_width_m: c.num(&k("crest_width_m"), r.crest_width_m, Low::Excl(0.0), 200.0),
         side_slope_h_per_v: c.num(&k("side_slope_h_per_v"), r.side_slope_h_per_v, Low::Excl(0.0), 20.0),
-        fill_unit_weight_kn_m3: c.num(&k("fill_unit_weight_kn_m3"), r.fill_unit_weight_kn_m3, Low::Incl(12.0), 24.0),
+        fill_unit_weight_kn_m3: c.num(
+            &k("fill_unit_weight_kn_m3"),
+            r.fill_unit_weight_kn_m3,
+            Low::Incl(12.0),
+            24.0,
+        ),
         fill_cohesion_kpa: c.opt(&k("fill_cohesion_kpa"), r.fill_cohesion_kpa, 0.0, Low::Incl(0.0), 100.0),
         fill_friction_deg: c.num(&k("fill_friction_deg"), r.fill_friction_deg, Low::Incl(0.0), 50.0),
-        surcharge_height_m: c.opt(&k("surcharge_height_m"), r.surcharge_height_m, 0.0, Low::Incl(0.0), 10.0),
+        surcharge_height_m: c.opt(
+            &k("surcharge_height_m"),
+            r.surcharge_height_m,
+            0.0,
+            Low::Incl(0.0),
+            10.0,
+        ),
         berms,
-        reinforcement_kn_per_m: c.opt(&k("reinforcement_kn_per_m"), r.reinforcement_kn_per_m, 0.0, Low::Incl(0.0), 5000.0),
+        reinforcement_kn_per_m: c.opt(
+            &k("reinforcement_kn_per_m"),
+            r.reinforcement_kn_per_m,
+            0.0,
+            Low::Incl(0.0),
+            5000.0,
+        ),
     }
 }
 
@@ -360,19 +475,28 @@ fn drains(c: &mut Check, r: &RawDrains, ground: &Ground) -> Drains {
             let a = c.num(&k("band_width_mm"), a, Low::Excl(0.0), 500.0);
             let b = c.num(&k("band_thickness_mm"), b, Low::Excl(0.0), 50.0);
             if b > a {
-                c.bad(&k("band_thickness_mm"), format!("= {b} must not exceed band_width_mm ({a})"));
+                c.bad(
+                    &k("band_thickness_mm"),
+                    format!("= {b} must not exceed band_width_mm ({a})"),
+                );
             }
             // Equivalent diameter (a + b)/2 (Rixner et al. 1986).
             (a + b) / 2.0 / 1000.0
         }
         _ => {
-            c.bad(&k("diameter_mm"), "give either diameter_mm or both band_width_mm and band_thickness_mm".into());
+            c.bad(
+                &k("diameter_mm"),
+                "give either diameter_mm or both band_width_mm and band_thickness_mm".into(),
+            );
             0.05
         }
     };
     let band_mm = r.band_width_mm.unwrap_or(0.0).max(r.diameter_mm.unwrap_or(0.0));
     if spacing_m * 1000.0 <= band_mm {
-        c.bad(&k("spacing_m"), format!("= {spacing_m} m must be larger than the drain width ({band_mm} mm)"));
+        c.bad(
+            &k("spacing_m"),
+            format!("= {spacing_m} m must be larger than the drain width ({band_mm} mm)"),
+        );
     }
     let profile: f64 = ground.layers.iter().map(|l| l.thickness_m).sum();
     let smear_ratio = c.opt(&k("smear_ratio"), r.smear_ratio, 1.0, Low::Incl(1.0), 10.0);
@@ -401,23 +525,40 @@ fn construction(c: &mut Check, r: &RawConstruction) -> Construction {
     let lift_min_m = c.num(&k("lift_min_m"), r.lift_min_m, Low::Excl(0.0), 5.0);
     let lift_max_m = c.num(&k("lift_max_m"), r.lift_max_m, Low::Excl(0.0), 10.0);
     if lift_min_m > lift_max_m {
-        c.bad(&k("lift_min_m"), format!("= {lift_min_m} must not exceed lift_max_m ({lift_max_m})"));
+        c.bad(
+            &k("lift_min_m"),
+            format!("= {lift_min_m} must not exceed lift_max_m ({lift_max_m})"),
+        );
     }
     let inc = c.opt(&k("lift_increment_m"), r.lift_increment_m, 0.25, Low::Incl(0.05), 5.0);
     let rest = r.min_rest_days.unwrap_or(0);
     if !(0..=365).contains(&rest) {
-        c.bad(&k("min_rest_days"), format!("= {rest} is out of range; allowed: 0 ≤ min_rest_days ≤ 365"));
+        c.bad(
+            &k("min_rest_days"),
+            format!("= {rest} is out of range; allowed: 0 ≤ min_rest_days ≤ 365"),
+        );
     }
     let working_days = working_days(c, r.working_days.as_deref());
     Construction {
-        placement_rate_m_per_day: c.num(&k("placement_rate_m_per_day"), r.placement_rate_m_per_day, Low::Excl(0.0), 5.0),
+        placement_rate_m_per_day: c.num(
+            &k("placement_rate_m_per_day"),
+            r.placement_rate_m_per_day,
+            Low::Excl(0.0),
+            5.0,
+        ),
         lift_min_m,
         lift_max_m,
         lift_increment_m: inc,
         min_rest_days: rest.clamp(0, 365) as u32,
         working_days,
         holidays: holidays(c, r.holidays.as_deref().unwrap_or(&[])),
-        weather_downtime_fraction: c.opt(&k("weather_downtime_fraction"), r.weather_downtime_fraction, 0.0, Low::Incl(0.0), 0.8),
+        weather_downtime_fraction: c.opt(
+            &k("weather_downtime_fraction"),
+            r.weather_downtime_fraction,
+            0.0,
+            Low::Incl(0.0),
+            0.8,
+        ),
     }
 }
 
@@ -429,12 +570,21 @@ fn working_days(c: &mut Check, days: Option<&[String]>) -> Vec<Weekday> {
     for (i, d) in days.iter().enumerate() {
         match d.parse::<Weekday>() {
             Ok(w) if !out.contains(&w) => out.push(w),
-            Ok(_) => c.bad(&format!("construction.working_days[{i}]"), format!("= \"{d}\" is listed twice")),
-            Err(_) => c.bad(&format!("construction.working_days[{i}]"), format!("= \"{d}\" is not a weekday; use mon, tue, wed, thu, fri, sat, sun")),
+            Ok(_) => c.bad(
+                &format!("construction.working_days[{i}]"),
+                format!("= \"{d}\" is listed twice"),
+            ),
+            Err(_) => c.bad(
+                &format!("construction.working_days[{i}]"),
+                format!("= \"{d}\" is not a weekday; use mon, tue, wed, thu, fri, sat, sun"),
+            ),
         }
     }
     if out.is_empty() {
-        c.bad("construction.working_days", "is empty; at least one working day is needed".into());
+        c.bad(
+            "construction.working_days",
+            "is empty; at least one working day is needed".into(),
+        );
     }
     out
 }
@@ -463,7 +613,10 @@ fn holidays(c: &mut Check, items: &[String]) -> Vec<NaiveDate> {
         }
         ranges.push((a, b, i));
     }
-    let mut out: Vec<NaiveDate> = ranges.iter().flat_map(|(a, b, _)| a.iter_days().take_while(move |d| d <= b)).collect();
+    let mut out: Vec<NaiveDate> = ranges
+        .iter()
+        .flat_map(|(a, b, _)| a.iter_days().take_while(move |d| d <= b))
+        .collect();
     out.sort();
     out.dedup();
     out
@@ -474,33 +627,66 @@ fn criteria(c: &mut Check, r: &RawCriteria) -> Criteria {
     Criteria {
         fs_construction: c.num(&k("fs_construction"), r.fs_construction, Low::Incl(1.0), 3.0),
         fs_service: c.opt(&k("fs_service"), r.fs_service, 1.4, Low::Incl(1.0), 3.0),
-        surcharge_removal_degree: r.surcharge_removal_degree.map(|u| c.num(&k("surcharge_removal_degree"), u, Low::Excl(0.0), 0.99)),
-        residual_settlement_limit_m: r.residual_settlement_limit_m.map(|s| c.num(&k("residual_settlement_limit_m"), s, Low::Excl(0.0), 5.0)),
+        surcharge_removal_degree: r
+            .surcharge_removal_degree
+            .map(|u| c.num(&k("surcharge_removal_degree"), u, Low::Excl(0.0), 0.99)),
+        residual_settlement_limit_m: r
+            .residual_settlement_limit_m
+            .map(|s| c.num(&k("residual_settlement_limit_m"), s, Low::Excl(0.0), 5.0)),
     }
 }
 
 fn stability(c: &mut Check, r: Option<&RawStability>) -> StabilityOptions {
     let slices = r.and_then(|s| s.slices).unwrap_or(40);
     if !(30..=400).contains(&slices) {
-        c.bad("stability.slices", format!("= {slices} is out of range; allowed: 30 ≤ slices ≤ 400"));
+        c.bad(
+            "stability.slices",
+            format!("= {slices} is out of range; allowed: 30 ≤ slices ≤ 400"),
+        );
     }
     StabilityOptions {
-        fill_strength_factor: c.opt("stability.fill_strength_factor", r.and_then(|s| s.fill_strength_factor), 1.0, Low::Incl(0.0), 1.0),
+        fill_strength_factor: c.opt(
+            "stability.fill_strength_factor",
+            r.and_then(|s| s.fill_strength_factor),
+            1.0,
+            Low::Incl(0.0),
+            1.0,
+        ),
         fill_tension_crack: r.and_then(|s| s.fill_tension_crack).unwrap_or(true),
         slices: slices.clamp(30, 400) as usize,
     }
 }
 
 fn analysis(c: &mut Check, r: Option<&RawAnalysis>) -> AnalysisOptions {
-    let mode = match c.choice("analysis.mode", r.and_then(|a| a.mode.as_deref()), &["stress-dependent", "linear"]) {
+    let mode = match c.choice(
+        "analysis.mode",
+        r.and_then(|a| a.mode.as_deref()),
+        &["stress-dependent", "linear"],
+    ) {
         "linear" => ConsolidationMode::Linear,
         _ => ConsolidationMode::StressDependent,
     };
-    let rule = c.choice("analysis.pore_pressure", r.and_then(|a| a.pore_pressure.as_deref()), &["vertical", "skempton"]);
+    let rule = c.choice(
+        "analysis.pore_pressure",
+        r.and_then(|a| a.pore_pressure.as_deref()),
+        &["vertical", "skempton"],
+    );
     let pore_pressure = if rule == "skempton" {
         PorePressureRule::Skempton {
-            a: c.opt("analysis.skempton_a", r.and_then(|a| a.skempton_a), 0.5, Low::Incl(-0.5), 1.5),
-            b: c.opt("analysis.skempton_b", r.and_then(|a| a.skempton_b), 1.0, Low::Excl(0.0), 1.0),
+            a: c.opt(
+                "analysis.skempton_a",
+                r.and_then(|a| a.skempton_a),
+                0.5,
+                Low::Incl(-0.5),
+                1.5,
+            ),
+            b: c.opt(
+                "analysis.skempton_b",
+                r.and_then(|a| a.skempton_b),
+                1.0,
+                Low::Excl(0.0),
+                1.0,
+            ),
         }
     } else {
         PorePressureRule::Vertical
@@ -508,26 +694,64 @@ fn analysis(c: &mut Check, r: Option<&RawAnalysis>) -> AnalysisOptions {
     AnalysisOptions {
         mode,
         pore_pressure,
-        max_node_spacing_m: c.opt("analysis.max_node_spacing_m", r.and_then(|a| a.max_node_spacing_m), 0.25, Low::Incl(0.01), 1.0),
-        placement_step_days: c.opt("analysis.placement_step_days", r.and_then(|a| a.placement_step_days), 1.0, Low::Incl(0.01), 1.0),
-        rest_step_days: c.opt("analysis.rest_step_days", r.and_then(|a| a.rest_step_days), 2.0, Low::Incl(0.01), 10.0),
+        max_node_spacing_m: c.opt(
+            "analysis.max_node_spacing_m",
+            r.and_then(|a| a.max_node_spacing_m),
+            0.25,
+            Low::Incl(0.01),
+            1.0,
+        ),
+        placement_step_days: c.opt(
+            "analysis.placement_step_days",
+            r.and_then(|a| a.placement_step_days),
+            1.0,
+            Low::Incl(0.01),
+            1.0,
+        ),
+        rest_step_days: c.opt(
+            "analysis.rest_step_days",
+            r.and_then(|a| a.rest_step_days),
+            2.0,
+            Low::Incl(0.01),
+            10.0,
+        ),
     }
 }
 
-fn sequence(c: &mut Check, lifts: &[RawLift], info: &ProjectInfo, k: &Construction, e: &Embankment) -> Vec<ProposedLift> {
+fn sequence(
+    c: &mut Check,
+    lifts: &[RawLift],
+    info: &ProjectInfo,
+    k: &Construction,
+    e: &Embankment,
+) -> Vec<ProposedLift> {
     let mut out: Vec<ProposedLift> = Vec::new();
     let mut total = 0.0;
     for (i, l) in lifts.iter().enumerate() {
         let key = format!("sequence[{i}]");
-        let t = c.num(&format!("{key}.thickness_m"), l.thickness_m, Low::Excl(0.0), k.lift_max_m);
+        let t = c.num(
+            &format!("{key}.thickness_m"),
+            l.thickness_m,
+            Low::Excl(0.0),
+            k.lift_max_m,
+        );
         let start = c.date(&format!("{key}.start_date"), &l.start_date);
         if start < info.start_date {
-            c.bad(&format!("{key}.start_date"), format!("= {start} is before project.start_date ({})", info.start_date));
+            c.bad(
+                &format!("{key}.start_date"),
+                format!("= {start} is before project.start_date ({})", info.start_date),
+            );
         }
         if let Some(prev) = out.last() {
             let days = (prev.thickness_m / k.placement_rate_m_per_day).ceil() as i64;
             if start <= prev.start + chrono::Duration::days(days.max(1) - 1) {
-                c.bad(&format!("{key}.start_date"), format!("= {start} overlaps the previous lift, which needs at least {days} working day(s) from {}", prev.start));
+                c.bad(
+                    &format!("{key}.start_date"),
+                    format!(
+                        "= {start} overlaps the previous lift, which needs at least {days} working day(s) from {}",
+                        prev.start
+                    ),
+                );
             }
         }
         total += t;
@@ -535,7 +759,10 @@ fn sequence(c: &mut Check, lifts: &[RawLift], info: &ProjectInfo, k: &Constructi
     }
     let limit = e.design_height_m + e.surcharge_height_m;
     if total > limit + 1e-9 {
-        c.bad("sequence", format!("lifts add up to {total:.2} m, above design height plus surcharge ({limit:.2} m)"));
+        c.bad(
+            "sequence",
+            format!("lifts add up to {total:.2} m, above design height plus surcharge ({limit:.2} m)"),
+        );
     }
     out
 }

@@ -1,0 +1,233 @@
+//! Carrying out a parsed command: load and validate the project, build the
+//! engines, run, and write outputs (stdout, and files written atomically).
+//! Returns the text for standard output; `main.rs` prints it.
+
+use crate::cli::Command;
+use crate::error::{Error, Result};
+use crate::model::Project;
+use crate::report::{self, Exporter, PlanReport};
+use crate::response::Engine;
+use crate::schedule::{Runner, assess, planner};
+use crate::stability::{Circle, Section, search};
+use crate::{input, output};
+use chrono::NaiveDate;
+use std::path::{Path, PathBuf};
+
+/// The bundled demo project (examples/kestrel-fen.toml).
+pub const DEMO: &str = include_str!("../examples/kestrel-fen.toml");
+/// The commented starter project written by `fillpace new`.
+pub const TEMPLATE: &str = include_str!("../templates/project.toml");
+
+/// Run one command; returns what to print on standard output.
+pub fn run(cmd: &Command) -> Result<String> {
+    match cmd {
+        Command::New { dir } => new(dir),
+        Command::Check { project, step, json } => check(project, *step, *json),
+        Command::Assess {
+            project,
+            tail_days,
+            csv,
+            json,
+        } => assess_cmd(project, *tail_days, csv.as_deref(), *json),
+        Command::Stability {
+            project,
+            height,
+            date,
+            circle,
+            json,
+        } => stability(project, *height, date.as_deref(), circle.as_deref(), *json),
+        Command::Plan {
+            project,
+            csv,
+            ics,
+            json,
+        } => plan(project.as_deref(), csv.as_deref(), ics.as_deref(), *json),
+    }
+}
+
+fn new(dir: &Path) -> Result<String> {
+    if dir.exists() && std::fs::read_dir(dir).map(|mut d| d.next().is_some()).unwrap_or(true) {
+        return Err(Error::Usage(format!(
+            "{} already exists and is not empty; fillpace new never overwrites",
+            dir.display()
+        )));
+    }
+    std::fs::create_dir_all(dir).map_err(|source| Error::Write {
+        path: dir.to_path_buf(),
+        source,
+    })?;
+    let path = dir.join("project.toml");
+    output::write_atomic(&path, TEMPLATE.as_bytes())?;
+    Ok(format!(
+        "wrote {}\nnext: fillpace check {}\n",
+        path.display(),
+        path.display()
+    ))
+}
+
+fn check(path: &Path, step: f64, json: bool) -> Result<String> {
+    if !(step.is_finite() && (0.05..=10.0).contains(&step)) {
+        return Err(Error::Usage(format!("--step {step} must be between 0.05 and 10 m")));
+    }
+    let p = input::load(path)?;
+    let s = crate::ground::summary(&p, step);
+    let src = path.display().to_string();
+    if json {
+        report::json::envelope("check", &p, &src, &s)
+    } else {
+        Ok(report::text::check(&p, &s, &src))
+    }
+}
+
+fn assess_cmd(path: &Path, tail: i64, csv: Option<&Path>, json: bool) -> Result<String> {
+    if !(0..=3650).contains(&tail) {
+        return Err(Error::Usage(format!("--tail-days {tail} must be between 0 and 3650")));
+    }
+    if let Some(out) = csv {
+        output::refuse_overwrite_of_inputs(out, &[path])?;
+    }
+    let p = input::load(path)?;
+    if p.sequence.is_empty() {
+        return Err(Error::input(
+            &path.display().to_string(),
+            None,
+            "sequence",
+            "is empty; add [[sequence]] lifts (thickness_m, start_date) to assess".into(),
+        ));
+    }
+    let engine = Engine::new(&p);
+    let runner = Runner::new(&engine);
+    let a = assess::assess(&runner, tail)?;
+    if let Some(out) = csv {
+        output::write_atomic(out, report::csv::series(&a).as_bytes())?;
+    }
+    if json {
+        report::json::envelope("assess", &p, &path.display().to_string(), &a)
+    } else {
+        Ok(report::text::assess(&p, &a))
+    }
+}
+
+fn stability(path: &Path, height: f64, date: Option<&str>, circle: Option<&str>, json: bool) -> Result<String> {
+    let p = input::load(path)?;
+    if !(height.is_finite() && height >= 0.0 && height <= p.max_height_m() + 1e-9) {
+        return Err(Error::Usage(format!(
+            "--height {height} must be between 0 and design height plus surcharge ({:.2} m)",
+            p.max_height_m()
+        )));
+    }
+    let engine = Engine::new(&p);
+    let runner = Runner::new(&engine);
+    let (st, when) = state_on(&runner, &p, date)?;
+    // The section at the requested height, fill made up for settlement so far.
+    let placed = if height > 0.0 { height + st.settlement_m[0] } else { 0.0 };
+    let field = engine.field(&st);
+    let section = Section::new(&p, height, &field);
+    let src = path.display().to_string();
+    match circle {
+        Some(text) => {
+            let c = parse_circle(text)?;
+            let r = section.analyse(c).map_err(|why| Error::Usage(format!("circle {text} cannot be analysed: {why:?}; it must cut the ground surface twice below its centre and stay above the stiff base")))?;
+            if json {
+                report::json::envelope("stability", &p, &src, &r)
+            } else {
+                Ok(report::text::stability_circle(&p, height, &when, &r))
+            }
+        }
+        None => {
+            let r = search::search(&section)?;
+            if json {
+                report::json::envelope("stability", &p, &src, &r)
+            } else {
+                Ok(report::text::stability_search(&p, height, &when, placed, &r))
+            }
+        }
+    }
+}
+
+/// Ground state on a date following the project's sequence (initial state
+/// without a date), and a description for the report.
+fn state_on(r: &Runner, p: &Project, date: Option<&str>) -> Result<(crate::response::State, String)> {
+    let mut st = r.engine.initial_state();
+    let Some(text) = date else {
+        return Ok((st, "initial (before any fill)".into()));
+    };
+    let d = NaiveDate::parse_from_str(text, "%Y-%m-%d")
+        .map_err(|_| Error::Usage(format!("--date {text} is not a date YYYY-MM-DD")))?;
+    if d < p.info.start_date {
+        return Err(Error::Usage(format!(
+            "--date {d} is before project.start_date ({})",
+            p.info.start_date
+        )));
+    }
+    let day = r.calendar.day_of(d);
+    if day > r.calendar.horizon() {
+        return Err(Error::Usage(format!("--date {d} is beyond the 40-year horizon")));
+    }
+    for lift in p.sequence.iter().filter(|l| l.start <= d) {
+        r.rest_until(&mut st, r.calendar.day_of(lift.start), &mut |_| {});
+        r.place(&mut st, lift.thickness_m, &mut |_| {})?;
+    }
+    if st.day > day as f64 {
+        return Err(Error::Usage(format!(
+            "--date {d} falls during the placement of a lift; choose a date after it ends"
+        )));
+    }
+    r.rest_until(&mut st, day, &mut |_| {});
+    Ok((st, format!("on {d} after the project's sequence")))
+}
+
+fn parse_circle(text: &str) -> Result<Circle> {
+    let v: Vec<f64> = text
+        .split(',')
+        .map(|s| s.trim().parse::<f64>())
+        .collect::<std::result::Result<_, _>>()
+        .map_err(|_| Error::Usage(format!("--circle {text}: give three numbers XC,YC,R in metres")))?;
+    match v[..] {
+        [xc, yc, r] if v.iter().all(|x| x.is_finite()) && r > 0.5 => Ok(Circle {
+            xc_m: xc,
+            yc_m: yc,
+            r_m: r,
+        }),
+        [_, _, r] if r <= 0.5 => Err(Error::Usage(format!(
+            "--circle {text}: radius {r} m is too small (more than 0.5 m needed)"
+        ))),
+        _ => Err(Error::Usage(format!(
+            "--circle {text}: give three finite numbers XC,YC,R in metres"
+        ))),
+    }
+}
+
+fn plan(path: Option<&Path>, csv: Option<&Path>, ics: Option<&Path>, json: bool) -> Result<String> {
+    let (p, source, inputs): (Project, String, Vec<PathBuf>) = match path {
+        Some(f) => (input::load(f)?, f.display().to_string(), vec![f.to_path_buf()]),
+        None => (
+            input::parse(DEMO, "bundled demo (examples/kestrel-fen.toml)")?,
+            "the bundled demo site (examples/kestrel-fen.toml)".into(),
+            vec![],
+        ),
+    };
+    let input_refs: Vec<&Path> = inputs.iter().map(PathBuf::as_path).collect();
+    for out in [csv, ics].into_iter().flatten() {
+        output::refuse_overwrite_of_inputs(out, &input_refs)?;
+    }
+    let engine = Engine::new(&p);
+    let runner = Runner::new(&engine);
+    let plan = planner::plan(&runner)?;
+    let rep = PlanReport {
+        project: &p,
+        plan: &plan,
+        source,
+    };
+    if let Some(out) = csv {
+        output::write_atomic(out, &report::csv::Csv.serialize(&rep)?)?;
+    }
+    if let Some(out) = ics {
+        output::write_atomic(out, &report::ics::Ics.serialize(&rep)?)?;
+    }
+    if json {
+        String::from_utf8(report::json::Json.serialize(&rep)?).map_err(|e| Error::Computation(e.to_string()))
+    } else {
+        Ok(report::text::plan(&rep))
+    }
+}

@@ -1,0 +1,93 @@
+//! Command-line arguments, all in one place (clap derive). Each command's
+//! help ends with an example; `app` carries the commands out.
+
+use clap::{Parser, Subcommand};
+use std::path::PathBuf;
+
+/// Staged construction of embankments on soft clay: consolidation, strength
+/// gain, stability and the fastest safe lift timetable.
+#[derive(Debug, Parser)]
+#[command(name = "fillpace", version, about, propagate_version = true)]
+pub struct Cli {
+    #[command(subcommand)]
+    pub command: Command,
+}
+
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Write a commented starter project into a new folder.
+    #[command(after_help = "Example:\n  fillpace new my-site\n  fillpace check my-site/project.toml")]
+    New {
+        /// Folder to create (must not exist or be empty).
+        dir: PathBuf,
+    },
+    /// Validate a project and print the initial ground model.
+    #[command(
+        after_help = "Example:\n  fillpace check examples/kestrel-fen.toml\n  fillpace check examples/kestrel-fen.toml --json"
+    )]
+    Check {
+        /// Project file (TOML).
+        project: PathBuf,
+        /// Depth step of the printed profile, m.
+        #[arg(long, default_value_t = 1.0)]
+        step: f64,
+        /// Print JSON instead of tables.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Check the proposed lift sequence written in the project file.
+    #[command(after_help = "Example:\n  fillpace assess examples/kestrel-fen.toml --csv history.csv")]
+    Assess {
+        /// Project file with a [[sequence]] of lifts.
+        project: PathBuf,
+        /// Days of rest to follow after the last lift.
+        #[arg(long, default_value_t = 365)]
+        tail_days: i64,
+        /// Write the daily time series to this CSV file.
+        #[arg(long)]
+        csv: Option<PathBuf>,
+        /// Print JSON instead of tables.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Factor of safety of the section at one height (and date).
+    #[command(
+        after_help = "Example:\n  fillpace stability examples/kestrel-fen.toml --height 3\n  fillpace stability examples/kestrel-fen.toml --height 3 --circle 14,12,14.5"
+    )]
+    Stability {
+        /// Project file.
+        project: PathBuf,
+        /// Crest height above original ground, m.
+        #[arg(long)]
+        height: f64,
+        /// Ground state on this date (YYYY-MM-DD), following the project's
+        /// [[sequence]]; without it the ground is in its initial state.
+        #[arg(long)]
+        date: Option<String>,
+        /// Analyse one circle: centre x, centre y (m above original ground),
+        /// radius, e.g. 14,12,14.5.
+        #[arg(long, value_name = "XC,YC,R")]
+        circle: Option<String>,
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Plan the fastest safe lift timetable (the bundled demo when no
+    /// project is given).
+    #[command(
+        after_help = "Example:\n  fillpace plan\n  fillpace plan examples/kestrel-fen.toml --csv plan.csv --ics holds.ics"
+    )]
+    Plan {
+        /// Project file; omit to plan the bundled demo site.
+        project: Option<PathBuf>,
+        /// Write the stage table as CSV.
+        #[arg(long)]
+        csv: Option<PathBuf>,
+        /// Write placements and hold points as an iCalendar file.
+        #[arg(long)]
+        ics: Option<PathBuf>,
+        /// Print JSON instead of tables.
+        #[arg(long)]
+        json: bool,
+    },
+}

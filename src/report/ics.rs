@@ -1,0 +1,147 @@
+//! iCalendar (RFC 5545) output: one all-day event per placement (first to
+//! last working day) and one per hold point (the release date of the next
+//! lift), so a contractor can load the timetable into any calendar. Lines
+//! end in CRLF and are folded at 75 octets as the RFC requires.
+
+use super::{Exporter, PlanReport};
+use crate::error::Result;
+use crate::schedule::planner::StageKind;
+use chrono::{Duration, NaiveDate};
+
+/// The plan as an iCalendar file.
+pub struct Ics;
+
+impl Exporter for Ics {
+    fn serialize(&self, r: &PlanReport) -> Result<Vec<u8>> {
+        let p = r.project;
+        let mut lines = vec![
+            "BEGIN:VCALENDAR".to_string(),
+            "VERSION:2.0".into(),
+            "PRODID:-//fillpace//staged fill timetable//EN".into(),
+            "CALSCALE:GREGORIAN".into(),
+        ];
+        let uid_base = format!("{}-{}", slug(&p.info.reference), p.info.start_date);
+        let stamp = format!("{}T000000Z", p.info.start_date.format("%Y%m%d"));
+        for s in &r.plan.stages {
+            let what = match s.kind {
+                StageKind::Lift => format!(
+                    "Lift {}: place {:.2} m (crest to {:.2} m)",
+                    s.number, s.thickness_m, s.height_after_m
+                ),
+                StageKind::SurchargeRemoval => format!("Stage {}: remove {:.2} m surcharge", s.number, -s.thickness_m),
+            };
+            let desc = format!(
+                "{} — predicted FS at end {:.2}. Prediction only: field monitoring governs.",
+                p.info.title, s.fs_end
+            );
+            event(
+                &mut lines,
+                &format!("{uid_base}-stage{}@fillpace", s.number),
+                &stamp,
+                s.start,
+                s.end,
+                &what,
+                &desc,
+            );
+            if let Some(rel) = s.release {
+                let hold = format!("HOLD POINT before stage {}: release check", s.number + 1);
+                let desc = format!(
+                    "Check piezometer, settlement and lateral-movement readings; the next stage may start only when released by the engineer. Predicted FS now {:.2}.",
+                    s.fs_release.unwrap_or(f64::NAN)
+                );
+                event(
+                    &mut lines,
+                    &format!("{uid_base}-hold{}@fillpace", s.number),
+                    &stamp,
+                    rel,
+                    rel,
+                    &hold,
+                    &desc,
+                );
+            }
+        }
+        lines.push("END:VCALENDAR".into());
+        let mut out = String::new();
+        for l in lines {
+            out.push_str(&fold(&l));
+        }
+        Ok(out.into_bytes())
+    }
+}
+
+fn event(
+    lines: &mut Vec<String>,
+    uid: &str,
+    stamp: &str,
+    first: NaiveDate,
+    last: NaiveDate,
+    summary: &str,
+    desc: &str,
+) {
+    lines.push("BEGIN:VEVENT".into());
+    lines.push(format!("UID:{uid}"));
+    lines.push(format!("DTSTAMP:{stamp}"));
+    lines.push(format!("DTSTART;VALUE=DATE:{}", first.format("%Y%m%d")));
+    // DTEND of an all-day event is exclusive (RFC 5545 §3.6.1).
+    lines.push(format!(
+        "DTEND;VALUE=DATE:{}",
+        (last + Duration::days(1)).format("%Y%m%d")
+    ));
+    lines.push(format!("SUMMARY:{}", escape(summary)));
+    lines.push(format!("DESCRIPTION:{}", escape(desc)));
+    lines.push("END:VEVENT".into());
+}
+
+/// Escape text values (RFC 5545 §3.3.11).
+fn escape(s: &str) -> String {
+    s.replace('\\', "\\\\")
+        .replace(';', "\\;")
+        .replace(',', "\\,")
+        .replace('\n', "\\n")
+}
+
+/// Fold a content line at 75 octets with CRLF + space (RFC 5545 §3.1).
+fn fold(line: &str) -> String {
+    let mut out = String::new();
+    let mut len = 0;
+    for ch in line.chars() {
+        let n = ch.len_utf8();
+        if len + n > 75 {
+            out.push_str("\r\n ");
+            len = 1;
+        }
+        out.push(ch);
+        len += n;
+    }
+    out.push_str("\r\n");
+    out
+}
+
+fn slug(s: &str) -> String {
+    let t: String = s
+        .chars()
+        .map(|c| if c.is_ascii_alphanumeric() { c } else { '-' })
+        .collect();
+    if t.is_empty() { "fillpace".into() } else { t }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn folding_keeps_lines_within_75_octets() {
+        let long = format!("DESCRIPTION:{}", "σ'v ".repeat(40));
+        let folded = fold(&long);
+        for l in folded.split("\r\n") {
+            assert!(l.len() <= 75, "{} octets", l.len());
+        }
+        let unfolded = folded.replace("\r\n ", "");
+        assert_eq!(unfolded.strip_suffix("\r\n"), Some(long.as_str()));
+    }
+
+    #[test]
+    fn text_is_escaped() {
+        assert_eq!(escape("a,b;c\\d"), "a\\,b\\;c\\\\d");
+    }
+}

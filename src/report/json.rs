@@ -1,0 +1,55 @@
+//! JSON output: every command's result inside one envelope
+//! `{ "fillpace": version, "command", "project": {title, reference, source},
+//! "result": ..., "cautions": [...] }`. Field meanings are documented in
+//! README.md ("Machine-readable output").
+
+use super::{Exporter, PlanReport};
+use crate::error::{Error, Result};
+use crate::model::Project;
+use serde::Serialize;
+
+#[derive(Serialize)]
+struct Envelope<'a, T: Serialize> {
+    fillpace: &'static str,
+    command: &'a str,
+    project: Head<'a>,
+    result: &'a T,
+    cautions: Vec<String>,
+}
+
+#[derive(Serialize)]
+struct Head<'a> {
+    title: &'a str,
+    reference: &'a str,
+    source: &'a str,
+}
+
+/// Pretty JSON of `result` in the envelope.
+pub fn envelope<T: Serialize>(command: &str, project: &Project, source: &str, result: &T) -> Result<String> {
+    let e = Envelope {
+        fillpace: env!("CARGO_PKG_VERSION"),
+        command,
+        project: Head {
+            title: &project.info.title,
+            reference: &project.info.reference,
+            source,
+        },
+        result,
+        cautions: super::cautions(),
+    };
+    serde_json::to_string_pretty(&e)
+        .map(|mut s| {
+            s.push('\n');
+            s
+        })
+        .map_err(|e| Error::Computation(format!("JSON serialisation failed: {e}")))
+}
+
+/// The plan as JSON.
+pub struct Json;
+
+impl Exporter for Json {
+    fn serialize(&self, r: &PlanReport) -> Result<Vec<u8>> {
+        envelope("plan", r.project, &r.source, r.plan).map(String::into_bytes)
+    }
+}

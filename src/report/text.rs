@@ -1,0 +1,385 @@
+//! Terminal output: aligned plain-text tables for each command, followed by
+//! the warnings and the caution notes.
+
+use super::PlanReport;
+use crate::ground::Summary;
+use crate::model::{ConsolidationMode, Project};
+use crate::schedule::assess::Assessment;
+use crate::schedule::planner::StageKind;
+use crate::stability::CircleResult;
+use crate::stability::search::SearchResult;
+
+/// A table of strings with a header row; numbers are right-aligned.
+struct Table {
+    head: Vec<String>,
+    rows: Vec<Vec<String>>,
+}
+
+impl Table {
+    fn new(head: &[&str]) -> Table {
+        Table {
+            head: head.iter().map(|s| s.to_string()).collect(),
+            rows: Vec::new(),
+        }
+    }
+
+    fn row(&mut self, cells: Vec<String>) {
+        self.rows.push(cells);
+    }
+
+    fn render(&self) -> String {
+        let n = self.head.len();
+        let width = |i: usize| {
+            self.rows
+                .iter()
+                .map(|r| r.get(i).map_or(0, |c| c.chars().count()))
+                .chain(std::iter::once(self.head[i].chars().count()))
+                .max()
+                .unwrap_or(0)
+        };
+        let widths: Vec<usize> = (0..n).map(width).collect();
+        let mut out = String::new();
+        let line = |cells: &[String], out: &mut String| {
+            let parts: Vec<String> = cells
+                .iter()
+                .enumerate()
+                .map(|(i, c)| {
+                    let pad = widths[i].saturating_sub(c.chars().count());
+                    if looks_numeric(c) {
+                        format!("{}{c}", " ".repeat(pad))
+                    } else {
+                        format!("{c}{}", " ".repeat(pad))
+                    }
+                })
+                .collect();
+            out.push_str(parts.join("  ").trim_end());
+            out.push('\n');
+        };
+        line(&self.head, &mut out);
+        let rule: Vec<String> = widths.iter().map(|w| "-".repeat(*w)).collect();
+        out.push_str(&rule.join("  "));
+        out.push('\n');
+        for r in &self.rows {
+            line(r, &mut out);
+        }
+        out
+    }
+}
+
+fn looks_numeric(s: &str) -> bool {
+    !s.is_empty() && s.chars().all(|c| c.is_ascii_digit() || "+-.%".contains(c))
+}
+
+fn f(v: f64, d: usize) -> String {
+    format!("{v:.d$}")
+}
+
+fn cautions_block() -> String {
+    let mut out = String::from("\nCAUTIONS\n");
+    for c in super::cautions() {
+        out.push_str(&format!("  * {}\n", wrap(&c, 76, "    ")));
+    }
+    out
+}
+
+fn wrap(text: &str, width: usize, indent: &str) -> String {
+    let mut out = String::new();
+    let mut len = 0;
+    for word in text.split_whitespace() {
+        if len > 0 && len + 1 + word.chars().count() > width {
+            out.push('\n');
+            out.push_str(indent);
+            len = 0;
+        } else if len > 0 {
+            out.push(' ');
+            len += 1;
+        }
+        out.push_str(word);
+        len += word.chars().count();
+    }
+    out
+}
+
+fn header(p: &Project, what: &str) -> String {
+    format!(
+        "{what}: {}\n{} | {} | rev {}\n\n",
+        p.info.title, p.info.reference, p.info.location, p.info.revision
+    )
+}
+
+/// `fillpace check`.
+pub fn check(p: &Project, s: &Summary, source: &str) -> String {
+    let mut out = header(p, "Ground model");
+    out.push_str(&format!(
+        "Project file {source} is valid. Groundwater {:.2} m below original ground; base {}.\n\n",
+        s.groundwater_depth_m,
+        if s.base_drained { "drained" } else { "undrained" }
+    ));
+    let mut t = Table::new(&[
+        "layer",
+        "kind",
+        "top m",
+        "thick m",
+        "γ kN/m³",
+        "γsat kN/m³",
+        "Cc/(1+e0)",
+        "cv m²/yr",
+        "ch m²/yr",
+    ]);
+    for l in &s.layers {
+        let o = |v: Option<f64>, d| v.map_or("-".into(), |x| f(x, d));
+        t.row(vec![
+            l.name.clone(),
+            l.kind.into(),
+            f(l.top_m, 2),
+            if l.kind == "stiff-base" {
+                "-".into()
+            } else {
+                f(l.thickness_m, 2)
+            },
+            f(l.unit_weight_kn_m3, 1),
+            f(l.saturated_unit_weight_kn_m3, 1),
+            o(l.compression_ratio, 3),
+            o(l.cv_m2_per_year, 2),
+            o(l.ch_m2_per_year, 2),
+        ]);
+    }
+    out.push_str(&t.render());
+    out.push_str("\nInitial state\n");
+    let mut t = Table::new(&[
+        "z m",
+        "layer",
+        "σv0 kPa",
+        "u0 kPa",
+        "σ'v0 kPa",
+        "σ'p0 kPa",
+        "OCR",
+        "su0 kPa",
+    ]);
+    for n in &s.profile {
+        t.row(vec![
+            f(n.z_m, 2),
+            p.ground.layers[n.layer].name.clone(),
+            f(n.sigma_v0_kpa, 1),
+            f(n.u0_kpa, 1),
+            f(n.sigma_v0_eff_kpa, 1),
+            f(n.sigma_p0_kpa, 1),
+            f(n.sigma_p0_kpa / n.sigma_v0_eff_kpa, 2),
+            if n.clay.is_some() { f(n.su0_kpa, 1) } else { "-".into() },
+        ]);
+    }
+    out.push_str(&t.render());
+    out.push_str(&cautions_block());
+    out
+}
+
+fn mode_text(m: ConsolidationMode) -> &'static str {
+    match m {
+        ConsolidationMode::Linear => "linear (constant mv and cv)",
+        ConsolidationMode::StressDependent => "stress-dependent (mv from Cr/Cc at current σ'v against σ'p)",
+    }
+}
+
+/// `fillpace assess`.
+pub fn assess(p: &Project, a: &Assessment) -> String {
+    let mut out = header(p, "Proposed sequence");
+    out.push_str(&format!(
+        "Consolidation mode: {}. FS target at end of each lift: {:.2}.\n\n",
+        mode_text(a.mode),
+        a.fs_target
+    ));
+    let mut t = Table::new(&[
+        "lift",
+        "start",
+        "end",
+        "thick m",
+        "crest m",
+        "FS end",
+        "verdict",
+        "safe from",
+        "peak Δu kPa",
+        "U centre",
+        "settl. m",
+    ]);
+    for l in &a.lifts {
+        t.row(vec![
+            l.number.to_string(),
+            l.start.to_string(),
+            l.end.to_string(),
+            f(l.thickness_m, 2),
+            f(l.height_after_m, 2),
+            f(l.fs_end, 2),
+            if l.safe { "ok".into() } else { "BELOW TARGET".into() },
+            l.safe_from.map_or("-".into(), |d| d.to_string()),
+            f(l.peak_excess_kpa, 1),
+            format!("{:.0}%", 100.0 * l.degree_centre),
+            f(l.settlement_centre_m, 3),
+        ]);
+    }
+    out.push_str(&t.render());
+    out.push_str("\nExcess pore pressure under the centreline (kPa) at mid-depth of each clay layer, every 30 days\n");
+    let mut head = vec!["date".to_string(), "crest m".into(), "FS".into()];
+    head.extend(a.depths_m.iter().map(|z| format!("z={z:.2}")));
+    head.extend(a.depths_m.iter().map(|z| format!("su z={z:.2}")));
+    let head_refs: Vec<&str> = head.iter().map(String::as_str).collect();
+    let mut t = Table::new(&head_refs);
+    for (i, r) in a.series.iter().enumerate() {
+        if i % 30 != 0 && i + 1 != a.series.len() {
+            continue;
+        }
+        let mut row = vec![
+            r.date.to_string(),
+            f(r.height_m, 2),
+            r.fs.map_or("-".into(), |x| f(x, 2)),
+        ];
+        row.extend(r.excess_kpa[0].iter().map(|u| f(*u, 1)));
+        row.extend(r.su_centre_kpa.iter().map(|s| f(*s, 1)));
+        t.row(row);
+    }
+    out.push_str(&t.render());
+    out.push_str(&cautions_block());
+    out
+}
+
+fn circle_lines(c: &CircleResult) -> String {
+    format!(
+        "  centre ({:.2}, {:.2}) m, radius {:.2} m; enters at x = {:.2} m, exits at x = {:.2} m; lowest point {:.2} m below original ground ({})\n  Bishop FS {:.3}; Ordinary FS {:.3}; driving moment {:.0} kN·m/m, resisting {:.0} kN·m/m\n",
+        c.circle.xc_m,
+        c.circle.yc_m,
+        c.circle.r_m,
+        c.entry_x_m,
+        c.exit_x_m,
+        c.depth_m,
+        c.band,
+        c.fs,
+        c.fs_ordinary,
+        c.driving_knm_per_m,
+        c.resisting_knm_per_m
+    )
+}
+
+/// `fillpace stability` with a search.
+pub fn stability_search(p: &Project, height: f64, when: &str, placed: f64, s: &SearchResult) -> String {
+    let mut out = header(p, "Stability");
+    out.push_str(&format!(
+        "Crest {height:.2} m above original ground (fill placed {placed:.2} m), ground state {when}.\n"
+    ));
+    out.push_str(&format!(
+        "Critical circle: FS = {:.3} (target {:.2})\n",
+        s.critical.fs, p.criteria.fs_construction
+    ));
+    out.push_str(&circle_lines(&s.critical));
+    out.push_str("\nBest circle by depth band (material at its lowest point)\n");
+    let mut t = Table::new(&["band", "FS", "depth m", "xc m", "yc m", "R m"]);
+    for b in &s.bands {
+        t.row(vec![
+            b.band.clone(),
+            f(b.fs, 3),
+            f(b.depth_m, 2),
+            f(b.circle.xc_m, 2),
+            f(b.circle.yc_m, 2),
+            f(b.circle.r_m, 2),
+        ]);
+    }
+    out.push_str(&t.render());
+    out.push_str(&format!(
+        "\n{} circles analysed, {} set aside (m_α < 0.2 or no convergence).\n",
+        s.circles_tried, s.circles_rejected
+    ));
+    out.push_str(&cautions_block());
+    out
+}
+
+/// `fillpace stability --circle`.
+pub fn stability_circle(p: &Project, height: f64, when: &str, c: &CircleResult) -> String {
+    let mut out = header(p, "Stability of one circle");
+    out.push_str(&format!(
+        "Crest {height:.2} m above original ground, ground state {when}.\n"
+    ));
+    out.push_str(&circle_lines(c));
+    out.push_str(&cautions_block());
+    out
+}
+
+/// `fillpace plan`.
+pub fn plan(r: &PlanReport) -> String {
+    let (p, pl) = (r.project, r.plan);
+    let mut out = header(p, "Lift timetable");
+    out.push_str(&format!(
+        "Planned from {}. Design height {:.2} m, surcharge {:.2} m, FS target {:.2} at the end of every lift.\nConsolidation mode: {}.\n\n",
+        r.source, p.embankment.design_height_m, p.embankment.surcharge_height_m, p.criteria.fs_construction, mode_text(p.analysis.mode)
+    ));
+    let mut t = Table::new(&[
+        "#",
+        "stage",
+        "start",
+        "end",
+        "thick m",
+        "crest m",
+        "placed m",
+        "FS end",
+        "mechanism",
+        "su kPa",
+        "rest d",
+        "release",
+        "FS rel",
+        "peak Δu",
+        "U",
+        "settl. m",
+    ]);
+    for s in &pl.stages {
+        t.row(vec![
+            s.number.to_string(),
+            match s.kind {
+                StageKind::Lift => "lift".into(),
+                StageKind::SurchargeRemoval => "remove surcharge".into(),
+            },
+            s.start.format("%Y-%m-%d %a").to_string(),
+            s.end.format("%Y-%m-%d %a").to_string(),
+            f(s.thickness_m, 2),
+            f(s.height_after_m, 2),
+            f(s.placed_after_m, 2),
+            f(s.fs_end, 2),
+            s.mechanism.clone(),
+            f(s.su_governing_kpa, 1),
+            if s.release.is_some() {
+                s.rest_days.to_string()
+            } else {
+                "-".into()
+            },
+            s.release.map_or("-".into(), |d| d.format("%Y-%m-%d %a").to_string()),
+            s.fs_release.map_or("-".into(), |x| f(x, 2)),
+            f(s.peak_excess_kpa, 1),
+            format!("{:.0}%", 100.0 * s.degree_centre),
+            f(s.settlement_centre_m, 3),
+        ]);
+    }
+    out.push_str(&t.render());
+    out.push_str(&format!(
+        "\nFinish {} ({} days, {:.1} months). Lowest FS {:.2} at stage {}; FS at finish {:.2} (service target {:.2}).\n",
+        pl.finish,
+        pl.duration_days,
+        pl.duration_days as f64 / 30.44,
+        pl.min_fs,
+        pl.min_fs_stage,
+        pl.fs_finish,
+        p.criteria.fs_service
+    ));
+    out.push_str(&format!(
+        "Centreline settlement: {:.3} m at finish, {:.3} m final under the design load; residual over {} years {:.3} m.\n",
+        pl.settlement_at_finish_m, pl.final_settlement_m, p.info.design_life_years, pl.residual_settlement_m
+    ));
+    out.push_str(&format!(
+        "Fill per metre run: {:.1} m³ design profile + {:.1} m³ settlement make-up + {:.1} m³ surcharge (removed).\n",
+        pl.volume_design_m3_per_m, pl.volume_makeup_m3_per_m, pl.volume_surcharge_m3_per_m
+    ));
+    out.push_str(&format!(
+        "Effort: {} slip-circle searches.\n",
+        pl.effort.stability_searches
+    ));
+    for w in &pl.warnings {
+        out.push_str(&format!("warning: {w}\n"));
+    }
+    out.push_str(&cautions_block());
+    out
+}

@@ -1,0 +1,171 @@
+//! Check of a proposed lift sequence (the `[[sequence]]` of the project
+//! file): run the ground response through it, compute FS at the end of each
+//! lift and at regular intervals, flag every lift below the construction
+//! target with the earliest date from which that lift would be safe, and
+//! keep a daily time series of the response for CSV export.
+
+use super::planner::earliest_safe_day;
+use super::{Effort, Runner};
+use crate::error::Result;
+use crate::model::ConsolidationMode;
+use crate::response::ColumnInfo;
+use chrono::NaiveDate;
+use serde::Serialize;
+
+/// FS is computed in the time series every this many days.
+pub const FS_EVERY_DAYS: i64 = 14;
+
+/// One lift of the proposed sequence with its verdict.
+#[derive(Debug, Clone, Serialize)]
+pub struct AssessedLift {
+    pub number: usize,
+    /// Proposed start and the actual first and last working days.
+    pub proposed_start: NaiveDate,
+    pub start: NaiveDate,
+    pub end: NaiveDate,
+    pub thickness_m: f64,
+    pub height_after_m: f64,
+    pub fs_end: f64,
+    /// FS ≥ construction target.
+    pub safe: bool,
+    /// For an unsafe lift: earliest start from which it would be safe.
+    pub safe_from: Option<NaiveDate>,
+    pub peak_excess_kpa: f64,
+    pub degree_centre: f64,
+    pub settlement_centre_m: f64,
+}
+
+/// One day of the response history.
+#[derive(Debug, Clone, Serialize)]
+pub struct SeriesRow {
+    pub date: NaiveDate,
+    pub height_m: f64,
+    pub placed_m: f64,
+    pub settlement_centre_m: f64,
+    pub degree_centre: f64,
+    /// Excess pore pressure, kPa: [column][depth].
+    pub excess_kpa: Vec<Vec<f64>>,
+    /// su under the centreline at the report depths, kPa.
+    pub su_centre_kpa: Vec<f64>,
+    /// FS on the days it was computed.
+    pub fs: Option<f64>,
+}
+
+/// The whole assessment.
+#[derive(Debug, Clone, Serialize)]
+pub struct Assessment {
+    pub mode: ConsolidationMode,
+    pub fs_target: f64,
+    pub columns: Vec<ColumnInfo>,
+    /// Depths below OGL at which the series is reported, m.
+    pub depths_m: Vec<f64>,
+    pub lifts: Vec<AssessedLift>,
+    pub series: Vec<SeriesRow>,
+    pub effort: Effort,
+}
+
+/// Report depths: the middle of every clay layer.
+pub fn report_depths(p: &crate::model::Project) -> Vec<f64> {
+    let mut top = 0.0;
+    let mut out = Vec::new();
+    for l in &p.ground.layers {
+        if matches!(l.kind, crate::model::LayerKind::Clay(_)) {
+            out.push(top + 0.5 * l.thickness_m);
+        }
+        top += l.thickness_m;
+    }
+    out
+}
+
+/// Run the proposed sequence, then `tail_days` of rest after the last lift.
+pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
+    let p = r.engine.project;
+    let depths = report_depths(p);
+    let mut effort = Effort::default();
+    let mut st = r.engine.initial_state();
+    let mut series = Vec::new();
+    let mut lifts = Vec::new();
+    for (i, lift) in p.sequence.iter().enumerate() {
+        let day = r.calendar.day_of(lift.start);
+        {
+            let mut rec = recorder(r, &depths, &mut series, &mut effort);
+            r.rest_until(&mut st, day, &mut rec);
+        }
+        let before = st.clone();
+        let (a, b) = {
+            let mut rec = recorder(r, &depths, &mut series, &mut effort);
+            r.place(&mut st, lift.thickness_m, &mut rec)?
+        };
+        let fs = r.stability(&st, &mut effort)?.critical.fs;
+        if let Some(last) = series.last_mut() {
+            last.fs = Some(fs);
+        }
+        let safe = fs >= p.criteria.fs_construction;
+        let safe_from = if safe {
+            None
+        } else {
+            let d = earliest_safe_day(r, &before, r.next_workable(day)?, lift.thickness_m, &mut effort)?;
+            Some(r.calendar.date(d))
+        };
+        lifts.push(AssessedLift {
+            number: i + 1,
+            proposed_start: lift.start,
+            start: r.calendar.date(a),
+            end: r.calendar.date(b),
+            thickness_m: lift.thickness_m,
+            height_after_m: st.height_m,
+            fs_end: fs,
+            safe,
+            safe_from,
+            peak_excess_kpa: r.engine.peak_excess(&st),
+            degree_centre: r.engine.degree_centre(&st),
+            settlement_centre_m: st.settlement_m[0],
+        });
+    }
+    let end = st.day.ceil() as i64 + tail_days;
+    {
+        let mut rec = recorder(r, &depths, &mut series, &mut effort);
+        r.rest_until(&mut st, end, &mut rec);
+    }
+    Ok(Assessment {
+        mode: p.analysis.mode,
+        fs_target: p.criteria.fs_construction,
+        columns: r.engine.column_info(),
+        depths_m: depths,
+        lifts,
+        series,
+        effort,
+    })
+}
+
+/// A closure that appends one row per whole day, with FS every
+/// `FS_EVERY_DAYS` days.
+fn recorder<'a>(
+    r: &'a Runner,
+    depths: &'a [f64],
+    series: &'a mut Vec<SeriesRow>,
+    effort: &'a mut Effort,
+) -> impl FnMut(&crate::response::State) + 'a {
+    move |st| {
+        let day = st.day.round();
+        if (st.day - day).abs() > 1e-6 || series.last().is_some_and(|l| r.calendar.day_of(l.date) >= day as i64) {
+            return;
+        }
+        let e = r.engine;
+        let fs = (day as i64 % FS_EVERY_DAYS == 0 && st.placed_m > 0.0)
+            .then(|| r.stability(st, effort).ok().map(|s| s.critical.fs))
+            .flatten();
+        series.push(SeriesRow {
+            date: r.calendar.date(day as i64),
+            height_m: st.height_m,
+            placed_m: st.placed_m,
+            settlement_centre_m: st.settlement_m[0],
+            degree_centre: e.degree_centre(st),
+            excess_kpa: (0..e.columns.len())
+                .map(|c| depths.iter().map(|z| e.excess_at(st, c, *z)).collect())
+                .collect(),
+            su_centre_kpa: depths.iter().map(|z| e.su_at(st, 0, *z)).collect(),
+            fs,
+        });
+    }
+}

@@ -1,0 +1,429 @@
+//! The planner: the fastest safe lift timetable. From the current state it
+//! takes the thickest lift (minimum to maximum, in the configured increment)
+//! whose factor of safety at the end of placement meets the construction
+//! target; if even the thinnest lift is unsafe it rests for the shortest
+//! whole number of days after which it is safe. FS falls monotonically with
+//! lift thickness and rises with rest (strength only grows as excess pore
+//! pressure dissipates), so both searches bisect rather than try every
+//! value. After design height plus surcharge it holds until the removal
+//! criterion is met and then removes the surcharge.
+
+use super::{Effort, Runner};
+use crate::error::{Error, Result};
+use crate::response::State;
+use crate::stability::search::SearchResult;
+use chrono::NaiveDate;
+use serde::Serialize;
+
+/// Longest rest the planner will consider before declaring the height
+/// unreachable, days (about 20 years).
+pub const MAX_REST_DAYS: i64 = 7300;
+
+/// What a stage does.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum StageKind {
+    Lift,
+    SurchargeRemoval,
+}
+
+/// One stage of the timetable.
+#[derive(Debug, Clone, Serialize)]
+pub struct Stage {
+    /// 1-based stage number.
+    pub number: usize,
+    pub kind: StageKind,
+    /// First and last working day of placement (or removal).
+    pub start: NaiveDate,
+    pub end: NaiveDate,
+    /// Change of crest height, m (negative for removal).
+    pub thickness_m: f64,
+    /// Crest height above OGL after the stage, m.
+    pub height_after_m: f64,
+    /// Fill thickness as placed after the stage, including make-up, m.
+    pub placed_after_m: f64,
+    /// FS at the end of placement.
+    pub fs_end: f64,
+    /// Band (material at the lowest point) of the governing circle.
+    pub mechanism: String,
+    /// Depth below OGL of the governing circle's lowest point, m.
+    pub circle_depth_m: f64,
+    /// su at that point, kPa.
+    pub su_governing_kpa: f64,
+    /// Rest after this stage before the next one starts, days.
+    pub rest_days: i64,
+    /// Date the next stage may start (the hold point), if any.
+    pub release: Option<NaiveDate>,
+    /// FS of this section at the release date.
+    pub fs_release: Option<f64>,
+    /// Largest excess pore pressure at the end of placement, kPa.
+    pub peak_excess_kpa: f64,
+    /// Average degree of consolidation under the centreline at release (or
+    /// at the end of placement for the last stage), 0–1.
+    pub degree_centre: f64,
+    /// Centreline settlement at release (or end), m.
+    pub settlement_centre_m: f64,
+    /// The governing circle at the end of placement.
+    #[serde(skip)]
+    pub critical: Option<SearchResult>,
+}
+
+/// The planned timetable and its totals.
+#[derive(Debug, Clone, Serialize)]
+pub struct Plan {
+    pub stages: Vec<Stage>,
+    /// Last working day of the works.
+    pub finish: NaiveDate,
+    /// Calendar days from the project start to the finish.
+    pub duration_days: i64,
+    /// Centreline settlement at the finish, m.
+    pub settlement_at_finish_m: f64,
+    /// Centreline settlement when the design load has fully consolidated, m.
+    pub final_settlement_m: f64,
+    /// Settlement still to come after the finish within the design life
+    /// (primary plus secondary compression), m.
+    pub residual_settlement_m: f64,
+    /// Lowest FS at the end of any stage and that stage's number.
+    pub min_fs: f64,
+    pub min_fs_stage: usize,
+    /// Fill volumes per metre run, m³/m.
+    pub volume_design_m3_per_m: f64,
+    pub volume_makeup_m3_per_m: f64,
+    pub volume_surcharge_m3_per_m: f64,
+    /// FS at the finish against the service target.
+    pub fs_finish: f64,
+    pub effort: Effort,
+    /// Warnings that do not stop the plan.
+    pub warnings: Vec<String>,
+}
+
+/// Plan the project from its initial state.
+pub fn plan(r: &Runner) -> Result<Plan> {
+    let p = r.engine.project;
+    let mut st = r.engine.initial_state();
+    let mut effort = Effort::default();
+    let mut stages: Vec<Stage> = Vec::new();
+    let top = p.max_height_m();
+    let mut earliest = 0;
+    while st.height_m < top - 1e-6 {
+        let candidates = lift_candidates(r, top - st.height_m);
+        let (start, lift) = find_next(r, &st, earliest, &candidates, &mut effort)?;
+        if let Some(prev) = stages.last_mut() {
+            close_rest(r, prev, &st, start, &mut effort)?;
+        }
+        r.rest_until(&mut st, start, &mut |_| {});
+        let (a, b) = r.place(&mut st, lift, &mut |_| {})?;
+        let crit = r.stability(&st, &mut effort)?;
+        stages.push(stage(r, stages.len() + 1, StageKind::Lift, a, b, lift, &st, crit));
+        earliest = b + 1 + p.construction.min_rest_days as i64;
+    }
+    let mut warnings = Vec::new();
+    if p.embankment.surcharge_height_m > 0.0 {
+        let start = removal_day(r, &st, earliest, &mut warnings)?;
+        if let Some(prev) = stages.last_mut() {
+            close_rest(r, prev, &st, start, &mut effort)?;
+        }
+        r.rest_until(&mut st, start, &mut |_| {});
+        let (a, b) = r.place(&mut st, -p.embankment.surcharge_height_m, &mut |_| {})?;
+        let crit = r.stability(&st, &mut effort)?;
+        stages.push(stage(
+            r,
+            stages.len() + 1,
+            StageKind::SurchargeRemoval,
+            a,
+            b,
+            -p.embankment.surcharge_height_m,
+            &st,
+            crit,
+        ));
+    }
+    totals(r, stages, &st, effort, warnings)
+}
+
+/// Lift thicknesses to try, thickest first: from min(max lift, remaining)
+/// down to the minimum lift in the configured increment; the remainder when
+/// less than a minimum lift is left.
+fn lift_candidates(r: &Runner, remaining: f64) -> Vec<f64> {
+    let c = &r.engine.project.construction;
+    if remaining <= c.lift_min_m + 1e-9 {
+        return vec![remaining];
+    }
+    let top = c.lift_max_m.min(remaining);
+    let mut out = vec![top];
+    let mut t = (top / c.lift_increment_m - 1e-9).floor() * c.lift_increment_m;
+    while t >= c.lift_min_m - 1e-9 {
+        if t < top - 1e-9 {
+            out.push(t);
+        }
+        t -= c.lift_increment_m;
+    }
+    if out.last().is_some_and(|l| *l > c.lift_min_m + 1e-9) {
+        out.push(c.lift_min_m);
+    }
+    out
+}
+
+/// FS at the end of placing `lift` starting on or after `start`.
+fn trial(r: &Runner, st: &State, start: i64, lift: f64, effort: &mut Effort) -> Result<f64> {
+    let mut s = st.clone();
+    r.rest_until(&mut s, start, &mut |_| {});
+    r.place(&mut s, lift, &mut |_| {})?;
+    Ok(r.stability(&s, effort)?.critical.fs)
+}
+
+/// Start day and thickness of the next lift: the earliest day on which the
+/// thinnest candidate is safe, then the thickest candidate safe that day.
+fn find_next(r: &Runner, st: &State, earliest: i64, cands: &[f64], effort: &mut Effort) -> Result<(i64, f64)> {
+    let target = r.engine.project.criteria.fs_construction;
+    let last = cands.len() - 1;
+    let first = r.next_workable(earliest.max(st.day.ceil() as i64))?;
+    let safe = |i: usize, day: i64, effort: &mut Effort| -> Result<bool> {
+        Ok(trial(r, st, day, cands[i], effort)? >= target)
+    };
+    if safe(last, first, effort)? {
+        // Lift-limited: the thickest safe candidate on the first day.
+        if last == 0 || safe(0, first, effort)? {
+            return Ok((first, cands[0]));
+        }
+        return Ok((first, cands[thickest_safe(0, last, |i, e| safe(i, first, e), effort)?]));
+    }
+    // Rest-limited: on the day the thinnest lift first becomes safe a
+    // thicker one rarely is; try one increment up before bisecting.
+    let start = earliest_safe_day(r, st, first, cands[last], effort)?;
+    if last == 0 || !safe(last - 1, start, effort)? {
+        return Ok((start, cands[last]));
+    }
+    if safe(0, start, effort)? {
+        return Ok((start, cands[0]));
+    }
+    Ok((
+        start,
+        cands[thickest_safe(0, last - 1, |i, e| safe(i, start, e), effort)?],
+    ))
+}
+
+/// Bisection over candidate indices: `unsafe_i` is known unsafe and
+/// `safe_i` known safe (thickest first, so FS rises with the index).
+fn thickest_safe(
+    mut unsafe_i: usize,
+    mut safe_i: usize,
+    mut safe: impl FnMut(usize, &mut Effort) -> Result<bool>,
+    effort: &mut Effort,
+) -> Result<usize> {
+    while safe_i - unsafe_i > 1 {
+        let mid = (unsafe_i + safe_i) / 2;
+        if safe(mid, effort)? {
+            safe_i = mid;
+        } else {
+            unsafe_i = mid;
+        }
+    }
+    Ok(safe_i)
+}
+
+/// Shortest rest (to the day) after which `lift` started then is safe.
+/// A bracket is grown by doubling, then narrowed to one day by false
+/// position on FS − target, switching to bisection whenever the same end of
+/// the bracket is kept twice running (so it cannot stall).
+pub(crate) fn earliest_safe_day(r: &Runner, st: &State, first: i64, lift: f64, effort: &mut Effort) -> Result<i64> {
+    let target = r.engine.project.criteria.fs_construction;
+    let f = |day: i64, effort: &mut Effort| -> Result<f64> { Ok(trial(r, st, day, lift, effort)? - target) };
+    let (mut lo, mut f_lo) = (first, f(first, effort)?);
+    let mut step = 14;
+    let (mut hi, mut f_hi) = loop {
+        let day = r.next_workable(first + step)?;
+        let v = f(day, effort)?;
+        if v >= 0.0 {
+            break (day, v);
+        }
+        (lo, f_lo) = (day, v);
+        if step > MAX_REST_DAYS {
+            return Err(unreachable_height(r, st, lift));
+        }
+        step *= 2;
+    };
+    let mut side: i32 = 0;
+    while hi - lo > 1 {
+        let guess = lo as f64 + (hi - lo) as f64 * (-f_lo) / (f_hi - f_lo);
+        let mut mid = (guess.round() as i64).clamp(lo + 1, hi - 1);
+        if side.abs() >= 2 {
+            mid = (lo + hi) / 2;
+        }
+        let mid_w = r.next_workable(mid)?;
+        if mid_w >= hi {
+            // no workable day strictly inside the bracket
+            break;
+        }
+        let v = f(mid_w, effort)?;
+        if v >= 0.0 {
+            (hi, f_hi) = (mid_w, v);
+            side = if side < 0 { side - 1 } else { -1 };
+        } else {
+            (lo, f_lo) = (mid_w, v);
+            side = if side > 0 { side + 1 } else { 1 };
+        }
+    }
+    Ok(hi)
+}
+
+fn unreachable_height(r: &Runner, st: &State, lift: f64) -> Error {
+    let p = r.engine.project;
+    Error::Computation(format!(
+        "cannot be built to {:.2} m with FS ≥ {:.2}: even after resting {} years at {:.2} m a {:.2} m lift stays below the target. Consider berms, reinforcement, closer drains or a lower target height.",
+        p.max_height_m(),
+        p.criteria.fs_construction,
+        MAX_REST_DAYS / 365,
+        st.height_m,
+        lift
+    ))
+}
+
+/// Record the rest after a stage: release date and FS at release.
+fn close_rest(r: &Runner, prev: &mut Stage, st: &State, start: i64, effort: &mut Effort) -> Result<()> {
+    let mut s = st.clone();
+    r.rest_until(&mut s, start, &mut |_| {});
+    prev.rest_days = start - r.calendar.day_of(prev.end) - 1;
+    prev.release = Some(r.calendar.date(start));
+    prev.fs_release = Some(r.stability(&s, effort)?.critical.fs);
+    prev.degree_centre = r.engine.degree_centre(&s);
+    prev.settlement_centre_m = s.settlement_m[0];
+    Ok(())
+}
+
+/// The day the surcharge may come off: the first day on which the removal
+/// criterion holds (centreline degree of consolidation, or residual
+/// settlement over the design life), searched in whole days.
+fn removal_day(r: &Runner, st: &State, earliest: i64, warnings: &mut Vec<String>) -> Result<i64> {
+    let p = r.engine.project;
+    let degree = p.criteria.surcharge_removal_degree;
+    let limit = p.criteria.residual_settlement_limit_m;
+    if degree.is_none() && limit.is_none() {
+        warnings.push("no surcharge removal criterion given; the surcharge is held until 90% average consolidation under the centreline".into());
+    }
+    let degree = if limit.is_none() { degree.or(Some(0.9)) } else { degree };
+    let mut s = st.clone();
+    let mut day = r.next_workable(earliest)?;
+    r.rest_until(&mut s, day, &mut |_| {});
+    loop {
+        let ok_u = degree.is_none_or(|u| r.engine.degree_centre(&s) >= u);
+        let ok_s = limit.is_none_or(|l| residual_after_removal(r, &s) <= l);
+        if ok_u && ok_s {
+            return Ok(day);
+        }
+        if day > r.calendar.day_of(p.info.start_date) + MAX_REST_DAYS {
+            return Err(Error::Computation(
+                "the surcharge removal criterion is not met within 20 years; relax it or add drains".into(),
+            ));
+        }
+        day = r.next_workable(day + 7)?;
+        r.rest_until(&mut s, day, &mut |_| {});
+    }
+}
+
+/// Residual settlement (primary + secondary over the design life) if the
+/// surcharge were removed now, m.
+fn residual_after_removal(r: &Runner, st: &State) -> f64 {
+    let mut s = st.clone();
+    let h = r.engine.project.embankment.design_height_m;
+    r.engine.advance(&mut s, 0.01, h);
+    residual(r, &s)
+}
+
+/// Primary settlement still to come under the current load plus secondary
+/// compression over the design life, m.
+fn residual(r: &Runner, st: &State) -> f64 {
+    let primary = (r.engine.final_settlement_centre(st) - st.settlement_m[0]).max(0.0);
+    primary + secondary(r, st)
+}
+
+/// Secondary compression over the design life after the present time:
+/// Σ Cα/(1+e0)·H·log10((t + life)/t), t counted from the start of works
+/// (common practice estimate; conservative after a surcharge).
+fn secondary(r: &Runner, st: &State) -> f64 {
+    let p = r.engine.project;
+    let t = st.day.max(30.0);
+    let life = p.info.design_life_years * crate::model::DAYS_PER_YEAR;
+    p.ground
+        .layers
+        .iter()
+        .filter_map(|l| match &l.kind {
+            crate::model::LayerKind::Clay(c) => Some(c.c_alpha / (1.0 + c.e0) * l.thickness_m),
+            _ => None,
+        })
+        .sum::<f64>()
+        * ((t + life) / t).log10()
+}
+
+#[allow(clippy::too_many_arguments)]
+fn stage(
+    r: &Runner,
+    number: usize,
+    kind: StageKind,
+    a: i64,
+    b: i64,
+    change: f64,
+    st: &State,
+    crit: SearchResult,
+) -> Stage {
+    let c = &crit.critical;
+    let field = r.engine.field(st);
+    let su = field.sample(c.circle.xc_m, c.depth_m.max(0.0));
+    Stage {
+        number,
+        kind,
+        start: r.calendar.date(a),
+        end: r.calendar.date(b),
+        thickness_m: change,
+        height_after_m: st.height_m,
+        placed_after_m: st.placed_m,
+        fs_end: c.fs,
+        mechanism: c.band.clone(),
+        circle_depth_m: c.depth_m,
+        su_governing_kpa: su,
+        rest_days: 0,
+        release: None,
+        fs_release: None,
+        peak_excess_kpa: r.engine.peak_excess(st),
+        degree_centre: r.engine.degree_centre(st),
+        settlement_centre_m: st.settlement_m[0],
+        critical: Some(crit),
+    }
+}
+
+fn totals(r: &Runner, stages: Vec<Stage>, st: &State, mut effort: Effort, mut warnings: Vec<String>) -> Result<Plan> {
+    let p = r.engine.project;
+    let e = &p.embankment;
+    let finish = stages.last().map_or(p.info.start_date, |s| s.end);
+    let (min_fs, min_fs_stage) = stages
+        .iter()
+        .filter(|s| s.kind == StageKind::Lift)
+        .map(|s| (s.fs_end, s.number))
+        .min_by(|a, b| a.0.total_cmp(&b.0))
+        .unwrap_or((f64::INFINITY, 0));
+    let fs_finish = r.stability(st, &mut effort)?.critical.fs;
+    if fs_finish < p.criteria.fs_service {
+        warnings.push(format!(
+            "FS at the finish {fs_finish:.2} is below the service target {:.2}",
+            p.criteria.fs_service
+        ));
+    }
+    let s_fin = st.settlement_m[0];
+    let area = |t: f64| crate::load::area(&crate::load::profile(e, t));
+    let final_settlement_m = r.engine.final_settlement_centre(st);
+    Ok(Plan {
+        finish,
+        duration_days: (finish - p.info.start_date).num_days() + 1,
+        settlement_at_finish_m: s_fin,
+        final_settlement_m,
+        residual_settlement_m: residual(r, st),
+        min_fs,
+        min_fs_stage,
+        volume_design_m3_per_m: area(e.design_height_m),
+        volume_makeup_m3_per_m: area(e.design_height_m + s_fin) - area(e.design_height_m),
+        volume_surcharge_m3_per_m: area(p.max_height_m() + s_fin) - area(e.design_height_m + s_fin),
+        fs_finish,
+        effort,
+        warnings,
+        stages,
+    })
+}

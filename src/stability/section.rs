@@ -1,0 +1,286 @@
+//! The cross-section at one moment, in its settled shape: the fill surface is
+//! the design profile at the current crest height (its side slopes carried
+//! down into the settlement trough), the original ground surface is lowered
+//! by the settlement s(x) from the response columns, and a point originally
+//! at depth z is taken to have moved down by s(x)(1 − z/D) over the
+//! compressible depth D (the base does not move). Weights, materials and
+//! strengths of slice bases are looked up through that mapping, so the fill
+//! that has sunk below original ground is fill, not clay, and clay strength
+//! is sampled at the point's original depth where the columns computed it.
+
+use crate::load;
+use crate::model::*;
+use crate::response::GroundField;
+
+#[derive(Debug, Clone, Copy)]
+pub(super) enum Material {
+    Clay,
+    Sand { c: f64, tan_phi: f64 },
+}
+
+#[derive(Debug, Clone)]
+pub(super) struct SectionLayer {
+    pub name: String,
+    /// Original depths of top and bottom below OGL, m.
+    pub top_z: f64,
+    pub bottom_z: f64,
+    pub gamma: f64,
+    pub gamma_sat: f64,
+    pub material: Material,
+}
+
+/// The section at one moment: fill profile, settled ground, strength field.
+#[derive(Debug, Clone)]
+pub struct Section<'a> {
+    /// Right half of the design fill surface, (x, height above OGL), m.
+    pub profile: Vec<(f64, f64)>,
+    /// Full settled top surface, left to right.
+    pub(super) surface: Vec<(f64, f64)>,
+    side_slope: f64,
+    pub(super) fill_gamma: f64,
+    pub(super) fill_c: f64,
+    pub(super) fill_tan_phi: f64,
+    /// sin of the steepest base inclination at which fill still carries
+    /// shear on the active side (1 = no crack).
+    pub(super) crack_sin: f64,
+    pub(super) layers: Vec<SectionLayer>,
+    /// Lowest elevation a circle may reach (top of the stiff base), m.
+    pub base_y: f64,
+    pub(super) water_y: f64,
+    pub(super) field: &'a GroundField,
+    pub(super) reinforcement_kn: f64,
+    pub(super) slices: usize,
+}
+
+impl<'a> Section<'a> {
+    /// Section with the crest at `height_m` above OGL on the ground state
+    /// `field` (strength and settlement).
+    pub fn new(project: &Project, height_m: f64, field: &'a GroundField) -> Section<'a> {
+        let e = &project.embankment;
+        let o = &project.stability;
+        let profile = load::profile(e, height_m);
+        let mut layers = Vec::new();
+        let mut top = 0.0;
+        for l in &project.ground.layers {
+            let material = match l.kind {
+                LayerKind::Clay(_) => Material::Clay,
+                LayerKind::Sand {
+                    friction_deg,
+                    cohesion_kpa,
+                } => Material::Sand {
+                    c: cohesion_kpa,
+                    tan_phi: friction_deg.to_radians().tan(),
+                },
+                LayerKind::StiffBase => break,
+            };
+            layers.push(SectionLayer {
+                name: l.name.clone(),
+                top_z: top,
+                bottom_z: top + l.thickness_m,
+                gamma: l.unit_weight_kn_m3,
+                gamma_sat: l.saturated_unit_weight_kn_m3,
+                material,
+            });
+            top += l.thickness_m;
+        }
+        let mut s = Section {
+            surface: Vec::new(),
+            profile,
+            side_slope: e.side_slope_h_per_v,
+            fill_gamma: e.fill_unit_weight_kn_m3,
+            fill_c: o.fill_strength_factor * e.fill_cohesion_kpa,
+            fill_tan_phi: o.fill_strength_factor * e.fill_friction_deg.to_radians().tan(),
+            crack_sin: if o.fill_tension_crack {
+                (std::f64::consts::FRAC_PI_4 + 0.5 * e.fill_friction_deg.to_radians()).sin()
+            } else {
+                1.0
+            },
+            layers,
+            base_y: -top,
+            water_y: -project.ground.groundwater_depth_m,
+            field,
+            reinforcement_kn: e.reinforcement_kn_per_m,
+            slices: o.slices,
+        };
+        s.surface = s.build_surface();
+        s
+    }
+
+    /// Crest height, m.
+    pub fn crest_m(&self) -> f64 {
+        self.profile[0].1
+    }
+
+    /// Toe offset of the design profile on OGL, m.
+    pub fn toe_m(&self) -> f64 {
+        self.profile.last().map_or(0.0, |p| p.0)
+    }
+
+    /// Settled original-ground surface at x (≤ 0), m.
+    pub fn ground_y(&self, x: f64) -> f64 {
+        -self.field.settlement(x)
+    }
+
+    /// Design fill surface at x, with the outer slope carried on below OGL.
+    fn fill_top(&self, x: f64) -> f64 {
+        let x = x.abs();
+        if self.crest_m() <= 0.0 {
+            return f64::NEG_INFINITY;
+        }
+        let toe = self.toe_m();
+        if x <= toe {
+            load::height_at(&self.profile, x)
+        } else {
+            -(x - toe) / self.side_slope
+        }
+    }
+
+    /// Top of the section at x (fill where there is fill, else ground), m.
+    pub fn surface_y(&self, x: f64) -> f64 {
+        self.surface_with(x, self.field.settlement(x))
+    }
+
+    /// As `surface_y`, given the settlement s at x.
+    pub(super) fn surface_with(&self, x: f64, s: f64) -> f64 {
+        self.fill_top(x).max(-s)
+    }
+
+    /// Full surface polyline: every profile vertex and column offset on both
+    /// sides, plus the points where the fill slope meets the settled ground.
+    fn build_surface(&self) -> Vec<(f64, f64)> {
+        let far = 1.0e5;
+        let mut xs: Vec<f64> = self
+            .profile
+            .iter()
+            .map(|p| p.0)
+            .chain(self.field.xs.iter().copied())
+            .collect();
+        xs.extend(xs.clone().iter().map(|x| -x));
+        xs.extend([-far, far]);
+        xs.sort_by(f64::total_cmp);
+        xs.dedup_by(|a, b| (*a - *b).abs() < 1e-9);
+        let mut pts: Vec<(f64, f64)> = Vec::new();
+        for w in xs.windows(2) {
+            pts.push((w[0], self.surface_y(w[0])));
+            let (d0, d1) = (
+                self.fill_top(w[0]) - self.ground_y(w[0]),
+                self.fill_top(w[1]) - self.ground_y(w[1]),
+            );
+            if d0.is_finite() && d1.is_finite() && d0 * d1 < 0.0 {
+                let x = w[0] + (w[1] - w[0]) * d0 / (d0 - d1);
+                pts.push((x, self.surface_y(x)));
+            }
+        }
+        let last = *xs.last().unwrap_or(&far);
+        pts.push((last, self.surface_y(last)));
+        pts
+    }
+
+    /// Original depth below OGL of the soil point now at elevation y where
+    /// the surface settlement is s, m.
+    pub(super) fn original_depth(&self, s: f64, y: f64) -> f64 {
+        let d = -self.base_y;
+        (-y - s) / (1.0 - s / d).max(1e-3)
+    }
+
+    /// Current elevation of original depth z at offset x, m.
+    pub(super) fn elevation_of_depth(&self, x: f64, z: f64) -> f64 {
+        let s = self.field.settlement(x);
+        -z - s * (1.0 - z / -self.base_y)
+    }
+
+    fn layer_at(&self, z: f64) -> Option<&SectionLayer> {
+        self.layers.iter().find(|l| z <= l.bottom_z + 1e-9)
+    }
+
+    /// Name of the material at (x, y).
+    pub(super) fn band_at(&self, x: f64, y: f64) -> String {
+        if y >= self.ground_y(x) - 1e-9 {
+            return "fill".into();
+        }
+        self.layer_at(self.original_depth(self.field.settlement(x), y))
+            .map_or_else(|| "base".into(), |l| l.name.clone())
+    }
+
+    /// Weight of a vertical strip of unit width at x from y_bot to the
+    /// surface y_top, kN/m² (soil by its original column, fill below the
+    /// water table at its own unit weight).
+    pub(super) fn column_weight(&self, s: f64, y_bot: f64, y_top: f64) -> f64 {
+        let gy = -s;
+        let mut w = self.fill_gamma * (y_top - y_bot.max(gy)).max(0.0);
+        if y_bot >= gy {
+            return w;
+        }
+        let z_bot = self.original_depth(s, y_bot);
+        let zw = -self.water_y;
+        for l in &self.layers {
+            let (lo, hi) = (l.top_z, l.bottom_z.min(z_bot));
+            if hi <= lo {
+                break;
+            }
+            let wet = (hi - lo.max(zw)).max(0.0);
+            w += l.gamma_sat * wet + l.gamma * (hi - lo - wet);
+        }
+        w
+    }
+
+    /// (c kPa, tan φ, u kPa) at a slice base at (x, y), settlement s there,
+    /// whose base makes sin α with the horizontal (positive on the active
+    /// side).
+    pub(super) fn strength_at(&self, x: f64, s: f64, y: f64, sin_a: f64) -> (f64, f64, f64) {
+        let u_hydro = GAMMA_W * (self.water_y - y).max(0.0);
+        if y >= -s - 1e-9 {
+            // Tension crack: on the active side, where the slip surface in
+            // the fill is steeper than the Rankine active plane 45° + φ'/2,
+            // the fill is taken as cracked and carries no shear.
+            if sin_a > self.crack_sin {
+                return (0.0, 0.0, 0.0);
+            }
+            return (self.fill_c, self.fill_tan_phi, u_hydro);
+        }
+        let z = self.original_depth(s, y);
+        match self.layer_at(z).map(|l| l.material) {
+            Some(Material::Sand { c, tan_phi }) => (c, tan_phi, u_hydro),
+            _ => (self.field.sample(x, z), 0.0, 0.0),
+        }
+    }
+
+    /// Elevations (at offset x) of the layer boundaries and the water table.
+    pub(super) fn horizontal_breaks(&self, x: f64) -> Vec<f64> {
+        let mut v: Vec<f64> = self
+            .layers
+            .iter()
+            .map(|l| self.elevation_of_depth(x, l.top_z))
+            .collect();
+        v.push(self.water_y);
+        v
+    }
+
+    /// Moment of the basal reinforcement about the centre of circle: its
+    /// design force acts horizontally at the fill base where the circle cuts
+    /// it under the fill (lever arm yc − y), kN·m per m.
+    pub(super) fn reinforcement_moment(&self, xc: f64, yc: f64, r: f64, entry: f64, exit: f64) -> f64 {
+        if self.reinforcement_kn <= 0.0 {
+            return 0.0;
+        }
+        let toe = self.toe_m();
+        let mut best = 0.0f64;
+        for side in [-1.0, 1.0] {
+            // Fixed point: the base elevation depends on where it is cut.
+            let mut y = self.ground_y(xc);
+            let mut x = xc;
+            for _ in 0..3 {
+                let d = r * r - (yc - y).powi(2);
+                if d <= 0.0 {
+                    break;
+                }
+                x = xc + side * d.sqrt();
+                y = self.ground_y(x);
+            }
+            if x >= entry && x <= exit && x.abs() < toe && yc > y {
+                best = best.max(self.reinforcement_kn * (yc - y));
+            }
+        }
+        best
+    }
+}
