@@ -23,6 +23,8 @@ impl fmt::Display for InputIssue {
         }
         if self.key.is_empty() {
             write!(f, "{}", self.message)
+        } else if self.message.starts_with("= ") {
+            write!(f, "{} {}", self.key, self.message)
         } else {
             write!(f, "{}: {}", self.key, self.message)
         }

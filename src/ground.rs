@@ -170,10 +170,18 @@ pub fn grid(project: &Project) -> Vec<Node> {
 }
 
 /// Initial state of the ground at depth z.
+/// An interface node belongs to the layer below it, except that the top of
+/// a sand layer (or the base) under clay belongs to the clay above, so that
+/// the clay's strength and preconsolidation reach its drained boundary.
 pub fn node_at(project: &Project, z_m: f64) -> Node {
-    // The deepest node belongs to the layer above the base.
+    let g = &project.ground;
     let depth = project.profile_depth_m();
-    let li = layer_index(&project.ground, z_m.min(depth - 1e-6).max(0.0));
+    let mut li = layer_index(g, z_m.min(depth - 1e-6).max(0.0));
+    let at_top = li > 0 && (z_m - layer_top(g, li)).abs() < 1e-9;
+    if at_top && !matches!(g.layers[li].kind, LayerKind::Clay(_)) && matches!(g.layers[li - 1].kind, LayerKind::Clay(_))
+    {
+        li -= 1;
+    }
     node_at_layer(project, z_m, li)
 }
 

@@ -36,11 +36,12 @@ pub fn parse(text: &str, file: &str) -> Result<Project> {
     let mut issues: Vec<InputIssue> = unknown.iter().map(|p| unknown_key_issue(p, &lines)).collect();
     match typed {
         Err(e) => {
-            let key = error_path(e.path());
+            let path = error_path(e.path());
+            let (key, message) = describe_serde(&path, &e.into_inner().to_string());
             issues.push(InputIssue {
                 line: lines.line(&key),
                 key,
-                message: describe_serde(&e.into_inner().to_string()),
+                message,
             });
         }
         Ok(raw) if issues.is_empty() => match validate::project(&raw, &lines) {
@@ -55,13 +56,22 @@ pub fn parse(text: &str, file: &str) -> Result<Project> {
     })
 }
 
-fn describe_serde(msg: &str) -> String {
-    let msg = msg.trim_end_matches('\n');
-    if msg.starts_with("missing field") {
-        format!("{msg}: this key is required (see the project-file reference in README.md)")
-    } else {
-        format!("wrong type: {msg}")
+/// Key and sentence for a serde error at `path`: a missing field names the
+/// field itself; a type error says what was expected.
+fn describe_serde(path: &str, msg: &str) -> (String, String) {
+    let first = msg.lines().next().unwrap_or(msg);
+    if let Some(field) = first.strip_prefix("missing field `").and_then(|r| r.strip_suffix('`')) {
+        let key = if path.is_empty() {
+            field.to_string()
+        } else {
+            format!("{path}.{field}")
+        };
+        return (
+            key,
+            "is missing; this key is required (see the project-file reference in README.md)".into(),
+        );
     }
+    (path.to_string(), format!("wrong type: {first}"))
 }
 
 fn ignored_path(p: &serde_ignored::Path<'_>) -> String {

@@ -255,39 +255,24 @@ fn layer(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, last: bool) -> Laye
 
 fn clay(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, thickness_m: f64) -> Clay {
     let k = |f: &str| format!("{key}.{f}");
-    let need = |c: &mut Check, f: &str, v: Option<f64>| -> f64 {
-        v.unwrap_or_else(|| {
-            c.bad(&k(f), "is missing; clay layers need it".into());
-            f64::NAN
-        })
+    // A missing key is reported and a harmless stand-in used, so that the
+    // remaining checks still run (the result is discarded on any issue).
+    let need = |c: &mut Check, f: &str, v: Option<f64>, low: Low, high: f64, stand_in: f64| -> f64 {
+        match v {
+            Some(x) => c.num(&k(f), x, low, high),
+            None => {
+                c.bad(&k(f), "is missing; clay layers need it".into());
+                stand_in
+            }
+        }
     };
-    let e0 = need(c, "e0", r.e0);
-    let cc = need(c, "cc", r.cc);
-    let cr = need(c, "cr", r.cr);
-    let cv = need(c, "cv_m2_per_year", r.cv_m2_per_year);
-    let e0 = if e0.is_nan() {
-        1.0
-    } else {
-        c.num(&k("e0"), e0, Low::Excl(0.1), 10.0)
-    };
-    let cc = if cc.is_nan() {
-        1.0
-    } else {
-        c.num(&k("cc"), cc, Low::Excl(0.0), 5.0)
-    };
-    let cr = if cr.is_nan() {
-        0.1
-    } else {
-        c.num(&k("cr"), cr, Low::Excl(0.0), 1.0)
-    };
+    let e0 = need(c, "e0", r.e0, Low::Excl(0.1), 10.0, 1.0);
+    let cc = need(c, "cc", r.cc, Low::Excl(0.0), 5.0, 1.0);
+    let cr = need(c, "cr", r.cr, Low::Excl(0.0), 1.0, 0.1);
     if cr >= cc {
         c.bad(&k("cr"), format!("= {cr} must be smaller than cc ({cc})"));
     }
-    let cv = if cv.is_nan() {
-        1.0
-    } else {
-        c.num(&k("cv_m2_per_year"), cv, Low::Excl(0.0), 1000.0)
-    };
+    let cv = need(c, "cv_m2_per_year", r.cv_m2_per_year, Low::Excl(0.0), 1000.0, 1.0);
     let ch = match (r.ch_m2_per_year, r.ch_over_cv) {
         (Some(_), Some(_)) => {
             c.bad(
@@ -748,7 +733,7 @@ fn sequence(
                 c.bad(
                     &format!("{key}.start_date"),
                     format!(
-                        "= {start} overlaps the previous lift, which needs at least {days} working day(s) from {}",
+                        "= {start} overlaps the previous lift, which needs at least {days} day(s) of placement from {}",
                         prev.start
                     ),
                 );

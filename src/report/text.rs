@@ -217,16 +217,17 @@ pub fn assess(p: &Project, a: &Assessment) -> String {
         ]);
     }
     out.push_str(&t.render());
-    out.push_str("\nExcess pore pressure under the centreline (kPa) at mid-depth of each clay layer, every 30 days\n");
+    out.push_str(
+        "\nUnder the centreline at mid-depth of each clay layer: excess pore pressure Δu and strength su (kPa)\n",
+    );
     let mut head = vec!["date".to_string(), "crest m".into(), "FS".into()];
-    head.extend(a.depths_m.iter().map(|z| format!("z={z:.2}")));
+    head.extend(a.depths_m.iter().map(|z| format!("Δu z={z:.2}")));
     head.extend(a.depths_m.iter().map(|z| format!("su z={z:.2}")));
     let head_refs: Vec<&str> = head.iter().map(String::as_str).collect();
     let mut t = Table::new(&head_refs);
-    for (i, r) in a.series.iter().enumerate() {
-        if i % 30 != 0 && i + 1 != a.series.len() {
-            continue;
-        }
+    let with_fs: Vec<_> = a.series.iter().filter(|r| r.fs.is_some()).collect();
+    let stride = with_fs.len().div_ceil(40).max(1);
+    for r in with_fs.iter().step_by(stride) {
         let mut row = vec![
             r.date.to_string(),
             f(r.height_m, 2),

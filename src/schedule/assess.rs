@@ -6,7 +6,7 @@
 
 use super::planner::earliest_safe_day;
 use super::{Effort, Runner};
-use crate::error::Result;
+use crate::error::{Error, Result};
 use crate::model::ConsolidationMode;
 use crate::response::ColumnInfo;
 use chrono::NaiveDate;
@@ -87,6 +87,14 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
     let mut lifts = Vec::new();
     for (i, lift) in p.sequence.iter().enumerate() {
         let day = r.calendar.day_of(lift.start);
+        if (day as f64) < st.day - 1e-9 {
+            return Err(Error::Usage(format!(
+                "sequence[{i}].start_date = {} is before lift {} is finished on {}; move it to a later date",
+                lift.start,
+                i,
+                r.calendar.date(st.day.ceil() as i64 - 1)
+            )));
+        }
         {
             let mut rec = recorder(r, &depths, &mut series, &mut effort);
             r.rest_until(&mut st, day, &mut rec);
@@ -138,23 +146,27 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
     })
 }
 
-/// A closure that appends one row per whole day, with FS every
-/// `FS_EVERY_DAYS` days.
+/// A closure that appends one row per whole day reached, with FS on the
+/// first row at or after every multiple of `FS_EVERY_DAYS`.
 fn recorder<'a>(
     r: &'a Runner,
     depths: &'a [f64],
     series: &'a mut Vec<SeriesRow>,
     effort: &'a mut Effort,
 ) -> impl FnMut(&crate::response::State) + 'a {
+    let mut next_fs = 0;
     move |st| {
         let day = st.day.round();
         if (st.day - day).abs() > 1e-6 || series.last().is_some_and(|l| r.calendar.day_of(l.date) >= day as i64) {
             return;
         }
         let e = r.engine;
-        let fs = (day as i64 % FS_EVERY_DAYS == 0 && st.placed_m > 0.0)
-            .then(|| r.stability(st, effort).ok().map(|s| s.critical.fs))
-            .flatten();
+        let fs = if day as i64 >= next_fs && st.placed_m > 0.0 {
+            next_fs = (day as i64 / FS_EVERY_DAYS + 1) * FS_EVERY_DAYS;
+            r.stability(st, effort).ok().map(|s| s.critical.fs)
+        } else {
+            None
+        };
         series.push(SeriesRow {
             date: r.calendar.date(day as i64),
             height_m: st.height_m,

@@ -13,6 +13,8 @@ const NY: usize = 12;
 const NT: usize = 14;
 /// Pattern search stops when the step falls below this, m.
 const MIN_STEP_M: f64 = 0.02;
+/// Grid circles per band from which refinement starts.
+const STARTS: usize = 3;
 
 /// The outcome of a search.
 #[derive(Debug, Clone, Serialize)]
@@ -53,8 +55,8 @@ impl Counter {
     }
 }
 
-/// Best grid circle found in a band: (result, tangent elevation, grid index).
-type Candidate = (CircleResult, f64, usize);
+/// A grid circle: (result, tangent elevation, grid index, tangent index).
+type Candidate = (CircleResult, f64, usize, usize);
 
 /// Full search on a section. The grid is split across the machine's cores;
 /// ties are broken by grid index, so the answer does not depend on the
@@ -73,7 +75,7 @@ pub fn search(s: &Section) -> Result<SearchResult> {
         tangents: tangent_levels(s, h),
     };
     let threads = std::thread::available_parallelism().map_or(1, |n| n.get()).clamp(1, NX);
-    let chunks: Vec<(Vec<Option<Candidate>>, Counter)> = std::thread::scope(|scope| {
+    let chunks: Vec<(Vec<Vec<Candidate>>, Counter)> = std::thread::scope(|scope| {
         let handles: Vec<_> = (0..threads)
             .map(|t| {
                 let (grid, bands) = (&grid, &bands);
@@ -86,15 +88,13 @@ pub fn search(s: &Section) -> Result<SearchResult> {
             .collect()
     });
     let mut count = Counter { tried: 0, rejected: 0 };
-    let mut best: Vec<Option<Candidate>> = vec![None; bands.len()];
+    let mut best: Vec<Vec<Candidate>> = vec![Vec::new(); bands.len()];
     for (found, c) in chunks {
         count.tried += c.tried;
         count.rejected += c.rejected;
-        for (k, cand) in found.into_iter().enumerate() {
-            if let Some(cand) = cand {
-                if best[k].as_ref().is_none_or(|b| better(&cand, b)) {
-                    best[k] = Some(cand);
-                }
+        for (k, cands) in found.into_iter().enumerate() {
+            for cand in cands {
+                keep(&mut best[k], cand);
             }
         }
     }
@@ -102,7 +102,7 @@ pub fn search(s: &Section) -> Result<SearchResult> {
     let refined: Vec<CircleResult> = best
         .into_iter()
         .zip(&bands)
-        .filter_map(|(b, band)| b.map(|(r, yt, _)| refine(s, &mut count, r, yt, band, step0)))
+        .filter_map(|(b, band)| refine(s, &mut count, b, band, step0))
         .collect();
     let critical = refined
         .iter()
@@ -121,6 +121,23 @@ fn better(a: &Candidate, b: &Candidate) -> bool {
     a.0.fs < b.0.fs || (a.0.fs == b.0.fs && a.2 < b.2)
 }
 
+/// Keep the best candidate of each tangent level, at most `STARTS` levels,
+/// best first: starts at different depths find distinct local minima (a
+/// mid-layer circle and one tangent to the layer's base, say).
+fn keep(list: &mut Vec<Candidate>, cand: Candidate) {
+    if let Some(i) = list.iter().position(|b| b.3 == cand.3) {
+        if !better(&cand, &list[i]) {
+            return;
+        }
+        list.remove(i);
+    }
+    let pos = list.iter().position(|b| better(&cand, b)).unwrap_or(list.len());
+    if pos < STARTS {
+        list.insert(pos, cand);
+        list.truncate(STARTS);
+    }
+}
+
 /// The trial grid: centres over [x0, x1] × [y0, y1] and tangent elevations.
 struct Grid {
     x0: f64,
@@ -132,9 +149,9 @@ struct Grid {
 
 impl Grid {
     /// Scan the grid columns `cols`; best candidate per band.
-    fn scan(&self, s: &Section, bands: &[Band], cols: std::ops::Range<usize>) -> (Vec<Option<Candidate>>, Counter) {
+    fn scan(&self, s: &Section, bands: &[Band], cols: std::ops::Range<usize>) -> (Vec<Vec<Candidate>>, Counter) {
         let mut count = Counter { tried: 0, rejected: 0 };
-        let mut best: Vec<Option<Candidate>> = vec![None; bands.len()];
+        let mut best: Vec<Vec<Candidate>> = vec![Vec::new(); bands.len()];
         for i in cols {
             let xc = self.x0 + (self.x1 - self.x0) * i as f64 / (NX - 1) as f64;
             for j in 0..NY {
@@ -150,11 +167,8 @@ impl Grid {
                     ) else {
                         continue;
                     };
-                    let cand = (r, yt, (i * NY + j) * self.tangents.len() + k);
-                    let band = band_of(bands, yt);
-                    if best[band].as_ref().is_none_or(|b| better(&cand, b)) {
-                        best[band] = Some(cand);
-                    }
+                    let cand = (r, yt, (i * NY + j) * self.tangents.len() + k, k);
+                    keep(&mut best[band_of(bands, yt)], cand);
                 }
             }
         }
@@ -171,7 +185,7 @@ fn bands(s: &Section) -> Vec<Band> {
             hi: s.crest_m(),
         });
     }
-    let x = s.profile.get(1).map_or(0.0, |p| p.0);
+    let x = s.toe_m();
     for l in &s.layers {
         out.push(Band {
             lo: s.elevation_of_depth(x, l.bottom_z),
@@ -194,7 +208,7 @@ fn band_of(bands: &[Band], yt: f64) -> usize {
 fn tangent_levels(s: &Section, h: f64) -> Vec<f64> {
     let depth = -s.base_y;
     let mut t = vec![0.6 * h, 0.25 * h];
-    let x = s.profile.get(1).map_or(0.0, |p| p.0);
+    let x = s.toe_m();
     for l in &s.layers {
         let (top, bottom) = (s.elevation_of_depth(x, l.top_z), s.elevation_of_depth(x, l.bottom_z));
         t.extend([0.5 * (top + bottom), bottom]);
@@ -206,17 +220,25 @@ fn tangent_levels(s: &Section, h: f64) -> Vec<f64> {
     t
 }
 
-/// Pattern search in (xc, yc, tangent elevation) over all 26 neighbour
-/// directions (diagonals included, because the FS surface has creases where
-/// a circle's entry crosses a break in the profile), tangent kept in its band.
-fn refine(s: &Section, count: &mut Counter, start: CircleResult, yt0: f64, band: &Band, step0: f64) -> CircleResult {
-    let mut best = start;
-    let mut yt = yt0;
-    let mut step = step0;
-    while step >= MIN_STEP_M {
+/// Pattern search in (xc, yc, tangent elevation), tangent kept in its band:
+/// each pass tries the moves of `dirs` at the current step, moves to the
+/// best improvement, and halves the step when none improves, down to
+/// `min_step`. Returns the best circle and its tangent elevation.
+#[allow(clippy::too_many_arguments)]
+fn pattern(
+    s: &Section,
+    count: &mut Counter,
+    start: (CircleResult, f64),
+    band: &Band,
+    mut step: f64,
+    min_step: f64,
+    dirs: &[[f64; 3]],
+) -> (CircleResult, f64) {
+    let (mut best, mut yt) = start;
+    while step >= min_step {
         let c = best.circle;
-        let mut improved = None;
-        for d in directions() {
+        let mut improved: Option<(CircleResult, f64)> = None;
+        for d in dirs {
             let t = (yt + d[2] * step * 0.5).clamp(band.lo.max(s.base_y), band.hi);
             let yc = c.yc_m + d[1] * step;
             if yc <= t + 0.1 {
@@ -228,20 +250,34 @@ fn refine(s: &Section, count: &mut Counter, start: CircleResult, yt0: f64, band:
                 r_m: yc - t,
             };
             if let Some(r) = count.eval(s, trial) {
-                if r.fs < best.fs - 1e-6 && improved.as_ref().is_none_or(|(b, _): &(CircleResult, f64)| r.fs < b.fs) {
+                let current = improved.as_ref().map_or(best.fs - 1e-6, |b| b.0.fs);
+                if r.fs < current {
                     improved = Some((r, t));
                 }
             }
         }
         match improved {
-            Some((r, t)) => {
-                best = r;
-                yt = t;
-            }
+            Some(better) => (best, yt) = better,
             None => step *= 0.5,
         }
     }
-    best
+    (best, yt)
+}
+
+/// Refine a band: a compass search (6 axis moves) from each of its best grid
+/// circles, then a polish of the best with all 26 neighbour moves (diagonals
+/// matter where the FS surface has creases, e.g. where a circle's entry
+/// crosses a break in the profile).
+fn refine(s: &Section, count: &mut Counter, starts: Vec<Candidate>, band: &Band, step0: f64) -> Option<CircleResult> {
+    let axes = directions()
+        .filter(|d| d.iter().filter(|v| **v != 0.0).count() == 1)
+        .collect::<Vec<_>>();
+    let all = directions().collect::<Vec<_>>();
+    let coarse = starts
+        .into_iter()
+        .map(|(r, yt, _, _)| pattern(s, count, (r, yt), band, step0, 8.0 * MIN_STEP_M, &axes))
+        .min_by(|a, b| a.0.fs.total_cmp(&b.0.fs))?;
+    Some(pattern(s, count, coarse, band, 8.0 * MIN_STEP_M, MIN_STEP_M, &all).0)
 }
 
 /// The 26 unit moves of a 3 × 3 × 3 stencil.
