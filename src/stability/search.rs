@@ -99,11 +99,29 @@ pub fn search(s: &Section) -> Result<SearchResult> {
         }
     }
     let step0 = ((grid.x1 - grid.x0) / (NX - 1) as f64).max((grid.y1 - grid.y0) / (NY - 1) as f64);
-    let refined: Vec<CircleResult> = best
-        .into_iter()
-        .zip(&bands)
-        .filter_map(|(b, band)| refine(s, &mut count, b, band, step0))
-        .collect();
+    // Bands are refined independently, in parallel.
+    let refined_counted: Vec<(Option<CircleResult>, Counter)> = std::thread::scope(|scope| {
+        let handles: Vec<_> = best
+            .into_iter()
+            .zip(&bands)
+            .map(|(b, band)| {
+                scope.spawn(move || {
+                    let mut c = Counter { tried: 0, rejected: 0 };
+                    (refine(s, &mut c, b, band, step0), c)
+                })
+            })
+            .collect();
+        handles
+            .into_iter()
+            .map(|h| h.join().expect("refinement thread panicked"))
+            .collect()
+    });
+    let mut refined = Vec::new();
+    for (r, c) in refined_counted {
+        count.tried += c.tried;
+        count.rejected += c.rejected;
+        refined.extend(r);
+    }
     let critical = refined
         .iter()
         .min_by(|a, b| a.fs.total_cmp(&b.fs))
@@ -264,20 +282,17 @@ fn pattern(
     (best, yt)
 }
 
-/// Refine a band: a compass search (6 axis moves) from each of its best grid
-/// circles, then a polish of the best with all 26 neighbour moves (diagonals
+/// Refine a band: a pattern search with all 26 neighbour moves (diagonals
 /// matter where the FS surface has creases, e.g. where a circle's entry
-/// crosses a break in the profile).
+/// crosses a break in the profile) from each of its best grid circles down
+/// to a coarse step, then the best of those down to the final step.
 fn refine(s: &Section, count: &mut Counter, starts: Vec<Candidate>, band: &Band, step0: f64) -> Option<CircleResult> {
-    let axes = directions()
-        .filter(|d| d.iter().filter(|v| **v != 0.0).count() == 1)
-        .collect::<Vec<_>>();
     let all = directions().collect::<Vec<_>>();
     let coarse = starts
         .into_iter()
-        .map(|(r, yt, _, _)| pattern(s, count, (r, yt), band, step0, 8.0 * MIN_STEP_M, &axes))
+        .map(|(r, yt, _, _)| pattern(s, count, (r, yt), band, step0, 8.0 * MIN_STEP_M, &all))
         .min_by(|a, b| a.0.fs.total_cmp(&b.0.fs))?;
-    Some(pattern(s, count, coarse, band, 8.0 * MIN_STEP_M, MIN_STEP_M, &all).0)
+    Some(pattern(s, count, coarse, band, 4.0 * MIN_STEP_M, MIN_STEP_M, &all).0)
 }
 
 /// The 26 unit moves of a 3 × 3 × 3 stencil.
