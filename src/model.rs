@@ -228,9 +228,10 @@ pub struct Criteria {
 pub struct StabilityOptions {
     /// Factor applied to fill c' and tan φ' (1 = full drained strength).
     pub fill_strength_factor: f64,
-    /// Whether the fill is cracked (no shear) where the slip surface rises
-    /// through it on the active side more steeply than the Rankine active
-    /// plane 45° + φ'/2. Default true: see DEVELOPERS.md.
+    /// Whether a circle through the ground is cut by a dry tension crack
+    /// through the full fill thickness on its active side (the fill beyond
+    /// the crack pushes with its Rankine active thrust but lends no shear).
+    /// Default true: see DEVELOPERS.md.
     pub fill_tension_crack: bool,
     /// Number of slices per circle (≥ 30).
     pub slices: usize,

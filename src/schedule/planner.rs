@@ -106,8 +106,7 @@ pub fn plan(r: &Runner) -> Result<Plan> {
     let top = p.max_height_m();
     let mut earliest = 0;
     while st.height_m < top - 1e-6 {
-        let candidates = lift_candidates(r, top - st.height_m);
-        let (start, lift) = find_next(r, &st, earliest, &candidates, &mut effort)?;
+        let (start, lift) = next_lift(r, &st, earliest, &mut effort)?;
         if let Some(prev) = stages.last_mut() {
             close_rest(r, prev, &st, start, &mut effort)?;
         }
@@ -138,6 +137,13 @@ pub fn plan(r: &Runner) -> Result<Plan> {
         ));
     }
     totals(r, stages, &st, effort, warnings)
+}
+
+/// The next lift from state `st`: its start day (on or after `earliest`)
+/// and its crest-height increment, m.
+pub fn next_lift(r: &Runner, st: &State, earliest: i64, effort: &mut Effort) -> Result<(i64, f64)> {
+    let candidates = lift_candidates(r, r.engine.project.max_height_m() - st.height_m);
+    find_next(r, st, earliest, &candidates, effort)
 }
 
 /// Lift thicknesses to try, thickest first: from min(max lift, remaining)

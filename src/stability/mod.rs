@@ -62,6 +62,9 @@ pub enum Reject {
     IntoBase,
     /// The sliding mass is thinner than `MIN_SLIP_DEPTH_M`.
     TooShallow,
+    /// The fill has no strength at all (it is a surcharge, not a slope) and
+    /// the circle leaves the ground through the fill's side slope.
+    ExitInStrengthlessFill,
     /// The sliding mass would move the other way (no driving moment).
     NoDrivingMoment,
     /// Bishop's m_α fell below the limit on a frictional slice.
@@ -77,17 +80,21 @@ impl Section<'_> {
             return Err(Reject::IntoBase);
         }
         let (entry, exit) = self.ends(c).ok_or(Reject::NoIntersection)?;
+        if self.fill_c <= 0.0 && self.fill_tan_phi <= 0.0 && self.surface_y(exit) > self.ground_y(exit) + 1e-6 {
+            return Err(Reject::ExitInStrengthlessFill);
+        }
         let slices = self.slices(c, entry, exit);
-        let (resist_ord, drive, slice_data, thickest) = self.slice_forces(c, &slices);
-        if thickest < MIN_SLIP_DEPTH_M {
+        let f = self.slice_forces(c, &slices);
+        if f.thickest < MIN_SLIP_DEPTH_M {
             return Err(Reject::TooShallow);
         }
-        if drive <= 1e-9 {
+        if f.drive_moment <= 1e-9 {
             return Err(Reject::NoDrivingMoment);
         }
+        let drive = f.drive_moment / c.r_m;
         let t_moment = self.reinforcement_moment(c.xc_m, c.yc_m, c.r_m, entry, exit);
-        let fs_ordinary = (resist_ord * c.r_m + t_moment) / (drive * c.r_m);
-        let fs = self.bishop(&slice_data, drive, c, t_moment, fs_ordinary)?;
+        let fs_ordinary = (f.resist_ordinary * c.r_m + t_moment) / f.drive_moment;
+        let fs = self.bishop(&f.slices, drive, c, t_moment, fs_ordinary)?;
         let y_low = c.yc_m - c.r_m;
         Ok(CircleResult {
             circle: c,
@@ -99,7 +106,7 @@ impl Section<'_> {
             resisting_knm_per_m: fs * drive * c.r_m,
             depth_m: -y_low,
             band: self.band_at(c.xc_m, y_low.max(self.base_y)),
-            slices: slices.len(),
+            slices: f.slices.len(),
         })
     }
 
@@ -145,11 +152,21 @@ impl Section<'_> {
         out
     }
 
-    /// Per-slice forces; returns (Ordinary resisting force sum, driving
-    /// force sum Σ W sin α, slice data for Bishop, thickest slice m).
-    fn slice_forces(&self, c: Circle, slices: &[(f64, f64)]) -> (f64, f64, Vec<SliceData>, f64) {
-        let (mut resist, mut drive, mut thickest) = (0.0, 0.0, 0.0f64);
-        let mut data = Vec::with_capacity(slices.len());
+    /// Per-slice forces. With the fill tension crack on, a circle that goes
+    /// below the ground is cut by a dry vertical crack through the full fill
+    /// thickness where it first enters the ground on the active side: the
+    /// fill between the entry and the crack is not part of the sliding mass,
+    /// and pushes on it with the Rankine active thrust ½ Ka γ h² (c' = 0)
+    /// at a third of the crack height.
+    fn slice_forces(&self, c: Circle, slices: &[(f64, f64)]) -> Forces {
+        let mut f = Forces {
+            resist_ordinary: 0.0,
+            drive_moment: 0.0,
+            slices: Vec::with_capacity(slices.len()),
+            thickest: 0.0,
+        };
+        let below_ground = c.yc_m - c.r_m < self.ground_y(c.xc_m);
+        let mut cracked = self.crack && below_ground;
         for &(xa, xb) in slices {
             let x = 0.5 * (xa + xb);
             let b = xb - xa;
@@ -160,15 +177,22 @@ impl Section<'_> {
             if y_arc >= y_top {
                 continue;
             }
-            thickest = thickest.max(y_top - y_arc);
+            if cracked {
+                if y_arc >= -s_x && x < c.xc_m {
+                    continue; // beyond the crack
+                }
+                cracked = false;
+                f.drive_moment += self.crack_thrust_moment(c, xa);
+            }
+            f.thickest = f.thickest.max(y_top - y_arc);
             let sin_a = (c.xc_m - x) / c.r_m;
             let cos_a = (1.0 - sin_a * sin_a).max(1e-9).sqrt();
             let w = b * self.column_weight(s_x, y_arc, y_top);
-            let (coh, tan_phi, u) = self.strength_at(x, s_x, y_arc, sin_a);
+            let (coh, tan_phi, u) = self.strength_at(x, s_x, y_arc);
             let l = b / cos_a;
-            resist += coh * l + ((w * cos_a - u * l).max(0.0)) * tan_phi;
-            drive += w * sin_a;
-            data.push(SliceData {
+            f.resist_ordinary += coh * l + ((w * cos_a - u * l).max(0.0)) * tan_phi;
+            f.drive_moment += w * sin_a * c.r_m;
+            f.slices.push(SliceData {
                 b,
                 w,
                 sin_a,
@@ -178,7 +202,16 @@ impl Section<'_> {
                 u,
             });
         }
-        (resist, drive, data, thickest)
+        f
+    }
+
+    /// Moment about the centre of the active thrust of the cracked fill at
+    /// x (horizontal, towards the toe), kN·m per m.
+    fn crack_thrust_moment(&self, c: Circle, x: f64) -> f64 {
+        let ground = self.ground_y(x);
+        let h = (self.surface_y(x) - ground).max(0.0);
+        let thrust = 0.5 * self.fill_ka * self.fill_gamma * h * h;
+        thrust * (c.yc_m - (ground + h / 3.0))
     }
 
     /// Bishop's simplified method by fixed-point iteration on FS.
@@ -201,6 +234,17 @@ impl Section<'_> {
         }
         Err(Reject::NoConvergence)
     }
+}
+
+/// Sums over the slices of one circle.
+struct Forces {
+    /// Ordinary-method resisting force Σ [c l + (W cos α − u l) tan φ], kN/m.
+    resist_ordinary: f64,
+    /// Driving moment Σ W R sin α plus any crack thrust, kN·m per m.
+    drive_moment: f64,
+    slices: Vec<SliceData>,
+    /// Thickest slice, m.
+    thickest: f64,
 }
 
 #[derive(Debug, Clone, Copy)]

@@ -186,7 +186,9 @@ impl Grid {
                         continue;
                     };
                     let cand = (r, yt, (i * NY + j) * self.tangents.len() + k, k);
-                    keep(&mut best[band_of(bands, yt)], cand);
+                    if let Some(band) = band_of(bands, yt) {
+                        keep(&mut best[band], cand);
+                    }
                 }
             }
         }
@@ -194,10 +196,12 @@ impl Grid {
     }
 }
 
-/// Bands: the fill (when there is some) and each ground layer.
+/// Bands: the fill (when there is some, and it has any strength: a fill
+/// given no strength at all is a surcharge on the ground, not a slope) and
+/// each ground layer.
 fn bands(s: &Section) -> Vec<Band> {
     let mut out = Vec::new();
-    if s.crest_m() > 0.2 {
+    if s.crest_m() > 0.2 && (s.fill_c > 0.0 || s.fill_tan_phi > 0.0) {
         out.push(Band {
             lo: 0.0,
             hi: s.crest_m(),
@@ -213,11 +217,8 @@ fn bands(s: &Section) -> Vec<Band> {
     out
 }
 
-fn band_of(bands: &[Band], yt: f64) -> usize {
-    bands
-        .iter()
-        .position(|b| yt >= b.lo - 1e-9 && yt <= b.hi + 1e-9)
-        .unwrap_or(bands.len() - 1)
+fn band_of(bands: &[Band], yt: f64) -> Option<usize> {
+    bands.iter().position(|b| yt >= b.lo - 1e-9 && yt <= b.hi + 1e-9)
 }
 
 /// Tangent elevations: two within the fill, then through the ground at

@@ -40,9 +40,10 @@ pub struct Section<'a> {
     pub(super) fill_gamma: f64,
     pub(super) fill_c: f64,
     pub(super) fill_tan_phi: f64,
-    /// sin of the steepest base inclination at which fill still carries
-    /// shear on the active side (1 = no crack).
-    pub(super) crack_sin: f64,
+    /// Full-depth dry tension crack in the fill on the active side.
+    pub(super) crack: bool,
+    /// Rankine active coefficient of the fill, tan²(45° − φ'/2).
+    pub(super) fill_ka: f64,
     pub(super) layers: Vec<SectionLayer>,
     /// Lowest elevation a circle may reach (top of the stiff base), m.
     pub base_y: f64,
@@ -90,11 +91,10 @@ impl<'a> Section<'a> {
             fill_gamma: e.fill_unit_weight_kn_m3,
             fill_c: o.fill_strength_factor * e.fill_cohesion_kpa,
             fill_tan_phi: o.fill_strength_factor * e.fill_friction_deg.to_radians().tan(),
-            crack_sin: if o.fill_tension_crack {
-                (std::f64::consts::FRAC_PI_4 + 0.5 * e.fill_friction_deg.to_radians()).sin()
-            } else {
-                1.0
-            },
+            crack: o.fill_tension_crack,
+            fill_ka: (std::f64::consts::FRAC_PI_4 - 0.5 * e.fill_friction_deg.to_radians())
+                .tan()
+                .powi(2),
             layers,
             base_y: -top,
             water_y: -project.ground.groundwater_depth_m,
@@ -224,18 +224,10 @@ impl<'a> Section<'a> {
         w
     }
 
-    /// (c kPa, tan φ, u kPa) at a slice base at (x, y), settlement s there,
-    /// whose base makes sin α with the horizontal (positive on the active
-    /// side).
-    pub(super) fn strength_at(&self, x: f64, s: f64, y: f64, sin_a: f64) -> (f64, f64, f64) {
+    /// (c kPa, tan φ, u kPa) at a slice base at (x, y), settlement s there.
+    pub(super) fn strength_at(&self, x: f64, s: f64, y: f64) -> (f64, f64, f64) {
         let u_hydro = GAMMA_W * (self.water_y - y).max(0.0);
         if y >= -s - 1e-9 {
-            // Tension crack: on the active side, where the slip surface in
-            // the fill is steeper than the Rankine active plane 45° + φ'/2,
-            // the fill is taken as cracked and carries no shear.
-            if sin_a > self.crack_sin {
-                return (0.0, 0.0, 0.0);
-            }
             return (self.fill_c, self.fill_tan_phi, u_hydro);
         }
         let z = self.original_depth(s, y);

@@ -1,0 +1,32 @@
+//! Shared helpers of the integration tests: run the real binary, read the
+//! demo, write scratch projects into temporary folders.
+
+#![allow(dead_code)]
+
+use assert_cmd::Command;
+use std::path::{Path, PathBuf};
+
+pub const DEMO: &str = "examples/kestrel-fen.toml";
+
+/// The fillpace binary, run from the crate root.
+pub fn fillpace() -> Command {
+    let mut c = Command::cargo_bin("fillpace").expect("binary built");
+    c.current_dir(env!("CARGO_MANIFEST_DIR"));
+    c
+}
+
+/// Path relative to the crate root.
+pub fn root(rel: &str) -> PathBuf {
+    Path::new(env!("CARGO_MANIFEST_DIR")).join(rel)
+}
+
+/// Load and validate a project file through the library.
+pub fn load(rel: &str) -> fillpace::model::Project {
+    fillpace::input::load(&root(rel)).expect("valid project")
+}
+
+/// Parse the JSON envelope printed on stdout and return its `result`.
+pub fn json_result(out: &[u8]) -> serde_json::Value {
+    let v: serde_json::Value = serde_json::from_slice(out).expect("JSON on stdout");
+    v["result"].clone()
+}
