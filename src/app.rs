@@ -120,14 +120,18 @@ fn stability(path: &Path, height: f64, date: Option<&str>, circle: Option<&str>,
     let runner = Runner::new(&engine);
     let (st, when) = state_on(&runner, &p, date)?;
     // The section at the requested height, fill made up for settlement so far.
-    let placed = if height > 0.0 { height + st.settlement_m[0] } else { 0.0 };
+    let placed = if height > 0.0 {
+        height + st.settlement_centre_m
+    } else {
+        0.0
+    };
     let field = engine.field(&st);
     let section = Section::new(&p, height, &field);
     let src = path.display().to_string();
     match circle {
         Some(text) => {
             let c = parse_circle(text)?;
-            let r = section.analyse(c).map_err(|why| Error::Usage(format!("circle {text} cannot be analysed: {why:?}; it must cut the ground surface twice below its centre and stay above the stiff base")))?;
+            let r = section.analyse(c).map_err(|why| Error::Usage(format!("circle {text} cannot be analysed: {why}; a circle must cut the ground surface twice below its centre, move towards the toe and stay above the stiff base")))?;
             if json {
                 report::json::envelope("stability", &p, &src, &r)
             } else {

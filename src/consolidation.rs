@@ -198,9 +198,8 @@ impl Column {
     fn diffuse(&self, st: &mut ColumnState, dt: f64, theta: f64) {
         let n = self.nodes.len();
         let ne = self.elements.len();
-        let cond: Vec<f64> = (0..ne)
-            .map(|e| self.conductivity(st, e) / self.elements[e].h_m)
-            .collect();
+        let k: Vec<f64> = (0..ne).map(|e| self.conductivity(st, e)).collect();
+        let cond: Vec<f64> = (0..ne).map(|e| k[e] / self.elements[e].h_m).collect();
         let (mut a, mut b, mut c, mut d) = (vec![0.0; n], vec![0.0; n], vec![0.0; n], vec![0.0; n]);
         for i in 0..n {
             if self.fixed[i] {
@@ -213,11 +212,11 @@ impl Column {
             let mut r = 0.0;
             if i > 0 {
                 s += self.storage(st, i - 1, 1);
-                r += self.sink(i - 1, i, st);
+                r += self.sink(i - 1, i, k[i - 1]);
             }
             if i < ne {
                 s += self.storage(st, i, 0);
-                r += self.sink(i, i, st);
+                r += self.sink(i, i, k[i]);
             }
             let u = &st.u;
             let uu = if i > 0 { u[i - 1] } else { 0.0 };
@@ -232,8 +231,9 @@ impl Column {
         st.u.copy_from_slice(&d);
     }
 
-    /// Radial sink conductance of element e's half-cell at node i.
-    fn sink(&self, e: usize, i: usize, st: &ColumnState) -> f64 {
+    /// Radial sink conductance of element e's half-cell at node i, given the
+    /// element's K = k/γw.
+    fn sink(&self, e: usize, i: usize, k: f64) -> f64 {
         if self.radial[i] == 0.0 {
             return 0.0;
         }
@@ -241,7 +241,7 @@ impl Column {
         let Some(c) = el.clay else { return 0.0 };
         // ch_eff = (ch/cv)·K/mv, so the sink per unit area is (h/2)·λ·mv =
         // (h/2)·8/(de²μ)·(ch/cv)·K, independent of mv.
-        0.5 * el.h_m * self.radial[i] * (c.ch_m2_per_day / c.cv_m2_per_day) * self.conductivity(st, e)
+        0.5 * el.h_m * self.radial[i] * (c.ch_m2_per_day / c.cv_m2_per_day) * k
     }
 
     /// Settlement of the column, m (positive down).

@@ -401,4 +401,18 @@ mod tests {
         assert!((su_measured(&pts, 3.0) - 15.0).abs() < 1e-12);
         assert_eq!(su_measured(&pts, 9.0), 20.0);
     }
+
+    #[test]
+    fn clay_strength_reaches_a_drained_sand_interface() {
+        // Regression: the node on top of a sand layer under clay belonged to
+        // the sand and had su = 0, a false weak seam at the clay's base.
+        let p = crate::fixtures::project(
+            "[ground]\ngroundwater_depth_m = 0.0\n[[ground.layers]]\nname = \"clay\"\nkind = \"clay\"\nthickness_m = 5.0\nunit_weight_kn_m3 = 16.0\ne0 = 1.5\ncc = 0.6\ncr = 0.06\ncv_m2_per_year = 1.0\n[[ground.layers]]\nname = \"sand\"\nkind = \"sand\"\nthickness_m = 2.0\nunit_weight_kn_m3 = 19.0\n",
+        );
+        let n = node_at(&p, 5.0);
+        assert!(n.clay.is_some());
+        // SHANSEP, NC: su = 0.22 σ'v0 = 0.22 × 5 × (16 − 9.81)
+        assert!((n.su0_kpa - 0.22 * 5.0 * (16.0 - GAMMA_W)).abs() < 1e-9);
+        assert!(node_at(&p, 6.0).clay.is_none());
+    }
 }

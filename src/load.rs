@@ -106,27 +106,63 @@ pub fn stress(profile: &[(f64, f64)], unit_weight: f64, x: f64, z: f64) -> Stres
 }
 
 /// Right-half surface profile of fill of thickness `t_m` placed on OGL:
-/// vertices (x, height) from the centreline to the outer toe. Berms rise with
-/// the fill up to their own height.
+/// vertices (x, height) from the centreline to the outer toe. Berms are laid
+/// out on the final design section (each starts where the slope above it
+/// meets its height) and are raised with the fill: at thickness t a berm is
+/// a platform of height min(t, its height) out to its outer edge, so the
+/// profile, the maximum of the main trapezoid and the berm platforms, grows
+/// continuously with t.
 pub fn profile(e: &Embankment, t_m: f64) -> Vec<(f64, f64)> {
     let n = e.side_slope_h_per_v;
     let b = 0.5 * e.crest_width_m;
-    let mut pts = vec![(0.0, t_m), (b, t_m)];
-    let mut x = b;
-    let mut h = t_m;
+    // Each shape: (platform height, outer edge of the platform).
+    let mut shapes = vec![(t_m, b)];
+    let (mut x, mut h) = (b, e.design_height_m);
     for berm in &e.berms {
-        let hb = berm.height_m.min(t_m);
-        if hb <= 0.0 || hb >= h {
-            continue;
-        }
-        x += n * (h - hb);
-        pts.push((x, hb));
-        x += berm.width_m;
-        pts.push((x, hb));
-        h = hb;
+        x += n * (h - berm.height_m).max(0.0) + berm.width_m;
+        h = berm.height_m;
+        shapes.push((berm.height_m.min(t_m), x));
     }
-    pts.push((x + n * h, 0.0));
-    pts
+    let height = |x: f64| {
+        shapes
+            .iter()
+            .map(|&(hp, edge)| (hp - (x - edge).max(0.0) / n).max(0.0))
+            .fold(0.0, f64::max)
+    };
+    let toe = shapes.iter().map(|&(hp, edge)| edge + n * hp).fold(0.0, f64::max);
+    // Vertices: every platform edge and foot, and every point where one
+    // shape's slope meets another's platform.
+    let mut xs: Vec<f64> = shapes
+        .iter()
+        .flat_map(|&(hp, edge)| [edge, edge + n * hp])
+        .chain([0.0, toe])
+        .collect();
+    for &(ha, ea) in &shapes {
+        for &(hb, _) in &shapes {
+            if ha > hb {
+                xs.push(ea + n * (ha - hb));
+            }
+        }
+    }
+    xs.sort_by(f64::total_cmp);
+    xs.dedup_by(|a, b| (*a - *b).abs() < 1e-9);
+    xs.retain(|x| *x <= toe + 1e-9);
+    let pts: Vec<(f64, f64)> = xs.iter().map(|&x| (x, height(x))).collect();
+    // drop collinear interior points
+    let mut out: Vec<(f64, f64)> = Vec::with_capacity(pts.len());
+    for p in pts {
+        while out.len() >= 2 {
+            let (a, b) = (out[out.len() - 2], out[out.len() - 1]);
+            let cross = (b.0 - a.0) * (p.1 - a.1) - (b.1 - a.1) * (p.0 - a.0);
+            if cross.abs() < 1e-9 {
+                out.pop();
+            } else {
+                break;
+            }
+        }
+        out.push(p);
+    }
+    out
 }
 
 /// Height of a profile at offset x (symmetric), m.
@@ -228,5 +264,12 @@ mod tests {
         assert!((height_at(&p, -20.0) - 2.0).abs() < 1e-12);
         // area: 2 × (60 + 32 + 10 + 4) = 212
         assert!((area(&p) - 212.0).abs() < 1e-9);
+        // Below berm height the fill is one platform out to the berm edge.
+        let low = profile(&e, 1.0);
+        assert_eq!(low, vec![(0.0, 1.0), (23.0, 1.0), (25.0, 0.0)]);
+        // Just above it, the berm is there at full height: no jump.
+        let a = area(&profile(&e, 2.0 - 1e-6));
+        let b = area(&profile(&e, 2.0 + 1e-6));
+        assert!((a - b).abs() < 1e-3, "{a} vs {b}");
     }
 }

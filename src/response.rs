@@ -13,9 +13,9 @@ use std::sync::OnceLock;
 
 /// Spacing of the fill-thickness levels at which stress fields are computed
 /// and between which they are interpolated linearly, m.
-const LEVEL_M: f64 = 0.1;
+const LEVEL_M: f64 = 0.25;
 /// Number of cached levels (0 … 60 m).
-const LEVELS: usize = 601;
+const LEVELS: usize = 241;
 
 /// The response engine for one project.
 pub struct Engine<'p> {
@@ -35,8 +35,8 @@ pub struct State {
     /// Fill thickness as placed including settlement make-up, m.
     pub placed_m: f64,
     pub cols: Vec<ColumnState>,
-    /// Settlement per column, m.
-    pub settlement_m: Vec<f64>,
+    /// Settlement under the centreline, m (other columns: `Engine::settlement`).
+    pub settlement_centre_m: f64,
 }
 
 /// Named offsets of the columns, for reports.
@@ -73,7 +73,7 @@ impl<'p> Engine<'p> {
             height_m: 0.0,
             placed_m: 0.0,
             cols: self.columns.iter().map(|c| c.initial_state()).collect(),
-            settlement_m: vec![0.0; self.columns.len()],
+            settlement_centre_m: 0.0,
         }
     }
 
@@ -116,7 +116,7 @@ impl<'p> Engine<'p> {
     /// behind), and fill below the water table counts at submerged weight.
     pub fn advance(&self, st: &mut State, dt_days: f64, height_end_m: f64) {
         let e = &self.project.embankment;
-        let s_c = st.settlement_m[0];
+        let s_c = st.settlement_centre_m;
         let placed = if height_end_m > 0.0 { height_end_m + s_c } else { 0.0 };
         let gamma = effective_fill_weight(
             e.fill_unit_weight_kn_m3,
@@ -129,8 +129,8 @@ impl<'p> Engine<'p> {
         for (c, col) in self.columns.iter().enumerate() {
             self.loads(c, placed, gamma, &mut buf);
             col.step(&mut st.cols[c], &buf, rule, dt_days);
-            st.settlement_m[c] = col.settlement(&st.cols[c]);
         }
+        st.settlement_centre_m = self.columns[0].settlement(&st.cols[0]);
         st.day += dt_days;
         st.height_m = height_end_m;
         st.placed_m = placed;
@@ -177,7 +177,12 @@ impl<'p> Engine<'p> {
         GroundField {
             xs: self.columns.iter().map(|c| c.x_m).collect(),
             zs: self.columns[0].nodes.iter().map(|n| n.z_m).collect(),
-            settlement_m: st.settlement_m.clone(),
+            settlement_m: self
+                .columns
+                .iter()
+                .zip(&st.cols)
+                .map(|(c, s)| c.settlement(s))
+                .collect(),
             su: self
                 .columns
                 .iter()

@@ -145,7 +145,7 @@ fn stability_rejects_bad_heights_and_circles() {
 #[test]
 fn stability_of_one_user_circle() {
     let out = fillpace()
-        .args(["stability", DEMO, "--height", "3", "--json", "--circle", "14,8,11"])
+        .args(["stability", DEMO, "--height", "3", "--json", "--circle", "29.5,4.2,8.7"])
         .output()
         .unwrap();
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
@@ -166,7 +166,7 @@ fn assess_writes_series_and_flags_the_unsafe_lift() {
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     let r = json_result(&out.stdout);
     let lifts = r["lifts"].as_array().unwrap();
-    assert_eq!(lifts.len(), 4);
+    assert_eq!(lifts.len(), 5);
     // The demo's proposed fourth lift is too early: flagged with a date.
     let last = &lifts[3];
     assert_eq!(last["safe"], false);

@@ -151,7 +151,7 @@ fn demo_sequence(p: &Project) -> (f64, f64) {
     }
     let end = st.day as i64 + 120;
     r.rest_until(&mut st, end, &mut |_| {});
-    (e.degree_centre(&st), st.settlement_m[0])
+    (e.degree_centre(&st), st.settlement_centre_m)
 }
 
 #[test]

@@ -210,7 +210,11 @@ pub fn assess(p: &Project, a: &Assessment) -> String {
             f(l.height_after_m, 2),
             f(l.fs_end, 2),
             if l.safe { "ok".into() } else { "BELOW TARGET".into() },
-            l.safe_from.map_or("-".into(), |d| d.to_string()),
+            match (l.safe, l.safe_from) {
+                (true, _) => "-".into(),
+                (false, Some(d)) => d.to_string(),
+                (false, None) => "never (20 y)".into(),
+            },
             f(l.peak_excess_kpa, 1),
             format!("{:.0}%", 100.0 * l.degree_centre),
             f(l.settlement_centre_m, 3),
@@ -238,6 +242,9 @@ pub fn assess(p: &Project, a: &Assessment) -> String {
         t.row(row);
     }
     out.push_str(&t.render());
+    for w in &a.warnings {
+        out.push_str(&format!("warning: {w}\n"));
+    }
     out.push_str(&cautions_block());
     out
 }
@@ -270,12 +277,14 @@ pub fn stability_search(p: &Project, height: f64, when: &str, placed: f64, s: &S
         s.critical.fs, p.criteria.fs_construction
     ));
     out.push_str(&circle_lines(&s.critical));
-    out.push_str("\nBest circle by depth band (material at its lowest point)\n");
-    let mut t = Table::new(&["band", "FS", "depth m", "xc m", "yc m", "R m"]);
-    for b in &s.bands {
+    out.push_str("\nBest circle by depth band (circles tangent within the band)\n");
+    let mut t = Table::new(&["band", "FS", "lowest point in", "depth m", "xc m", "yc m", "R m"]);
+    for band in &s.bands {
+        let b = &band.circle;
         t.row(vec![
-            b.band.clone(),
+            band.band.clone(),
             f(b.fs, 3),
+            b.band.clone(),
             f(b.depth_m, 2),
             f(b.circle.xc_m, 2),
             f(b.circle.yc_m, 2),

@@ -28,7 +28,8 @@ pub struct AssessedLift {
     pub fs_end: f64,
     /// FS ≥ construction target.
     pub safe: bool,
-    /// For an unsafe lift: earliest start from which it would be safe.
+    /// For an unsafe lift: earliest start from which it would be safe (None
+    /// when it is not safe within 20 years; see the warnings).
     pub safe_from: Option<NaiveDate>,
     pub peak_excess_kpa: f64,
     pub degree_centre: f64,
@@ -62,6 +63,8 @@ pub struct Assessment {
     pub lifts: Vec<AssessedLift>,
     pub series: Vec<SeriesRow>,
     pub effort: Effort,
+    /// Notes that do not stop the assessment (e.g. a lift never safe).
+    pub warnings: Vec<String>,
 }
 
 /// Report depths: the middle of every clay layer.
@@ -85,6 +88,7 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
     let mut st = r.engine.initial_state();
     let mut series = Vec::new();
     let mut lifts = Vec::new();
+    let mut warnings = Vec::new();
     for (i, lift) in p.sequence.iter().enumerate() {
         let day = r.calendar.day_of(lift.start);
         if (day as f64) < st.day - 1e-9 {
@@ -112,8 +116,14 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
         let safe_from = if safe {
             None
         } else {
-            let d = earliest_safe_day(r, &before, r.next_workable(day)?, lift.thickness_m, &mut effort)?;
-            Some(r.calendar.date(d))
+            match earliest_safe_day(r, &before, r.next_workable(day)?, lift.thickness_m, &mut effort) {
+                Ok(d) => Some(r.calendar.date(d)),
+                Err(Error::Computation(why)) => {
+                    warnings.push(format!("lift {}: {why}", i + 1));
+                    None
+                }
+                Err(e) => return Err(e),
+            }
         };
         lifts.push(AssessedLift {
             number: i + 1,
@@ -127,7 +137,7 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
             safe_from,
             peak_excess_kpa: r.engine.peak_excess(&st),
             degree_centre: r.engine.degree_centre(&st),
-            settlement_centre_m: st.settlement_m[0],
+            settlement_centre_m: st.settlement_centre_m,
         });
     }
     let end = st.day.ceil() as i64 + tail_days;
@@ -143,6 +153,7 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
         lifts,
         series,
         effort,
+        warnings,
     })
 }
 
@@ -171,7 +182,7 @@ fn recorder<'a>(
             date: r.calendar.date(day as i64),
             height_m: st.height_m,
             placed_m: st.placed_m,
-            settlement_centre_m: st.settlement_m[0],
+            settlement_centre_m: st.settlement_centre_m,
             degree_centre: e.degree_centre(st),
             excess_kpa: (0..e.columns.len())
                 .map(|c| depths.iter().map(|z| e.excess_at(st, c, *z)).collect())

@@ -292,7 +292,7 @@ fn close_rest(r: &Runner, prev: &mut Stage, st: &State, start: i64, effort: &mut
     prev.release = Some(r.calendar.date(start));
     prev.fs_release = Some(r.stability(&s, effort)?.critical.fs);
     prev.degree_centre = r.engine.degree_centre(&s);
-    prev.settlement_centre_m = s.settlement_m[0];
+    prev.settlement_centre_m = s.settlement_centre_m;
     Ok(())
 }
 
@@ -338,7 +338,7 @@ fn residual_after_removal(r: &Runner, st: &State) -> f64 {
 /// Primary settlement still to come under the current load plus secondary
 /// compression over the design life, m.
 fn residual(r: &Runner, st: &State) -> f64 {
-    let primary = (r.engine.final_settlement_centre(st) - st.settlement_m[0]).max(0.0);
+    let primary = (r.engine.final_settlement_centre(st) - st.settlement_centre_m).max(0.0);
     primary + secondary(r, st)
 }
 
@@ -391,7 +391,7 @@ fn stage(
         fs_release: None,
         peak_excess_kpa: r.engine.peak_excess(st),
         degree_centre: r.engine.degree_centre(st),
-        settlement_centre_m: st.settlement_m[0],
+        settlement_centre_m: st.settlement_centre_m,
         critical: Some(crit),
     }
 }
@@ -409,11 +409,11 @@ fn totals(r: &Runner, stages: Vec<Stage>, st: &State, mut effort: Effort, mut wa
     let fs_finish = r.stability(st, &mut effort)?.critical.fs;
     if fs_finish < p.criteria.fs_service {
         warnings.push(format!(
-            "FS at the finish {fs_finish:.2} is below the service target {:.2}",
+            "FS at the finish {fs_finish:.3} is below the service target {:.2}",
             p.criteria.fs_service
         ));
     }
-    let s_fin = st.settlement_m[0];
+    let s_fin = st.settlement_centre_m;
     let area = |t: f64| crate::load::area(&crate::load::profile(e, t));
     let final_settlement_m = r.engine.final_settlement_centre(st);
     Ok(Plan {

@@ -54,22 +54,29 @@ pub struct CircleResult {
 }
 
 /// Why a circle cannot be analysed.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum Reject {
     /// The circle does not cut the ground surface twice on its lower half.
+    #[error("it does not cut the ground surface twice below its centre")]
     NoIntersection,
     /// The circle dips into the stiff base.
+    #[error("it dips into the stiff base")]
     IntoBase,
     /// The sliding mass is thinner than `MIN_SLIP_DEPTH_M`.
+    #[error("its sliding mass is thinner than 0.5 m")]
     TooShallow,
     /// The fill has no strength at all (it is a surcharge, not a slope) and
     /// the circle leaves the ground through the fill's side slope.
+    #[error("it leaves through the side slope of a fill that has no strength")]
     ExitInStrengthlessFill,
     /// The sliding mass would move the other way (no driving moment).
+    #[error("its sliding mass has no driving moment towards the toe")]
     NoDrivingMoment,
     /// Bishop's m_α fell below the limit on a frictional slice.
+    #[error("Bishop's m_α falls below 0.2 on a frictional slice near its exit")]
     SmallMAlpha,
     /// The Bishop iteration did not converge.
+    #[error("the Bishop iteration did not converge in 200 steps")]
     NoConvergence,
 }
 
@@ -129,9 +136,15 @@ impl Section<'_> {
         for &(x, _) in &self.profile {
             breaks.extend([x, -x]);
         }
-        let mut ys = self.horizontal_breaks(c.xc_m);
-        ys.push(self.ground_y(c.xc_m));
-        for y in ys {
+        let crossings = self.ground_crossings(c, x0, x1);
+        // With the crack on, the sliding mass starts at the active-side
+        // crossing: slice that part finely enough on its own.
+        let mass_start = match crossings.first() {
+            Some(&x) if self.crack && x < c.xc_m => x,
+            _ => x0,
+        };
+        breaks.extend(crossings);
+        for y in self.horizontal_breaks(c.xc_m) {
             let d = c.r_m * c.r_m - (c.yc_m - y).powi(2);
             if d > 0.0 && y < c.yc_m {
                 breaks.extend([c.xc_m - d.sqrt(), c.xc_m + d.sqrt()]);
@@ -140,7 +153,7 @@ impl Section<'_> {
         breaks.retain(|x| *x >= x0 && *x <= x1);
         breaks.sort_by(f64::total_cmp);
         breaks.dedup_by(|a, b| (*a - *b).abs() < 1e-6);
-        let target = (x1 - x0) / self.slices as f64;
+        let target = (x1 - mass_start) / self.slices as f64;
         let mut out = Vec::new();
         for w in breaks.windows(2) {
             let n = ((w[1] - w[0]) / target).ceil().max(1.0) as usize;
@@ -148,6 +161,36 @@ impl Section<'_> {
             for k in 0..n {
                 out.push((w[0] + k as f64 * dx, w[0] + (k + 1) as f64 * dx));
             }
+        }
+        out
+    }
+
+    /// Where the arc crosses the settled original ground on each side of its
+    /// lowest point (bisection on arc − ground, which changes sign there),
+    /// so the crack and the fill/ground boundary fall on slice boundaries.
+    fn ground_crossings(&self, c: Circle, x0: f64, x1: f64) -> Vec<f64> {
+        let g = |x: f64| {
+            let dx = x - c.xc_m;
+            c.yc_m - (c.r_m * c.r_m - dx * dx).max(0.0).sqrt() - self.ground_y(x)
+        };
+        let mid = c.xc_m.clamp(x0, x1);
+        if g(mid) >= 0.0 {
+            return Vec::new();
+        }
+        let mut out = Vec::new();
+        for (mut above, mut below) in [(x0, mid), (x1, mid)] {
+            if g(above) <= 0.0 {
+                continue;
+            }
+            for _ in 0..50 {
+                let m = 0.5 * (above + below);
+                if g(m) > 0.0 {
+                    above = m;
+                } else {
+                    below = m;
+                }
+            }
+            out.push(0.5 * (above + below));
         }
         out
     }

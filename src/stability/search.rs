@@ -21,17 +21,26 @@ const STARTS: usize = 3;
 pub struct SearchResult {
     /// The circle with the lowest Bishop FS.
     pub critical: CircleResult,
-    /// The lowest-FS circle whose lowest point lies in each band, top down.
-    pub bands: Vec<CircleResult>,
+    /// The lowest-FS circle of each depth band, top down.
+    pub bands: Vec<BandResult>,
     /// Circles analysed (grid and refinement).
     pub circles_tried: usize,
     /// Circles set aside (m_α too small, no convergence, no driving moment).
     pub circles_rejected: usize,
 }
 
+/// The best circle of one depth band.
+#[derive(Debug, Clone, Serialize)]
+pub struct BandResult {
+    /// "fill" or the name of the ground layer the circles were tangent in.
+    pub band: String,
+    pub circle: CircleResult,
+}
+
 /// A depth band: tangent elevations from `lo` to `hi` (m, y up).
 #[derive(Debug, Clone)]
 struct Band {
+    name: String,
     lo: f64,
     hi: f64,
 }
@@ -100,14 +109,18 @@ pub fn search(s: &Section) -> Result<SearchResult> {
     }
     let step0 = ((grid.x1 - grid.x0) / (NX - 1) as f64).max((grid.y1 - grid.y0) / (NY - 1) as f64);
     // Bands are refined independently, in parallel.
-    let refined_counted: Vec<(Option<CircleResult>, Counter)> = std::thread::scope(|scope| {
+    let refined_counted: Vec<(Option<BandResult>, Counter)> = std::thread::scope(|scope| {
         let handles: Vec<_> = best
             .into_iter()
             .zip(&bands)
             .map(|(b, band)| {
                 scope.spawn(move || {
                     let mut c = Counter { tried: 0, rejected: 0 };
-                    (refine(s, &mut c, b, band, step0), c)
+                    let r = refine(s, &mut c, b, band, step0).map(|circle| BandResult {
+                        band: band.name.clone(),
+                        circle,
+                    });
+                    (r, c)
                 })
             })
             .collect();
@@ -124,6 +137,7 @@ pub fn search(s: &Section) -> Result<SearchResult> {
     }
     let critical = refined
         .iter()
+        .map(|b| &b.circle)
         .min_by(|a, b| a.fs.total_cmp(&b.fs))
         .cloned()
         .ok_or_else(|| Error::Computation("no trial slip circle could be analysed on this section".into()))?;
@@ -203,6 +217,7 @@ fn bands(s: &Section) -> Vec<Band> {
     let mut out = Vec::new();
     if s.crest_m() > 0.2 && (s.fill_c > 0.0 || s.fill_tan_phi > 0.0) {
         out.push(Band {
+            name: "fill".into(),
             lo: 0.0,
             hi: s.crest_m(),
         });
@@ -210,6 +225,7 @@ fn bands(s: &Section) -> Vec<Band> {
     let x = s.toe_m();
     for l in &s.layers {
         out.push(Band {
+            name: l.name.clone(),
             lo: s.elevation_of_depth(x, l.bottom_z),
             hi: s.elevation_of_depth(x, l.top_z),
         });

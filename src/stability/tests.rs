@@ -188,3 +188,33 @@ fn circle_missing_the_ground_is_rejected() {
     });
     assert_eq!(deep.unwrap_err(), Reject::IntoBase);
 }
+
+#[test]
+fn crack_position_moves_smoothly_with_settlement() {
+    // Regression: the crack used to sit on the nearest slice boundary, so a
+    // millimetre of settlement could move it by a whole slice and change FS
+    // by several per cent. Now it sits on the arc's crossing of the ground.
+    let p = taylor_project(20.0, 18.0, 5.0, 2.0);
+    let mut field = uniform_su(20.0);
+    field.xs = vec![0.0, 100.0, 110.0, 1.0e4];
+    field.zs = vec![0.0, 100.0];
+    field.su = vec![vec![20.0, 20.0]; 4];
+    let c = Circle {
+        xc_m: 108.0,
+        yc_m: 12.0,
+        r_m: 20.0,
+    };
+    let mut last = None;
+    for k in 0..20 {
+        let s = 0.5 + 0.001 * k as f64;
+        field.settlement_m = vec![s, s, 0.1, 0.0];
+        let mut q = p.clone();
+        q.stability.fill_tension_crack = true;
+        let fs = Section::new(&q, 5.0, &field).analyse(c).unwrap().fs;
+        if let Some(prev) = last {
+            let change: f64 = fs - prev;
+            assert!(change.abs() < 0.002 * fs, "FS jumped {prev} → {fs} at s = {s}");
+        }
+        last = Some(fs);
+    }
+}

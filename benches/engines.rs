@@ -1,0 +1,78 @@
+//! Benchmarks of the three engines on the demo site (run with
+//! `cargo bench --bench engines`). Each case is repeated and the median
+//! wall time reported with its throughput. Not a test: nothing here asserts
+//! a time.
+
+use fillpace::response::Engine;
+use fillpace::schedule::{Effort, Runner, planner};
+use fillpace::stability::{Section, search::search};
+use std::time::{Duration, Instant};
+
+fn median(mut v: Vec<Duration>) -> Duration {
+    v.sort();
+    v[v.len() / 2]
+}
+
+fn time<T>(runs: usize, mut f: impl FnMut() -> T) -> (Duration, T) {
+    let mut times = Vec::new();
+    let mut last = None;
+    for _ in 0..runs {
+        let t = Instant::now();
+        last = Some(f());
+        times.push(t.elapsed());
+    }
+    (median(times), last.expect("at least one run"))
+}
+
+fn main() {
+    let text = include_str!("../examples/kestrel-fen.toml");
+    let p = fillpace::input::parse(text, "kestrel-fen.toml").expect("demo validates");
+
+    // 1. Full ground response: all columns, the proposed sequence, then rest
+    //    to three years, daily steps during placement and 2-day steps in rests.
+    let (t, steps) = time(10, || {
+        let e = Engine::new(&p);
+        let r = Runner::new(&e);
+        let mut st = e.initial_state();
+        let mut steps = 0usize;
+        for l in &p.sequence {
+            r.rest_until(&mut st, r.calendar.day_of(l.start), &mut |_| steps += 1);
+            r.place(&mut st, l.thickness_m, &mut |_| steps += 1).unwrap();
+        }
+        r.rest_until(&mut st, 3 * 365, &mut |_| steps += 1);
+        steps
+    });
+    let e = Engine::new(&p);
+    let nodes: usize = e.columns.iter().map(|c| c.nodes.len()).sum();
+    let node_steps = (steps * nodes) as f64;
+    println!(
+        "response  3 years, {} columns, {nodes} nodes, {steps} steps: {:.1} ms median, {:.1} M node-steps/s",
+        e.columns.len(),
+        t.as_secs_f64() * 1e3,
+        node_steps / t.as_secs_f64() / 1e6
+    );
+
+    // 2. One full slip-circle search on the demo section at 6 m.
+    let st = e.initial_state();
+    let field = e.field(&st);
+    let section = Section::new(&p, 6.0, &field);
+    let (t, r) = time(20, || search(&section).unwrap());
+    println!(
+        "stability one search, {} circles: {:.1} ms median, {:.0} circles/s",
+        r.circles_tried,
+        t.as_secs_f64() * 1e3,
+        r.circles_tried as f64 / t.as_secs_f64()
+    );
+
+    // 3. The whole plan.
+    let (t, plan) = time(3, || {
+        let e = Engine::new(&p);
+        planner::plan(&Runner::new(&e)).unwrap()
+    });
+    let Effort { stability_searches } = plan.effort;
+    println!(
+        "plan      {} stages, {stability_searches} stability searches: {:.0} ms median",
+        plan.stages.len(),
+        t.as_secs_f64() * 1e3
+    );
+}
