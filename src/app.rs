@@ -40,8 +40,18 @@ pub fn run(cmd: &Command) -> Result<String> {
             project,
             csv,
             ics,
+            pdf,
+            out,
             json,
-        } => plan(project.as_deref(), csv.as_deref(), ics.as_deref(), *json),
+        } => {
+            let outs = PlanOutputs {
+                csv: csv.as_deref(),
+                ics: ics.as_deref(),
+                pdf: pdf.as_deref(),
+                dir: out.as_deref(),
+            };
+            plan(project.as_deref(), &outs, *json)
+        }
     }
 }
 
@@ -202,18 +212,62 @@ fn parse_circle(text: &str) -> Result<Circle> {
     }
 }
 
-fn plan(path: Option<&Path>, csv: Option<&Path>, ics: Option<&Path>, json: bool) -> Result<String> {
-    let (p, source, inputs): (Project, String, Vec<PathBuf>) = match path {
-        Some(f) => (input::load(f)?, f.display().to_string(), vec![f.to_path_buf()]),
+/// Where `plan` writes its files.
+pub struct PlanOutputs<'a> {
+    pub csv: Option<&'a Path>,
+    pub ics: Option<&'a Path>,
+    pub pdf: Option<&'a Path>,
+    /// Folder receiving plan.csv, plan.ics, plan.pdf and plan.json.
+    pub dir: Option<&'a Path>,
+}
+
+impl PlanOutputs<'_> {
+    /// (format, path) pairs to write.
+    fn files(&self) -> Vec<(&'static str, PathBuf)> {
+        let mut v: Vec<(&'static str, PathBuf)> = Vec::new();
+        for (kind, p) in [("csv", self.csv), ("ics", self.ics), ("pdf", self.pdf)] {
+            if let Some(p) = p {
+                v.push((kind, p.to_path_buf()));
+            }
+        }
+        if let Some(d) = self.dir {
+            for kind in ["csv", "ics", "pdf", "json"] {
+                v.push((kind, d.join(format!("plan.{kind}"))));
+            }
+        }
+        v
+    }
+}
+
+fn plan(path: Option<&Path>, outs: &PlanOutputs, json: bool) -> Result<String> {
+    let (text, source, inputs): (String, String, Vec<PathBuf>) = match path {
+        Some(f) => {
+            let t = std::fs::read_to_string(f).map_err(|source| Error::Read {
+                path: f.to_path_buf(),
+                source,
+            })?;
+            (t, f.display().to_string(), vec![f.to_path_buf()])
+        }
         None => (
-            input::parse(DEMO, "bundled demo (examples/kestrel-fen.toml)")?,
+            DEMO.to_string(),
             "the bundled demo site (examples/kestrel-fen.toml)".into(),
             vec![],
         ),
     };
+    let name = path.map_or("bundled demo (examples/kestrel-fen.toml)".to_string(), |f| {
+        f.display().to_string()
+    });
+    let p = input::parse(&text, &name)?;
     let input_refs: Vec<&Path> = inputs.iter().map(PathBuf::as_path).collect();
-    for out in [csv, ics].into_iter().flatten() {
+    let files = outs.files();
+    for (_, out) in &files {
         output::refuse_overwrite_of_inputs(out, &input_refs)?;
+    }
+    if let Some(d) = outs.dir {
+        std::fs::create_dir_all(d).map_err(|source| Error::Write {
+            path: d.to_path_buf(),
+            source,
+        })?;
     }
     let engine = Engine::new(&p);
     let runner = Runner::new(&engine);
@@ -222,12 +276,19 @@ fn plan(path: Option<&Path>, csv: Option<&Path>, ics: Option<&Path>, json: bool)
         project: &p,
         plan: &plan,
         source,
+        source_sha256: report::sha256_hex(text.as_bytes()),
     };
-    if let Some(out) = csv {
-        output::write_atomic(out, &report::csv::Csv.serialize(&rep)?)?;
-    }
-    if let Some(out) = ics {
-        output::write_atomic(out, &report::ics::Ics.serialize(&rep)?)?;
+    for (kind, out) in &files {
+        let bytes = match *kind {
+            "csv" => report::csv::Csv.serialize(&rep)?,
+            "ics" => report::ics::Ics.serialize(&rep)?,
+            "pdf" => report::pdf::Pdf {
+                report_date: report::today(),
+            }
+            .serialize(&rep)?,
+            _ => report::json::Json.serialize(&rep)?,
+        };
+        output::write_atomic(out, &bytes)?;
     }
     if json {
         String::from_utf8(report::json::Json.serialize(&rep)?).map_err(|e| Error::Computation(e.to_string()))

@@ -86,6 +86,12 @@ pub enum Command {
         /// Write placements and hold points as an iCalendar file.
         #[arg(long)]
         ics: Option<PathBuf>,
+        /// Write the PDF schedule report.
+        #[arg(long)]
+        pdf: Option<PathBuf>,
+        /// Write plan.csv, plan.ics, plan.pdf and plan.json into this folder.
+        #[arg(long, value_name = "DIR")]
+        out: Option<PathBuf>,
         /// Print JSON instead of tables.
         #[arg(long)]
         json: bool,

@@ -256,3 +256,58 @@ fn help_and_version() {
             .stdout(predicate::str::contains("Example"));
     }
 }
+
+#[test]
+fn plan_pdf_has_every_section_stage_hash_and_caution() {
+    // Read back with a general-purpose PDF library (lopdf).
+    let dir = tempfile::tempdir().unwrap();
+    let pdf = dir.path().join("schedule.pdf");
+    let out = fillpace()
+        .args(["plan", DEMO, "--json", "--pdf"])
+        .arg(&pdf)
+        .output()
+        .unwrap();
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let plan = json_result(&out.stdout);
+    let doc = lopdf::Document::load(&pdf).expect("valid PDF");
+    let pages: Vec<u32> = doc.get_pages().keys().copied().collect();
+    assert!(pages.len() >= 8, "{} pages", pages.len());
+    let text = doc.extract_text(&pages).expect("text extracts");
+    let flat: String = text.split_whitespace().collect::<Vec<_>>().join(" ");
+    for title in [
+        "Summary",
+        "Lift timetable",
+        "Staging diagram",
+        "Cross-section",
+        "Inputs",
+        "Method statement",
+        "CAUTION NOTES",
+        "MONITORING PLAN",
+        "Prepared",
+        "Checked",
+        "Approved",
+    ] {
+        assert!(flat.contains(title), "missing {title}");
+    }
+    for s in plan["stages"].as_array().unwrap() {
+        assert!(
+            flat.contains(s["start"].as_str().unwrap()),
+            "stage date {} missing",
+            s["start"]
+        );
+    }
+    let sha = fillpace::report::sha256_hex(&std::fs::read(root(DEMO)).unwrap());
+    assert!(flat.contains(&sha), "SHA-256 missing");
+    assert!(flat.contains("licensed geotechnical engineer"));
+    assert!(flat.contains(&format!("Page 1 of {}", pages.len())));
+}
+
+#[test]
+fn out_folder_receives_all_formats() {
+    let dir = tempfile::tempdir().unwrap();
+    let folder = dir.path().join("issue-A");
+    fillpace().args(["plan", DEMO, "--out"]).arg(&folder).assert().success();
+    for f in ["plan.csv", "plan.ics", "plan.pdf", "plan.json"] {
+        assert!(folder.join(f).metadata().unwrap().len() > 100, "{f}");
+    }
+}

@@ -386,13 +386,13 @@ fn su0_points(c: &mut Check, key: &str, points: &[Vec<f64>], top_m: f64, thickne
         }
         let z = c.num(&pk, p[0], Low::Incl(top_m), top_m + thickness_m);
         let su = c.num(&pk, p[1], Low::Excl(0.0), 500.0);
-        if let Some(last) = out.last() {
-            if z <= last.0 {
-                c.bad(
-                    &pk,
-                    format!("depth {z} m must be deeper than the previous point ({} m)", last.0),
-                );
-            }
+        if let Some(last) = out.last()
+            && z <= last.0
+        {
+            c.bad(
+                &pk,
+                format!("depth {z} m must be deeper than the previous point ({} m)", last.0),
+            );
         }
         out.push((z, su));
     }
@@ -407,13 +407,13 @@ fn embankment(c: &mut Check, r: &RawEmbankment) -> Embankment {
         let bk = format!("embankment.berms[{i}]");
         let width_m = c.num(&format!("{bk}.width_m"), b.width_m, Low::Excl(0.0), 100.0);
         let height_m = c.num(&format!("{bk}.height_m"), b.height_m, Low::Excl(0.0), h);
-        if let Some(prev) = berms.last().map(|b: &Berm| b.height_m) {
-            if height_m >= prev {
-                c.bad(
-                    &format!("{bk}.height_m"),
-                    format!("= {height_m} must be lower than the berm inside it ({prev} m)"),
-                );
-            }
+        if let Some(prev) = berms.last().map(|b: &Berm| b.height_m)
+            && height_m >= prev
+        {
+            c.bad(
+                &format!("{bk}.height_m"),
+                format!("= {height_m} must be lower than the berm inside it ({prev} m)"),
+            );
         }
         berms.push(Berm { width_m, height_m });
     }

@@ -1,11 +1,13 @@
 //! Output formats. Each command's result is one plain serialisable struct;
-//! each format is one module: `text` (terminal tables), `json`, `csv`, `ics`.
+//! each format is one module: `text` (terminal tables), `json`, `csv`, `ics`,
+//! `pdf`.
 //! The plan formats share the `Exporter` interface so that a new format is
 //! one new file. Caution notes come from templates/cautions.txt.
 
 pub mod csv;
 pub mod ics;
 pub mod json;
+pub mod pdf;
 pub mod text;
 
 use crate::error::Result;
@@ -36,6 +38,22 @@ pub struct PlanReport<'a> {
     pub plan: &'a Plan,
     /// Where the project came from (file name, or the bundled demo).
     pub source: String,
+    /// SHA-256 of the project file's bytes, hex.
+    pub source_sha256: String,
+}
+
+/// SHA-256 of bytes as lowercase hex.
+pub fn sha256_hex(bytes: &[u8]) -> String {
+    use sha2::Digest;
+    sha2::Sha256::digest(bytes).iter().map(|b| format!("{b:02x}")).collect()
+}
+
+/// Today's date (UTC) from the system clock, for title blocks.
+pub fn today() -> chrono::NaiveDate {
+    let secs = std::time::SystemTime::now()
+        .duration_since(std::time::UNIX_EPOCH)
+        .map_or(0, |d| d.as_secs());
+    chrono::DateTime::from_timestamp(secs as i64, 0).map_or(chrono::NaiveDate::MIN, |t| t.date_naive())
 }
 
 /// One output format of a plan.
@@ -46,6 +64,15 @@ pub trait Exporter {
 
 #[cfg(test)]
 mod tests {
+    #[test]
+    fn sha256_of_abc() {
+        // FIPS 180-2 test vector: SHA-256("abc").
+        assert_eq!(
+            super::sha256_hex(b"abc"),
+            "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad"
+        );
+    }
+
     #[test]
     fn cautions_cover_the_required_points() {
         let c = super::cautions().join(" ");

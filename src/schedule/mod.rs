@@ -7,6 +7,7 @@
 pub mod assess;
 pub mod calendar;
 pub mod planner;
+pub mod record;
 
 use crate::error::{Error, Result};
 use crate::response::{Engine, State};

@@ -8,6 +8,7 @@
 //! value. After design height plus surcharge it holds until the removal
 //! criterion is met and then removes the surcharge.
 
+use super::record::{self, Figures, Governing};
 use super::{Effort, Runner};
 use crate::error::{Error, Result};
 use crate::response::State;
@@ -95,6 +96,9 @@ pub struct Plan {
     pub effort: Effort,
     /// Warnings that do not stop the plan.
     pub warnings: Vec<String>,
+    /// Data for the report's figures (not part of the JSON output).
+    #[serde(skip)]
+    pub figures: Figures,
 }
 
 /// Plan the project from its initial state.
@@ -103,15 +107,17 @@ pub fn plan(r: &Runner) -> Result<Plan> {
     let mut st = r.engine.initial_state();
     let mut effort = Effort::default();
     let mut stages: Vec<Stage> = Vec::new();
+    let mut fig = Figures {
+        probes: record::probes(r.engine),
+        ..Figures::default()
+    };
+    fig.profile(r.engine, &st, "start".into());
     let top = p.max_height_m();
     let mut earliest = 0;
     while st.height_m < top - 1e-6 {
         let (start, lift) = next_lift(r, &st, earliest, &mut effort)?;
-        if let Some(prev) = stages.last_mut() {
-            close_rest(r, prev, &st, start, &mut effort)?;
-        }
-        r.rest_until(&mut st, start, &mut |_| {});
-        let (a, b) = r.place(&mut st, lift, &mut |_| {})?;
+        advance_to(r, &mut stages, &mut st, start, &mut fig, &mut effort)?;
+        let (a, b) = r.place(&mut st, lift, &mut |s| fig.record(r.engine, &r.calendar, s))?;
         let crit = r.stability(&st, &mut effort)?;
         stages.push(stage(r, stages.len() + 1, StageKind::Lift, a, b, lift, &st, crit));
         earliest = b + 1 + p.construction.min_rest_days as i64;
@@ -119,11 +125,9 @@ pub fn plan(r: &Runner) -> Result<Plan> {
     let mut warnings = Vec::new();
     if p.embankment.surcharge_height_m > 0.0 {
         let start = removal_day(r, &st, earliest, &mut warnings)?;
-        if let Some(prev) = stages.last_mut() {
-            close_rest(r, prev, &st, start, &mut effort)?;
-        }
-        r.rest_until(&mut st, start, &mut |_| {});
-        let (a, b) = r.place(&mut st, -p.embankment.surcharge_height_m, &mut |_| {})?;
+        advance_to(r, &mut stages, &mut st, start, &mut fig, &mut effort)?;
+        let change = -p.embankment.surcharge_height_m;
+        let (a, b) = r.place(&mut st, change, &mut |s| fig.record(r.engine, &r.calendar, s))?;
         let crit = r.stability(&st, &mut effort)?;
         stages.push(stage(
             r,
@@ -131,12 +135,66 @@ pub fn plan(r: &Runner) -> Result<Plan> {
             StageKind::SurchargeRemoval,
             a,
             b,
-            -p.embankment.surcharge_height_m,
+            change,
             &st,
             crit,
         ));
     }
-    totals(r, stages, &st, effort, warnings)
+    fig.profile(
+        r.engine,
+        &st,
+        format!("end {}", stages.last().map_or(p.info.start_date, |s| s.end)),
+    );
+    fig.governing = governing(r, &stages, &mut effort)?;
+    totals(r, stages, &st, effort, warnings, fig)
+}
+
+/// Rest until `start`, recording the days, and close the previous stage's
+/// rest (release date, FS and strength profile at release).
+fn advance_to(
+    r: &Runner,
+    stages: &mut [Stage],
+    st: &mut State,
+    start: i64,
+    fig: &mut Figures,
+    effort: &mut Effort,
+) -> Result<()> {
+    if let Some(prev) = stages.last_mut() {
+        close_rest(r, prev, st, start, effort)?;
+    }
+    r.rest_until(st, start, &mut |s| fig.record(r.engine, &r.calendar, s));
+    if let Some(prev) = stages.last() {
+        fig.profile(
+            r.engine,
+            st,
+            format!("release after stage {} ({})", prev.number, r.calendar.date(start)),
+        );
+    }
+    Ok(())
+}
+
+/// The section at the lift with the lowest FS, rebuilt by replaying the
+/// timetable up to the end of that lift.
+fn governing(r: &Runner, stages: &[Stage], effort: &mut Effort) -> Result<Option<Governing>> {
+    let Some(g) = stages
+        .iter()
+        .filter(|s| s.kind == StageKind::Lift)
+        .min_by(|a, b| a.fs_end.total_cmp(&b.fs_end))
+    else {
+        return Ok(None);
+    };
+    let mut st = r.engine.initial_state();
+    for s in stages.iter().take(g.number) {
+        r.rest_until(&mut st, r.calendar.day_of(s.start), &mut |_| {});
+        r.place(&mut st, s.thickness_m, &mut |_| {})?;
+    }
+    let critical = r.stability(&st, effort)?.critical;
+    Ok(Some(Governing {
+        stage: g.number,
+        height_m: st.height_m,
+        field: r.engine.field(&st),
+        critical,
+    }))
 }
 
 /// The next lift from state `st`: its start day (on or after `earliest`)
@@ -396,7 +454,14 @@ fn stage(
     }
 }
 
-fn totals(r: &Runner, stages: Vec<Stage>, st: &State, mut effort: Effort, mut warnings: Vec<String>) -> Result<Plan> {
+fn totals(
+    r: &Runner,
+    stages: Vec<Stage>,
+    st: &State,
+    mut effort: Effort,
+    mut warnings: Vec<String>,
+    figures: Figures,
+) -> Result<Plan> {
     let p = r.engine.project;
     let e = &p.embankment;
     let finish = stages.last().map_or(p.info.start_date, |s| s.end);
@@ -431,5 +496,6 @@ fn totals(r: &Runner, stages: Vec<Stage>, st: &State, mut effort: Effort, mut wa
         effort,
         warnings,
         stages,
+        figures,
     })
 }

@@ -1,0 +1,1026 @@
+//! The pages of the PDF schedule: title block, summary, lift timetable,
+//! figures, inputs, method statement, cautions and monitoring plan. Each
+//! function draws one kind of page on a canvas; `super::Pdf` assembles them.
+
+use super::canvas::{Canvas, Dash, Marker, PAGE_H, PAGE_W};
+use super::chart::{Axis, Chart, Series, XAxis};
+use crate::model::{DAYS_PER_YEAR, LayerKind, Preconsolidation, StrengthModel};
+use crate::report::PlanReport;
+use crate::schedule::planner::StageKind;
+
+pub const MARGIN: f32 = 12.0;
+/// Top of the title block, mm from the top.
+pub const BLOCK_TOP: f32 = PAGE_H - MARGIN - 20.0;
+/// First line of content.
+pub const CONTENT_TOP: f32 = MARGIN + 12.0;
+
+/// Everything a page needs besides the canvas.
+pub struct Ctx<'a> {
+    pub r: &'a PlanReport<'a>,
+    pub report_date: chrono::NaiveDate,
+}
+
+/// Heading line and the title block with page x of y and signature boxes.
+pub fn frame(c: &mut Canvas, ctx: &Ctx, heading: &str, page: usize, pages: usize) {
+    let info = &ctx.r.project.info;
+    c.text(MARGIN, MARGIN + 4.0, 13.0, true, heading);
+    c.text_right(
+        PAGE_W - MARGIN,
+        MARGIN + 4.0,
+        7.5,
+        false,
+        "fillpace staged construction schedule",
+    );
+    c.line(
+        (MARGIN, MARGIN + 6.5),
+        (PAGE_W - MARGIN, MARGIN + 6.5),
+        0.3,
+        Dash::Solid,
+        0.0,
+    );
+    let (x, y, w, h) = (MARGIN, BLOCK_TOP, PAGE_W - 2.0 * MARGIN, 20.0);
+    c.rect(x, y, w, h, 0.4);
+    let cols = [x + 105.0, x + 150.0];
+    for cx in cols {
+        c.line((cx, y), (cx, y + h), 0.3, Dash::Solid, 0.0);
+    }
+    c.text(x + 2.0, y + 5.0, 8.5, true, &info.title);
+    c.text(x + 2.0, y + 10.0, 7.0, false, &format!("Reference {}", info.reference));
+    c.text(x + 2.0, y + 14.5, 7.0, false, &info.location);
+    c.text(x + 2.0, y + 18.5, 6.0, false, &format!("Source: {}", ctx.r.source));
+    c.text(
+        cols[0] + 2.0,
+        y + 5.0,
+        7.0,
+        false,
+        &format!("Revision {}", info.revision),
+    );
+    c.text(
+        cols[0] + 2.0,
+        y + 10.0,
+        7.0,
+        false,
+        &format!("Date {}", ctx.report_date),
+    );
+    c.text(cols[0] + 2.0, y + 15.0, 8.0, true, &format!("Page {page} of {pages}"));
+    let box_w = (x + w - cols[1]) / 3.0;
+    for (i, role) in ["Prepared", "Checked", "Approved"].iter().enumerate() {
+        let bx = cols[1] + i as f32 * box_w;
+        if i > 0 {
+            c.line((bx, y), (bx, y + h), 0.3, Dash::Solid, 0.0);
+        }
+        c.text(bx + 2.0, y + 4.5, 7.0, true, role);
+        c.text(bx + 2.0, y + 10.5, 6.5, false, "Name");
+        c.line(
+            (bx + 10.0, y + 10.8),
+            (bx + box_w - 2.0, y + 10.8),
+            0.2,
+            Dash::Solid,
+            0.3,
+        );
+        c.text(bx + 2.0, y + 16.5, 6.5, false, "Date");
+        c.line(
+            (bx + 10.0, y + 16.8),
+            (bx + box_w - 2.0, y + 16.8),
+            0.2,
+            Dash::Solid,
+            0.3,
+        );
+    }
+}
+
+/// A table at (x, y); columns (header, width mm, right-aligned); returns
+/// the y below it.
+pub fn table(c: &mut Canvas, x: f32, y: f32, cols: &[(&str, f32, bool)], rows: &[Vec<String>], size: f32) -> f32 {
+    let lead = size * 0.62;
+    let below = 0.3 * lead;
+    let band = |c: &mut Canvas, base: f32, level: f32| {
+        let total: f32 = cols.iter().map(|c| c.1).sum();
+        let (top, bottom) = (base - lead + below, base + below);
+        c.fill(
+            &[(x, top), (x + total, top), (x + total, bottom), (x, bottom)],
+            level,
+            false,
+        );
+    };
+    let total: f32 = cols.iter().map(|c| c.1).sum();
+    band(c, y, 0.85);
+    let cells = |c: &mut Canvas, base: f32, row: &[String], bold: bool| {
+        let mut cx = x;
+        for ((_, w, right), cell) in cols.iter().zip(row) {
+            if *right {
+                c.text_right(cx + w - 1.0, base, size, bold, cell);
+            } else {
+                c.text(cx + 1.0, base, size, bold, cell);
+            }
+            cx += w;
+        }
+    };
+    let head: Vec<String> = cols.iter().map(|c| c.0.to_string()).collect();
+    cells(c, y, &head, true);
+    c.line((x, y + below), (x + total, y + below), 0.3, Dash::Solid, 0.0);
+    let mut base = y;
+    for (k, row) in rows.iter().enumerate() {
+        base += lead;
+        if k % 2 == 1 {
+            band(c, base, 0.94);
+        }
+        cells(c, base, row, false);
+    }
+    c.line((x, base + below), (x + total, base + below), 0.3, Dash::Solid, 0.0);
+    base + lead
+}
+
+fn f(v: f64, d: usize) -> String {
+    format!("{v:.d$}")
+}
+
+/// Page 1: the summary.
+pub fn summary(c: &mut Canvas, ctx: &Ctx) {
+    let (p, pl) = (ctx.r.project, ctx.r.plan);
+    let e = &p.embankment;
+    let drains = p.drains.as_ref().map_or("none".to_string(), |d| {
+        let pattern = match d.pattern {
+            crate::model::DrainPattern::Triangular => "triangular",
+            crate::model::DrainPattern::Square => "square",
+        };
+        format!(
+            "{pattern} pattern at {:.2} m, dw = {:.0} mm, to {:.1} m depth",
+            d.spacing_m,
+            d.diameter_m * 1000.0,
+            d.depth_m
+        )
+    });
+    let min_stage = pl.stages.iter().find(|s| s.number == pl.min_fs_stage);
+    let rows: Vec<Vec<String>> = [
+        (
+            "Design height",
+            format!("{:.2} m above original ground", e.design_height_m),
+        ),
+        ("Surcharge", format!("{:.2} m", e.surcharge_height_m)),
+        ("Vertical drains", drains),
+        (
+            "FS targets",
+            format!(
+                "{:.2} at the end of every lift; {:.2} in service",
+                p.criteria.fs_construction, p.criteria.fs_service
+            ),
+        ),
+        (
+            "Start of earthworks",
+            p.info.start_date.format("%Y-%m-%d (%a)").to_string(),
+        ),
+        (
+            "Finish",
+            format!(
+                "{} — {} days ({:.1} months)",
+                pl.finish.format("%Y-%m-%d (%a)"),
+                pl.duration_days,
+                pl.duration_days as f64 / 30.44
+            ),
+        ),
+        (
+            "Lifts",
+            format!("{}", pl.stages.iter().filter(|s| s.kind == StageKind::Lift).count()),
+        ),
+        (
+            "Lowest FS",
+            format!("{:.2} at the end of stage {}", pl.min_fs, pl.min_fs_stage),
+        ),
+        ("FS at finish", format!("{:.2}", pl.fs_finish)),
+        (
+            "Settlement (centreline)",
+            format!(
+                "{:.3} m at finish; {:.3} m final under the design load",
+                pl.settlement_at_finish_m, pl.final_settlement_m
+            ),
+        ),
+        (
+            "Residual settlement",
+            format!(
+                "{:.3} m over {} years after the finish",
+                pl.residual_settlement_m, p.info.design_life_years
+            ),
+        ),
+        (
+            "Fill per metre run",
+            format!(
+                "{:.1} m³ design profile + {:.1} m³ make-up + {:.1} m³ surcharge (removed)",
+                pl.volume_design_m3_per_m, pl.volume_makeup_m3_per_m, pl.volume_surcharge_m3_per_m
+            ),
+        ),
+    ]
+    .into_iter()
+    .map(|(a, b)| vec![a.to_string(), b])
+    .collect();
+    let mut y = table(
+        c,
+        MARGIN,
+        CONTENT_TOP + 4.0,
+        &[("Item", 55.0, false), ("Value", 150.0, false)],
+        &rows,
+        8.0,
+    );
+    y += 6.0;
+    if let Some(s) = min_stage {
+        let sentence = format!(
+            "Governing mechanism: at the end of stage {} (crest {:.2} m) the critical slip circle passes {:.1} m below original ground with its lowest point in the {}, where su is {:.1} kPa; FS = {:.2} against a target of {:.2}.",
+            s.number,
+            s.height_after_m,
+            s.circle_depth_m,
+            s.mechanism,
+            s.su_governing_kpa,
+            s.fs_end,
+            p.criteria.fs_construction
+        );
+        y = c.paragraph(MARGIN, y, 250.0, 8.5, &sentence) + 3.0;
+    }
+    for w in &pl.warnings {
+        y = c.paragraph(MARGIN, y, 250.0, 8.0, &format!("Warning: {w}"));
+    }
+    y += 3.0;
+    c.text(MARGIN, y, 8.5, true, "Cautions (in full on the last page)");
+    y += 5.0;
+    for note in crate::report::cautions() {
+        y = c.paragraph(MARGIN + 3.0, y, 255.0, 7.5, &format!("• {note}"));
+    }
+}
+
+/// Column layout of the timetable.
+const TIMETABLE: [(&str, f32, bool); 15] = [
+    ("#", 7.0, true),
+    ("stage", 22.0, false),
+    ("start", 23.0, false),
+    ("end", 23.0, false),
+    ("lift m", 12.0, true),
+    ("crest m", 13.0, true),
+    ("placed m", 14.0, true),
+    ("FS end", 12.0, true),
+    ("rest d", 11.0, true),
+    ("release (hold point)", 28.0, false),
+    ("FS rel.", 12.0, true),
+    ("peak Δu kPa", 18.0, true),
+    ("U centre", 14.0, true),
+    ("settl. m", 14.0, true),
+    ("mechanism / su", 50.0, false),
+];
+
+/// Rows of the timetable, all stages.
+pub fn timetable_rows(ctx: &Ctx) -> Vec<Vec<String>> {
+    ctx.r
+        .plan
+        .stages
+        .iter()
+        .map(|s| {
+            vec![
+                s.number.to_string(),
+                match s.kind {
+                    StageKind::Lift => "lift".into(),
+                    StageKind::SurchargeRemoval => "remove surcharge".into(),
+                },
+                s.start.format("%Y-%m-%d %a").to_string(),
+                s.end.format("%Y-%m-%d %a").to_string(),
+                f(s.thickness_m, 2),
+                f(s.height_after_m, 2),
+                f(s.placed_after_m, 2),
+                f(s.fs_end, 2),
+                if s.release.is_some() {
+                    s.rest_days.to_string()
+                } else {
+                    "-".into()
+                },
+                s.release.map_or("-".into(), |d| d.format("%Y-%m-%d %a").to_string()),
+                s.fs_release.map_or("-".into(), |x| f(x, 2)),
+                f(s.peak_excess_kpa, 1),
+                format!("{:.0}%", 100.0 * s.degree_centre),
+                f(s.settlement_centre_m, 3),
+                format!("{} / {:.1} kPa", s.mechanism, s.su_governing_kpa),
+            ]
+        })
+        .collect()
+}
+
+/// Rows of the timetable that fit on one page.
+pub const TIMETABLE_ROWS_PER_PAGE: usize = 30;
+
+/// A page of the timetable (rows already sliced), header repeated.
+pub fn timetable(c: &mut Canvas, rows: &[Vec<String>], first: bool) {
+    let mut y = CONTENT_TOP + 2.0;
+    if first {
+        y = c.paragraph(
+            MARGIN,
+            y,
+            270.0,
+            7.5,
+            "Each lift is placed on working days only at the construction rate; the next lift starts on its release date only after the hold-point check. 'lift m' is the rise of the crest; 'placed m' the fill thickness including make-up for settlement; U is the average degree of consolidation under the centreline at release.",
+        ) + 3.0;
+    }
+    table(c, MARGIN, y, &TIMETABLE, rows, 7.0);
+}
+
+fn days_since(ctx: &Ctx, d: chrono::NaiveDate) -> f64 {
+    (d - ctx.r.project.info.start_date).num_days() as f64
+}
+
+fn date_axis(ctx: &Ctx) -> XAxis {
+    let days = &ctx.r.plan.figures.days;
+    let max = days.last().map_or(30.0, |d| days_since(ctx, d.date)).max(30.0);
+    XAxis::Dates {
+        start: ctx.r.project.info.start_date,
+        label: "date".into(),
+        min: 0.0,
+        max,
+    }
+}
+
+fn hold_lines(ctx: &Ctx) -> Vec<(f64, String)> {
+    ctx.r
+        .plan
+        .stages
+        .iter()
+        .filter_map(|s| s.release.map(|d| (days_since(ctx, d), format!("H{}", s.number))))
+        .collect()
+}
+
+/// Staging diagram (crest and FS) and settlement against date.
+pub fn figures_time(c: &mut Canvas, ctx: &Ctx) {
+    let (p, pl) = (ctx.r.project, ctx.r.plan);
+    let fig = &pl.figures;
+    let crest: Vec<(f64, f64)> = fig.days.iter().map(|d| (days_since(ctx, d.date), d.height_m)).collect();
+    let fs_end: Vec<(f64, f64)> = pl.stages.iter().map(|s| (days_since(ctx, s.end), s.fs_end)).collect();
+    let fs_rel: Vec<(f64, f64)> = pl
+        .stages
+        .iter()
+        .filter_map(|s| Some((days_since(ctx, s.release?), s.fs_release?)))
+        .collect();
+    let x_max = match date_axis(ctx) {
+        XAxis::Dates { max, .. } => max,
+        XAxis::Linear(a) => a.max,
+    };
+    let target = vec![(0.0, p.criteria.fs_construction), (x_max, p.criteria.fs_construction)];
+    let fs_hi = pl
+        .stages
+        .iter()
+        .flat_map(|s| [s.fs_end, s.fs_release.unwrap_or(0.0)])
+        .fold(p.criteria.fs_construction, f64::max);
+    Chart {
+        x: MARGIN + 14.0,
+        y: CONTENT_TOP + 4.0,
+        w: PAGE_W - 2.0 * MARGIN - 30.0,
+        h: 58.0,
+        title: "Staging diagram: crest height and factor of safety (H = hold point before the next stage)".into(),
+        x_axis: date_axis(ctx),
+        left: Axis {
+            label: "crest above original ground (m)".into(),
+            min: 0.0,
+            max: (p.max_height_m() * 1.15).ceil(),
+        },
+        right: Some(Axis {
+            label: "factor of safety".into(),
+            min: 1.0,
+            max: (fs_hi + 0.1).max(1.5),
+        }),
+        left_down: false,
+        series: vec![
+            Series {
+                label: "crest height".into(),
+                points: crest,
+                dash: Dash::Solid,
+                marker: Marker::None,
+                right: false,
+                markers_only: false,
+            },
+            Series {
+                label: "FS at end of stage".into(),
+                points: fs_end,
+                dash: Dash::Solid,
+                marker: Marker::Triangle,
+                right: true,
+                markers_only: true,
+            },
+            Series {
+                label: "FS at release".into(),
+                points: fs_rel,
+                dash: Dash::Solid,
+                marker: Marker::Circle,
+                right: true,
+                markers_only: true,
+            },
+            Series {
+                label: "FS target".into(),
+                points: target,
+                dash: Dash::Dashed,
+                marker: Marker::None,
+                right: true,
+                markers_only: false,
+            },
+        ],
+        vlines: hold_lines(ctx),
+    }
+    .draw(c);
+    let settl: Vec<(f64, f64)> = fig
+        .days
+        .iter()
+        .map(|d| (days_since(ctx, d.date), d.settlement_centre_m))
+        .collect();
+    let design_life = pl.settlement_at_finish_m + pl.residual_settlement_m;
+    let finish = days_since(ctx, pl.finish);
+    Chart {
+        x: MARGIN + 14.0,
+        y: CONTENT_TOP + 90.0,
+        w: PAGE_W - 2.0 * MARGIN - 30.0,
+        h: 48.0,
+        title: "Settlement under the centreline".into(),
+        x_axis: date_axis(ctx),
+        left: Axis {
+            label: "settlement (m)".into(),
+            min: 0.0,
+            max: (design_life * 1.2 * 10.0).ceil() / 10.0,
+        },
+        right: None,
+        left_down: true,
+        series: vec![
+            Series {
+                label: "predicted settlement".into(),
+                points: settl,
+                dash: Dash::Solid,
+                marker: Marker::None,
+                right: false,
+                markers_only: false,
+            },
+            Series {
+                label: format!("end of construction {:.3} m", pl.settlement_at_finish_m),
+                points: vec![(finish, pl.settlement_at_finish_m)],
+                dash: Dash::Solid,
+                marker: Marker::Square,
+                right: false,
+                markers_only: true,
+            },
+            Series {
+                label: format!(
+                    "after design life ({} y) {:.3} m",
+                    p.info.design_life_years, design_life
+                ),
+                points: vec![(0.0, design_life), (x_max, design_life)],
+                dash: Dash::Dashed,
+                marker: Marker::None,
+                right: false,
+                markers_only: false,
+            },
+        ],
+        vlines: Vec::new(),
+    }
+    .draw(c);
+}
+
+/// Excess pore pressure against date and strength profiles.
+pub fn figures_pore_strength(c: &mut Canvas, ctx: &Ctx) {
+    let fig = &ctx.r.plan.figures;
+    let styles = [
+        (Dash::Solid, Marker::None),
+        (Dash::Dashed, Marker::None),
+        (Dash::Dotted, Marker::None),
+        (Dash::Chain, Marker::Circle),
+    ];
+    let peak = fig
+        .days
+        .iter()
+        .flat_map(|d| d.excess_kpa.iter().copied())
+        .fold(10.0, f64::max);
+    let series = fig
+        .probes
+        .iter()
+        .enumerate()
+        .map(|(k, pr)| Series {
+            label: pr.label.clone(),
+            points: fig
+                .days
+                .iter()
+                .map(|d| (days_since(ctx, d.date), d.excess_kpa[k]))
+                .collect(),
+            dash: styles[k % styles.len()].0,
+            marker: styles[k % styles.len()].1,
+            right: false,
+            markers_only: false,
+        })
+        .collect();
+    Chart {
+        x: MARGIN + 14.0,
+        y: CONTENT_TOP + 4.0,
+        w: 150.0,
+        h: 112.0,
+        title: "Excess pore pressure".into(),
+        x_axis: date_axis(ctx),
+        left: Axis {
+            label: "excess pore pressure Δu (kPa)".into(),
+            min: 0.0,
+            max: (peak * 1.15 / 10.0).ceil() * 10.0,
+        },
+        right: None,
+        left_down: false,
+        series,
+        vlines: hold_lines(ctx),
+    }
+    .draw(c);
+    // Strength profiles: start, up to three releases spread over the works, end.
+    let n = fig.profiles.len();
+    let mut pick: Vec<usize> = vec![0];
+    if n > 2 {
+        for k in 1..=3 {
+            let i = k * (n - 1) / 4;
+            if i > 0 && i < n - 1 && !pick.contains(&i) {
+                pick.push(i);
+            }
+        }
+    }
+    if n > 1 {
+        pick.push(n - 1);
+    }
+    let styles = [
+        (Dash::Dotted, Marker::None),
+        (Dash::Dashed, Marker::None),
+        (Dash::Chain, Marker::None),
+        (Dash::Solid, Marker::Square),
+        (Dash::Solid, Marker::None),
+    ];
+    let su_max = fig
+        .profiles
+        .iter()
+        .flat_map(|p| p.points.iter().map(|q| q.1))
+        .fold(10.0, f64::max);
+    let depth = ctx.r.project.profile_depth_m();
+    let series = pick
+        .iter()
+        .enumerate()
+        .map(|(k, &i)| {
+            let pr = &fig.profiles[i];
+            let style = if i == n - 1 {
+                (Dash::Solid, Marker::None)
+            } else {
+                styles[k % styles.len()]
+            };
+            Series {
+                label: pr.label.clone(),
+                points: pr.points.iter().map(|&(z, su)| (su, z)).collect(),
+                dash: style.0,
+                marker: style.1,
+                right: false,
+                markers_only: false,
+            }
+        })
+        .collect();
+    Chart {
+        x: MARGIN + 190.0,
+        y: CONTENT_TOP + 4.0,
+        w: 81.0,
+        h: 112.0,
+        title: "Undrained strength under the centreline".into(),
+        x_axis: XAxis::Linear(Axis {
+            label: "su (kPa)".into(),
+            min: 0.0,
+            max: (su_max * 1.1 / 10.0).ceil() * 10.0,
+        }),
+        left: Axis {
+            label: "depth below original ground (m)".into(),
+            min: 0.0,
+            max: depth.ceil(),
+        },
+        right: None,
+        left_down: true,
+        series,
+        vlines: Vec::new(),
+    }
+    .draw(c);
+}
+
+/// The cross-section to scale at the governing stage with its circle.
+pub fn cross_section(c: &mut Canvas, ctx: &Ctx) {
+    let p = ctx.r.project;
+    let Some(g) = &ctx.r.plan.figures.governing else { return };
+    let e = &p.embankment;
+    let prof = crate::load::profile(e, g.height_m);
+    let toe = prof.last().map_or(10.0, |q| q.0);
+    let depth = p.profile_depth_m();
+    let (x_min, x_max) = (-0.5 * e.crest_width_m - 4.0, toe + 1.2 * depth);
+    let (y_min, y_max) = (-depth - 1.0, e.design_height_m + e.surcharge_height_m + 2.0);
+    let (bx, by, bw, bh) = (
+        MARGIN + 8.0,
+        CONTENT_TOP + 12.0,
+        PAGE_W - 2.0 * MARGIN - 16.0,
+        BLOCK_TOP - CONTENT_TOP - 26.0,
+    );
+    let scale = (bw / (x_max - x_min) as f32).min(bh / (y_max - y_min) as f32);
+    let tx = |x: f64| bx + (x - x_min) as f32 * scale;
+    let ty = |y: f64| by + (y_max - y) as f32 * scale;
+    c.text(
+        MARGIN,
+        CONTENT_TOP + 2.0,
+        9.0,
+        true,
+        &format!("Cross-section to scale (1 m = {scale:.2} mm) at the end of stage {}: crest {:.2} m, critical circle FS {:.2}", g.stage, g.height_m, g.critical.fs),
+    );
+    // layers, their boundaries moved down by s(x)(1 − z/D)
+    let xs: Vec<f64> = (0..=200).map(|k| x_min + (x_max - x_min) * k as f64 / 200.0).collect();
+    let sink = |x: f64, z: f64| -z - g.field.settlement(x) * (1.0 - (z / depth).min(1.0));
+    let mut top = 0.0;
+    let shades = [0.90, 0.80, 0.70, 0.62];
+    for (i, l) in p.ground.layers.iter().enumerate() {
+        let base = matches!(l.kind, LayerKind::StiffBase);
+        let bottom = if base { depth + 1.0 } else { top + l.thickness_m };
+        let mut poly: Vec<(f32, f32)> = xs.iter().map(|&x| (tx(x), ty(sink(x, top)))).collect();
+        poly.extend(
+            xs.iter()
+                .rev()
+                .map(|&x| (tx(x), ty(if base { -bottom } else { sink(x, bottom) }))),
+        );
+        c.fill(&poly, if base { 0.55 } else { shades[i % shades.len()] }, false);
+        c.text(
+            tx(x_max) - 45.0,
+            ty(sink(x_max, 0.5 * (top + bottom))) + 1.0,
+            7.0,
+            false,
+            &l.name,
+        );
+        top = bottom;
+    }
+    // settled ground and fill
+    let ground: Vec<(f32, f32)> = xs.iter().map(|&x| (tx(x), ty(-g.field.settlement(x)))).collect();
+    let mut fill: Vec<(f32, f32)> = xs
+        .iter()
+        .map(|&x| {
+            let h = crate::load::height_at(&prof, x);
+            (tx(x), ty(if h > 0.0 { h } else { -g.field.settlement(x) }))
+        })
+        .collect();
+    fill.extend(ground.iter().rev());
+    c.fill(&fill, 0.98, true);
+    c.polyline(&ground, 0.35, Dash::Dashed, 0.0);
+    c.line((tx(x_min), ty(0.0)), (tx(x_min + 6.0), ty(0.0)), 0.3, Dash::Solid, 0.0);
+    c.text(tx(x_min) + 0.5, ty(0.0) - 1.0, 6.0, false, "OGL");
+    c.line((tx(0.0), ty(y_max)), (tx(0.0), ty(-depth)), 0.25, Dash::Chain, 0.0);
+    c.text(tx(0.0) + 0.8, ty(y_max) + 3.0, 6.5, true, "CL");
+    // water table
+    let wy = ty(-p.ground.groundwater_depth_m);
+    c.line((tx(x_min), wy), (tx(x_max), wy), 0.25, Dash::Chain, 0.2);
+    c.text(tx(x_max) - 22.0, wy - 1.0, 6.0, false, "groundwater ▽");
+    // drains under the fill footprint (every k-th shown)
+    if let Some(d) = &p.drains {
+        let k = ((1.5 / (d.spacing_m as f32 * scale)).ceil() as usize).max(1);
+        let mut x = 0.0;
+        let mut i = 0;
+        while x <= toe {
+            if i % k == 0 {
+                for sx in [x, -x] {
+                    if sx >= x_min {
+                        c.line(
+                            (tx(sx), ty(-g.field.settlement(sx))),
+                            (tx(sx), ty(-d.depth_m)),
+                            0.15,
+                            Dash::Solid,
+                            0.35,
+                        );
+                    }
+                }
+            }
+            x += d.spacing_m;
+            i += 1;
+        }
+        c.text(
+            tx(0.0) + 1.0,
+            ty(-d.depth_m) + 4.0,
+            6.0,
+            false,
+            &format!("drains at {:.2} m to {:.1} m (every {k} shown)", d.spacing_m, d.depth_m),
+        );
+    }
+    // critical circle: arc from entry to exit, centre and radius
+    let cr = &g.critical;
+    let circ = cr.circle;
+    let arc: Vec<(f32, f32)> = (0..=120)
+        .map(|k| {
+            let x = cr.entry_x_m + (cr.exit_x_m - cr.entry_x_m) * k as f64 / 120.0;
+            let dy = (circ.r_m * circ.r_m - (x - circ.xc_m).powi(2)).max(0.0).sqrt();
+            (tx(x), ty(circ.yc_m - dy))
+        })
+        .collect();
+    c.polyline(&arc, 0.6, Dash::Solid, 0.0);
+    let (cx, cy) = (tx(circ.xc_m), ty(circ.yc_m));
+    if cy > by {
+        c.line((cx - 1.5, cy), (cx + 1.5, cy), 0.3, Dash::Solid, 0.0);
+        c.line((cx, cy - 1.5), (cx, cy + 1.5), 0.3, Dash::Solid, 0.0);
+        c.line((cx, cy), arc[arc.len() / 2], 0.2, Dash::Dotted, 0.0);
+    }
+    c.text(
+        MARGIN,
+        CONTENT_TOP + 7.0,
+        7.0,
+        false,
+        &format!(
+            "Critical circle: centre ({:.1}, {:.1}) m, radius {:.1} m, from x = {:.1} m to {:.1} m, lowest point {:.1} m below original ground in the {}; x from the centreline, y up from original ground.",
+            circ.xc_m, circ.yc_m, circ.r_m, cr.entry_x_m, cr.exit_x_m, cr.depth_m, cr.band
+        ),
+    );
+    // scale bar
+    let sb = 10.0;
+    let (sx, sy) = (bx, by + bh + 8.0);
+    c.line((sx, sy), (sx + sb as f32 * scale, sy), 0.6, Dash::Solid, 0.0);
+    c.text(sx, sy + 3.5, 6.5, false, &format!("{sb:.0} m"));
+    c.text(sx + sb as f32 * scale + 6.0, sy + 1.0, 6.5, false, "Fill at the governing stage (white), settled original ground (dashed), layers shaded, groundwater dash-dot, drains thin lines, critical circle bold.");
+}
+
+/// Inputs: layers, drains, construction and calendar, criteria, SHA-256.
+pub fn inputs(c: &mut Canvas, ctx: &Ctx) {
+    let p = ctx.r.project;
+    let mut rows = Vec::new();
+    let mut top = 0.0;
+    for l in &p.ground.layers {
+        let (kind, props) = match &l.kind {
+            LayerKind::Clay(cl) => {
+                let pre = match cl.preconsolidation {
+                    Preconsolidation::Ocr(o) => format!("OCR {o}"),
+                    Preconsolidation::PopKpa(v) => format!("POP {v} kPa"),
+                    Preconsolidation::SigmaPKpa(v) => format!("σ'p {v} kPa"),
+                };
+                let st = match cl.strength.model {
+                    StrengthModel::Shansep { s, m } => format!("SHANSEP S {s}, m {m}"),
+                    StrengthModel::GainRatio { ratio } => format!("gain ratio {ratio}"),
+                };
+                (
+                    "clay",
+                    format!(
+                        "e0 {} · Cc {} · Cr {} · Cα {} · {pre} · cv {:.2} m²/year · ch {:.2} m²/year · {st}{}",
+                        cl.e0,
+                        cl.cc,
+                        cl.cr,
+                        cl.c_alpha,
+                        cl.cv_m2_per_day * DAYS_PER_YEAR,
+                        cl.ch_m2_per_day * DAYS_PER_YEAR,
+                        if cl.strength.su0_points.is_empty() {
+                            String::new()
+                        } else {
+                            " · measured su0 floor".into()
+                        }
+                    ),
+                )
+            }
+            LayerKind::Sand {
+                friction_deg,
+                cohesion_kpa,
+            } => ("sand", format!("φ' {friction_deg}° · c' {cohesion_kpa} kPa")),
+            LayerKind::StiffBase => ("stiff base", "no slip surface passes through it".into()),
+        };
+        rows.push(vec![
+            l.name.clone(),
+            kind.into(),
+            f(top, 2),
+            if matches!(l.kind, LayerKind::StiffBase) {
+                "-".into()
+            } else {
+                f(l.thickness_m, 2)
+            },
+            format!("{} / {}", l.unit_weight_kn_m3, l.saturated_unit_weight_kn_m3),
+            props,
+        ]);
+        top += l.thickness_m;
+    }
+    c.text(
+        MARGIN,
+        CONTENT_TOP + 2.0,
+        9.0,
+        true,
+        &format!(
+            "Ground (groundwater {:.2} m below original ground; base {})",
+            p.ground.groundwater_depth_m,
+            if p.ground.base_drained { "drained" } else { "undrained" }
+        ),
+    );
+    let mut y = table(
+        c,
+        MARGIN,
+        CONTENT_TOP + 7.0,
+        &[
+            ("layer", 40.0, false),
+            ("kind", 16.0, false),
+            ("top m", 12.0, true),
+            ("thick m", 13.0, true),
+            ("γ / γsat kN/m³", 22.0, true),
+            ("properties", 170.0, false),
+        ],
+        &rows,
+        6.8,
+    ) + 5.0;
+    let e = &p.embankment;
+    let k = &p.construction;
+    let lines = [
+        format!(
+            "Embankment: design height {} m, crest {} m, side slopes {}H:1V, fill γ {} kN/m³, c' {} kPa, φ' {}°, surcharge {} m, berms {}, reinforcement {} kN/m.",
+            e.design_height_m,
+            e.crest_width_m,
+            e.side_slope_h_per_v,
+            e.fill_unit_weight_kn_m3,
+            e.fill_cohesion_kpa,
+            e.fill_friction_deg,
+            e.surcharge_height_m,
+            if e.berms.is_empty() {
+                "none".into()
+            } else {
+                e.berms
+                    .iter()
+                    .map(|b| format!("{} m wide at {} m", b.width_m, b.height_m))
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            },
+            e.reinforcement_kn_per_m
+        ),
+        match &p.drains {
+            Some(d) => format!(
+                "Drains: {} pattern at {} m (de = {:.3} m), dw = {:.0} mm, to {} m, smear ratio {}, kh/ks {}, qw {}.",
+                match d.pattern {
+                    crate::model::DrainPattern::Triangular => "triangular",
+                    crate::model::DrainPattern::Square => "square",
+                },
+                d.spacing_m,
+                d.influence_diameter_m(),
+                d.diameter_m * 1000.0,
+                d.depth_m,
+                d.smear_ratio,
+                d.kh_over_ks,
+                d.discharge_m3_per_day
+                    .map_or("infinite".into(), |q| format!("{:.0} m³/year", q * DAYS_PER_YEAR))
+            ),
+            None => "Drains: none.".into(),
+        },
+        format!(
+            "Construction: {} m per working day; lifts {}–{} m in steps of {} m; minimum rest {} days; working days {}; weather downtime {:.0}%; {} holiday dates.",
+            k.placement_rate_m_per_day,
+            k.lift_min_m,
+            k.lift_max_m,
+            k.lift_increment_m,
+            k.min_rest_days,
+            k.working_days
+                .iter()
+                .map(|d| d.to_string())
+                .collect::<Vec<_>>()
+                .join(" "),
+            100.0 * k.weather_downtime_fraction,
+            k.holidays.len()
+        ),
+        format!(
+            "Criteria: FS ≥ {} at the end of every lift, {} in service; surcharge removal at {}.",
+            p.criteria.fs_construction,
+            p.criteria.fs_service,
+            match (
+                p.criteria.surcharge_removal_degree,
+                p.criteria.residual_settlement_limit_m
+            ) {
+                (Some(u), _) => format!("U ≥ {:.0}% under the centreline", 100.0 * u),
+                (None, Some(s)) => format!("residual settlement ≤ {s} m"),
+                _ => "U ≥ 90% (default)".into(),
+            }
+        ),
+        format!(
+            "Analysis: {} consolidation, pore pressure {}, node spacing ≤ {} m, steps {} / {} days; stability: {} slices, fill strength factor {}, tension crack {}.",
+            match p.analysis.mode {
+                crate::model::ConsolidationMode::Linear => "linear (constant mv, cv)",
+                crate::model::ConsolidationMode::StressDependent => "stress-dependent (mv from Cr/Cc against σ'p)",
+            },
+            match p.analysis.pore_pressure {
+                crate::model::PorePressureRule::Vertical => "Δu = Δσz".to_string(),
+                crate::model::PorePressureRule::Skempton { a, b } => format!("Skempton A = {a}, B = {b}"),
+            },
+            p.analysis.max_node_spacing_m,
+            p.analysis.placement_step_days,
+            p.analysis.rest_step_days,
+            p.stability.slices,
+            p.stability.fill_strength_factor,
+            if p.stability.fill_tension_crack {
+                "through the full fill"
+            } else {
+                "none"
+            }
+        ),
+    ];
+    for l in lines {
+        y = c.paragraph(MARGIN, y, 270.0, 7.5, &l) + 1.5;
+    }
+    y += 2.0;
+    c.text(MARGIN, y, 7.5, true, "Project file SHA-256:");
+    c.text(MARGIN + 30.0, y, 7.5, false, &ctx.r.source_sha256);
+}
+
+/// Method statement and assumptions.
+pub fn methods(c: &mut Canvas) {
+    let items = [
+        (
+            "Stresses",
+            "2-D elastic (plane strain) solutions for uniform and linearly varying strip loads, integrated from Flamant's line load (Poulos & Davis 1974, Elastic Solutions for Soil and Rock Mechanics); the embankment's piecewise-linear profile is superposed. Osterberg (1957) is the centreline special case.",
+        ),
+        (
+            "Pore pressure",
+            "Excess pore pressure generated equals the increment of vertical total stress (one-dimensional loading), or Skempton's (1954) A and B with the 2-D principal stress increments where selected.",
+        ),
+        (
+            "Consolidation",
+            "Terzaghi's (1925) one-dimensional consolidation by finite differences on six vertical columns across the half-width, multi-layer with series conductances at interfaces, θ-scheme time stepping (Crank–Nicolson, fully implicit after load changes), tridiagonal solution.",
+        ),
+        (
+            "Vertical drains",
+            "Radial consolidation towards drains as a sink term λ = 8 ch/(de² μ) within the drain depth: Hansbo's (1981) equal-strain solution with smear and well resistance; de = 1.05 s (triangular) or 1.128 s (square) (Barron 1948); band-drain equivalent diameter (a + b)/2 (Rixner et al. 1986). Combined with vertical flow this approximates Carrillo's (1942) rule.",
+        ),
+        (
+            "Settlement",
+            "e–log σ' compression with Cr up to σ'p and Cc beyond, swelling with Cr on unloading; small strain; secondary compression (Cα) after the finish in the residual settlement. Settlement make-up fill and the buoyancy of fill settled below the water table are part of the load history.",
+        ),
+        (
+            "Strength",
+            "Undrained strength by SHANSEP, su = S σ'v (σ'p/σ'v)^m (Ladd & Foott 1974; Ladd 1991), σ'p being the largest effective stress reached, or by a gain ratio; never below the measured in-situ profile.",
+        ),
+        (
+            "Stability",
+            "Limit equilibrium on circular slip surfaces by Bishop's (1955) simplified method (Ordinary method of Fellenius 1927 alongside), at least 30 slices; clay undrained with su sampled from the consolidating strength field; fill and sand drained. Fill cracked through its full thickness where a circle rises through it on the active side, with Rankine active thrust. Grid search of centres and tangent depths with pattern refinement in each depth band.",
+        ),
+        (
+            "Timetable",
+            "Thickest safe lift at each stage by bisection over lift thicknesses; shortest rest to the day by bracketing and false position, relying on FS falling with lift thickness and rising with rest; working-day calendar with holidays and weather downtime; consolidation on every calendar day.",
+        ),
+    ];
+    let assumptions = "Assumptions and limits: plane strain section (long embankment); saturated clay; horizontally layered ground; small-strain consolidation; stability checked undrained at the end of each placement on circular surfaces only (non-circular failures along thin weak layers are not found); parameters are best estimates without partial factors. Outside these limits the results are not valid.";
+    let mut y = CONTENT_TOP + 2.0;
+    for (head, text) in items {
+        c.text(MARGIN, y, 8.0, true, head);
+        y = c.paragraph(MARGIN + 30.0, y, 240.0, 7.8, text) + 1.5;
+    }
+    y += 2.0;
+    c.paragraph(MARGIN, y, 270.0, 7.8, assumptions);
+}
+
+/// Caution notes and the monitoring plan.
+pub fn cautions_and_monitoring(c: &mut Canvas, ctx: &Ctx) {
+    let mut y = CONTENT_TOP + 2.0;
+    c.text(MARGIN, y, 10.0, true, "CAUTION NOTES");
+    y += 6.0;
+    for note in crate::report::cautions() {
+        y = c.paragraph(MARGIN + 3.0, y, 265.0, 8.3, &format!("• {note}")) + 1.0;
+    }
+    y += 4.0;
+    c.text(
+        MARGIN,
+        y,
+        10.0,
+        true,
+        "MONITORING PLAN (common practice; the engineer of record sets the final scope)",
+    );
+    y += 5.0;
+    let rows: Vec<Vec<String>> = [
+        [
+            "Piezometers",
+            "centreline at quarter points of the soft clay; under the crest edge and toe at mid-depth",
+            "daily",
+            "twice weekly, weekly after 4 weeks",
+            "monthly",
+        ],
+        [
+            "Settlement plates",
+            "centreline and both crest edges, on the original ground",
+            "daily",
+            "twice weekly",
+            "monthly",
+        ],
+        [
+            "Toe markers / inclinometers",
+            "at the toe and 5–10 m beyond it, both sides",
+            "daily",
+            "twice weekly",
+            "monthly",
+        ],
+        [
+            "Visual inspection",
+            "fill surface, crest, slopes, ground beyond the toe",
+            "every shift",
+            "weekly",
+            "monthly",
+        ],
+    ]
+    .iter()
+    .map(|r| r.iter().map(|s| s.to_string()).collect())
+    .collect();
+    y = table(
+        c,
+        MARGIN,
+        y,
+        &[
+            ("instrument", 40.0, false),
+            ("position", 110.0, false),
+            ("during placement", 28.0, false),
+            ("during rests", 50.0, false),
+            ("after works", 25.0, false),
+        ],
+        &rows,
+        7.2,
+    ) + 4.0;
+    let fs = ctx.r.project.criteria.fs_construction;
+    let criteria = format!(
+        "Hold-point criteria before each release (common practice; thresholds to be confirmed by the engineer of record): excess pore pressure falling under constant load at every piezometer and not above the predicted value at the same date; settlement rate decreasing; no acceleration of lateral movement at the toe and a ratio of toe lateral movement to centreline settlement increments well below about 0.5; no cracks or heave; factor of safety recomputed with the readings not below {fs:.2} for the next lift."
+    );
+    c.paragraph(MARGIN, y, 270.0, 7.8, &criteria);
+}
