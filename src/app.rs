@@ -23,33 +23,13 @@ pub fn run(cmd: &Command) -> Result<String> {
     match cmd {
         Command::New { dir } => new(dir),
         Command::Check { project, step, json } => check(project, *step, *json),
-        Command::Assess {
-            project,
-            tail_days,
-            csv,
-            json,
-        } => assess_cmd(project, *tail_days, csv.as_deref(), *json),
-        Command::Stability {
-            project,
-            height,
-            date,
-            circle,
-            json,
-        } => stability(project, *height, date.as_deref(), circle.as_deref(), *json),
-        Command::Plan {
-            project,
-            csv,
-            ics,
-            pdf,
-            out,
-            json,
-        } => {
-            let outs = PlanOutputs {
-                csv: csv.as_deref(),
-                ics: ics.as_deref(),
-                pdf: pdf.as_deref(),
-                dir: out.as_deref(),
-            };
+        Command::Assess { project, tail_days, csv, json } => assess_cmd(project, *tail_days, csv.as_deref(), *json),
+        Command::Stability { project, height, date, circle, json } => {
+            stability(project, *height, date.as_deref(), circle.as_deref(), *json)
+        }
+        Command::Plan { project, csv, ics, pdf, out, json } => {
+            let outs =
+                PlanOutputs { csv: csv.as_deref(), ics: ics.as_deref(), pdf: pdf.as_deref(), dir: out.as_deref() };
             plan(project.as_deref(), &outs, *json)
         }
     }
@@ -62,17 +42,10 @@ fn new(dir: &Path) -> Result<String> {
             dir.display()
         )));
     }
-    std::fs::create_dir_all(dir).map_err(|source| Error::Write {
-        path: dir.to_path_buf(),
-        source,
-    })?;
+    std::fs::create_dir_all(dir).map_err(|source| Error::Write { path: dir.to_path_buf(), source })?;
     let path = dir.join("project.toml");
     output::write_atomic(&path, TEMPLATE.as_bytes())?;
-    Ok(format!(
-        "wrote {}\nnext: fillpace check {}\n",
-        path.display(),
-        path.display()
-    ))
+    Ok(format!("wrote {}\nnext: fillpace check {}\n", path.display(), path.display()))
 }
 
 fn check(path: &Path, step: f64, json: bool) -> Result<String> {
@@ -82,11 +55,7 @@ fn check(path: &Path, step: f64, json: bool) -> Result<String> {
     let p = input::load(path)?;
     let s = crate::ground::summary(&p, step);
     let src = path.display().to_string();
-    if json {
-        report::json::envelope("check", &p, &src, &s)
-    } else {
-        Ok(report::text::check(&p, &s, &src))
-    }
+    if json { report::json::envelope("check", &p, &src, &s) } else { Ok(report::text::check(&p, &s, &src)) }
 }
 
 fn assess_cmd(path: &Path, tail: i64, csv: Option<&Path>, json: bool) -> Result<String> {
@@ -130,11 +99,7 @@ fn stability(path: &Path, height: f64, date: Option<&str>, circle: Option<&str>,
     let runner = Runner::new(&engine);
     let (st, when) = state_on(&runner, &p, date)?;
     // The section at the requested height, fill made up for settlement so far.
-    let placed = if height > 0.0 {
-        height + st.settlement_centre_m
-    } else {
-        0.0
-    };
+    let placed = if height > 0.0 { height + st.settlement_centre_m } else { 0.0 };
     let field = engine.field(&st);
     let section = Section::new(&p, height, &field);
     let src = path.display().to_string();
@@ -169,10 +134,7 @@ fn state_on(r: &Runner, p: &Project, date: Option<&str>) -> Result<(crate::respo
     let d = NaiveDate::parse_from_str(text, "%Y-%m-%d")
         .map_err(|_| Error::Usage(format!("--date {text} is not a date YYYY-MM-DD")))?;
     if d < p.info.start_date {
-        return Err(Error::Usage(format!(
-            "--date {d} is before project.start_date ({})",
-            p.info.start_date
-        )));
+        return Err(Error::Usage(format!("--date {d} is before project.start_date ({})", p.info.start_date)));
     }
     let day = r.calendar.day_of(d);
     if day > r.calendar.horizon() {
@@ -198,18 +160,30 @@ fn parse_circle(text: &str) -> Result<Circle> {
         .collect::<std::result::Result<_, _>>()
         .map_err(|_| Error::Usage(format!("--circle {text}: give three numbers XC,YC,R in metres")))?;
     match v[..] {
-        [xc, yc, r] if v.iter().all(|x| x.is_finite()) && r > 0.5 => Ok(Circle {
-            xc_m: xc,
-            yc_m: yc,
-            r_m: r,
-        }),
-        [_, _, r] if r <= 0.5 => Err(Error::Usage(format!(
-            "--circle {text}: radius {r} m is too small (more than 0.5 m needed)"
-        ))),
-        _ => Err(Error::Usage(format!(
-            "--circle {text}: give three finite numbers XC,YC,R in metres"
-        ))),
+        [xc, yc, r] if v.iter().all(|x| x.is_finite()) && r > 0.5 => Ok(Circle { xc_m: xc, yc_m: yc, r_m: r }),
+        [_, _, r] if r <= 0.5 => {
+            Err(Error::Usage(format!("--circle {text}: radius {r} m is too small (more than 0.5 m needed)")))
+        }
+        _ => Err(Error::Usage(format!("--circle {text}: give three finite numbers XC,YC,R in metres"))),
     }
+}
+
+/// Run `f` with a progress bar on standard error when it is a terminal
+/// (nothing when piped); `f` reports progress as a fraction 0–1.
+fn with_progress<T>(f: impl FnOnce(&mut dyn FnMut(f64)) -> T) -> T {
+    use std::io::IsTerminal;
+    if !std::io::stderr().is_terminal() {
+        return f(&mut |_| {});
+    }
+    let bar = indicatif::ProgressBar::new(100);
+    bar.set_style(
+        indicatif::ProgressStyle::with_template("planning {bar:40} {pos:>3}% of final height [{elapsed}]")
+            .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
+    );
+    bar.enable_steady_tick(std::time::Duration::from_millis(200));
+    let out = f(&mut |x| bar.set_position((100.0 * x).round() as u64));
+    bar.finish_and_clear();
+    out
 }
 
 /// Where `plan` writes its files.
@@ -242,21 +216,12 @@ impl PlanOutputs<'_> {
 fn plan(path: Option<&Path>, outs: &PlanOutputs, json: bool) -> Result<String> {
     let (text, source, inputs): (String, String, Vec<PathBuf>) = match path {
         Some(f) => {
-            let t = std::fs::read_to_string(f).map_err(|source| Error::Read {
-                path: f.to_path_buf(),
-                source,
-            })?;
+            let t = std::fs::read_to_string(f).map_err(|source| Error::Read { path: f.to_path_buf(), source })?;
             (t, f.display().to_string(), vec![f.to_path_buf()])
         }
-        None => (
-            DEMO.to_string(),
-            "the bundled demo site (examples/kestrel-fen.toml)".into(),
-            vec![],
-        ),
+        None => (DEMO.to_string(), "the bundled demo site (examples/kestrel-fen.toml)".into(), vec![]),
     };
-    let name = path.map_or("bundled demo (examples/kestrel-fen.toml)".to_string(), |f| {
-        f.display().to_string()
-    });
+    let name = path.map_or("bundled demo (examples/kestrel-fen.toml)".to_string(), |f| f.display().to_string());
     let p = input::parse(&text, &name)?;
     let input_refs: Vec<&Path> = inputs.iter().map(PathBuf::as_path).collect();
     let files = outs.files();
@@ -264,28 +229,17 @@ fn plan(path: Option<&Path>, outs: &PlanOutputs, json: bool) -> Result<String> {
         output::refuse_overwrite_of_inputs(out, &input_refs)?;
     }
     if let Some(d) = outs.dir {
-        std::fs::create_dir_all(d).map_err(|source| Error::Write {
-            path: d.to_path_buf(),
-            source,
-        })?;
+        std::fs::create_dir_all(d).map_err(|source| Error::Write { path: d.to_path_buf(), source })?;
     }
     let engine = Engine::new(&p);
     let runner = Runner::new(&engine);
-    let plan = planner::plan(&runner)?;
-    let rep = PlanReport {
-        project: &p,
-        plan: &plan,
-        source,
-        source_sha256: report::sha256_hex(text.as_bytes()),
-    };
+    let plan = with_progress(|tick| planner::plan_with_progress(&runner, tick))?;
+    let rep = PlanReport { project: &p, plan: &plan, source, source_sha256: report::sha256_hex(text.as_bytes()) };
     for (kind, out) in &files {
         let bytes = match *kind {
             "csv" => report::csv::Csv.serialize(&rep)?,
             "ics" => report::ics::Ics.serialize(&rep)?,
-            "pdf" => report::pdf::Pdf {
-                report_date: report::today(),
-            }
-            .serialize(&rep)?,
+            "pdf" => report::pdf::Pdf { report_date: report::today() }.serialize(&rep)?,
             _ => report::json::Json.serialize(&rep)?,
         };
         output::write_atomic(out, &bytes)?;

@@ -85,9 +85,7 @@ impl Column {
             let li = ground::layer_index(g, mid);
             let probe = |z: f64| ground::node_at_layer(project, z, li);
             let (a, b, m) = (probe(w[0].z_m), probe(w[1].z_m), probe(mid));
-            let mv_lin = m
-                .clay
-                .map_or(0.0, |c| ground::mv_virgin(&c, reference_stress(project, li)));
+            let mv_lin = m.clay.map_or(0.0, |c| ground::mv_virgin(&c, reference_stress(project, li)));
             elements.push(Element {
                 h_m: w[1].z_m - w[0].z_m,
                 clay: m.clay,
@@ -97,14 +95,7 @@ impl Column {
         }
         let fixed = fixed_nodes(&elements, project.ground.base_drained);
         let radial = radial_factors(project, &nodes, &elements);
-        Column {
-            x_m,
-            nodes,
-            elements,
-            fixed,
-            radial,
-            mode: project.analysis.mode,
-        }
+        Column { x_m, nodes, elements, fixed, radial, mode: project.analysis.mode }
     }
 
     /// State before any load.
@@ -289,11 +280,7 @@ impl Column {
             num += 0.5 * el.h_m * (st.u[e] + st.u[e + 1]);
             den += 0.5 * el.h_m * (st.load[e].sz + st.load[e + 1].sz);
         }
-        if den <= 1e-9 {
-            1.0
-        } else {
-            (1.0 - num / den).clamp(0.0, 1.0)
-        }
+        if den <= 1e-9 { 1.0 } else { (1.0 - num / den).clamp(0.0, 1.0) }
     }
 }
 
@@ -359,11 +346,7 @@ fn radial_factors(project: &Project, nodes: &[Node], elements: &[Element]) -> Ve
             let well = d.discharge_m3_per_day.map(|qw| {
                 let el = &elements[i.min(elements.len() - 1)];
                 let kh = el.clay.map_or(0.0, |c| c.ch_m2_per_day * el.mv_lin * GAMMA_W);
-                let z = if both_ends {
-                    node.z_m.min(d.depth_m - node.z_m)
-                } else {
-                    node.z_m
-                };
+                let z = if both_ends { node.z_m.min(d.depth_m - node.z_m) } else { node.z_m };
                 (z, l, kh / qw)
             });
             8.0 / (de * de * hansbo_mu(n, d.smear_ratio, d.kh_over_ks, well))
@@ -455,14 +438,7 @@ mod tests {
     /// factor `tv` (Hdr = H/2, double drainage) with step `dt`.
     fn run_terzaghi(col: &Column, q: f64, tv: f64, hdr: f64, cv_day: f64, dt: f64) -> ColumnState {
         let mut st = col.initial_state();
-        let load = vec![
-            Stress {
-                sz: q,
-                sx: 0.0,
-                txz: 0.0
-            };
-            col.nodes.len()
-        ];
+        let load = vec![Stress { sz: q, sx: 0.0, txz: 0.0 }; col.nodes.len()];
         let t_end = tv * hdr * hdr / cv_day;
         let steps = (t_end / dt).ceil() as usize;
         let dt = t_end / steps as f64;
@@ -495,12 +471,7 @@ mod tests {
             for (i, n) in col.nodes.iter().enumerate() {
                 let exact = 100.0 * terzaghi_isochrone(tv, n.z_m / 5.0);
                 let exact = if i == 0 || i == col.nodes.len() - 1 { 0.0 } else { exact };
-                assert!(
-                    (st.u[i] - exact).abs() < 1.0,
-                    "Tv {tv} z {}: {} vs {exact}",
-                    n.z_m,
-                    st.u[i]
-                );
+                assert!((st.u[i] - exact).abs() < 1.0, "Tv {tv} z {}: {} vs {exact}", n.z_m, st.u[i]);
             }
         }
     }
@@ -523,11 +494,7 @@ mod tests {
         let col = Column::new(&p, 0.0);
         let st = run_terzaghi(&col, 40.0, 0.3, 5.0, 0.01, 1.0);
         let ratio = col.settlement(&st) / col.final_settlement(&st);
-        assert!(
-            (ratio - col.degree(&st)).abs() < 0.005 * col.degree(&st),
-            "{ratio} vs {}",
-            col.degree(&st)
-        );
+        assert!((ratio - col.degree(&st)).abs() < 0.005 * col.degree(&st), "{ratio} vs {}", col.degree(&st));
     }
 
     #[test]
@@ -550,14 +517,7 @@ mod tests {
             }
             let col = Column::new(&p, 0.0);
             let mut st = col.initial_state();
-            let load = vec![
-                Stress {
-                    sz: 50.0,
-                    sx: 0.0,
-                    txz: 0.0
-                };
-                col.nodes.len()
-            ];
+            let load = vec![Stress { sz: 50.0, sx: 0.0, txz: 0.0 }; col.nodes.len()];
             let days = 0.5 * DAYS_PER_YEAR;
             let n = 730;
             for _ in 0..n {

@@ -62,14 +62,7 @@ impl Error {
 
     /// A single input issue.
     pub fn input(file: &str, line: Option<usize>, key: &str, message: String) -> Self {
-        Error::Input {
-            file: file.to_string(),
-            issues: vec![InputIssue {
-                line,
-                key: key.to_string(),
-                message,
-            }],
-        }
+        Error::Input { file: file.to_string(), issues: vec![InputIssue { line, key: key.to_string(), message }] }
     }
 }
 

@@ -51,11 +51,7 @@ pub fn sigma_v0(ground: &Ground, z_m: f64) -> f64 {
     let mut top = 0.0;
     let mut sum = 0.0;
     for l in &ground.layers {
-        let bottom = if matches!(l.kind, LayerKind::StiffBase) {
-            f64::INFINITY
-        } else {
-            top + l.thickness_m
-        };
+        let bottom = if matches!(l.kind, LayerKind::StiffBase) { f64::INFINITY } else { top + l.thickness_m };
         let lo = top.min(z_m);
         let hi = bottom.min(z_m);
         let dry = (hi.min(dw) - lo).max(0.0);
@@ -287,15 +283,8 @@ pub fn summary(project: &Project, step_m: f64) -> Summary {
     }
     let depth = project.profile_depth_m();
     let n = (depth / step_m).ceil() as usize;
-    let profile = (0..=n)
-        .map(|k| node_at(project, (k as f64 * step_m).min(depth)))
-        .collect();
-    Summary {
-        groundwater_depth_m: g.groundwater_depth_m,
-        base_drained: g.base_drained,
-        layers,
-        profile,
-    }
+    let profile = (0..=n).map(|k| node_at(project, (k as f64 * step_m).min(depth))).collect();
+    Summary { groundwater_depth_m: g.groundwater_depth_m, base_drained: g.base_drained, layers, profile }
 }
 
 #[cfg(test)]
@@ -311,10 +300,7 @@ mod tests {
             preconsolidation: Preconsolidation::Ocr(1.0),
             cv_m2_per_day: 0.01,
             ch_m2_per_day: 0.01,
-            strength: Strength {
-                model: StrengthModel::Shansep { s: 0.22, m: 0.8 },
-                su0_points: vec![],
-            },
+            strength: Strength { model: StrengthModel::Shansep { s: 0.22, m: 0.8 }, su0_points: vec![] },
         };
         Ground {
             groundwater_depth_m: 1.0,

@@ -19,11 +19,7 @@ pub struct Stress {
 
 impl Stress {
     fn add(self, o: Stress, f: f64) -> Stress {
-        Stress {
-            sz: self.sz + f * o.sz,
-            sx: self.sx + f * o.sx,
-            txz: self.txz + f * o.txz,
-        }
+        Stress { sz: self.sz + f * o.sz, sx: self.sx + f * o.sx, txz: self.txz + f * o.txz }
     }
 
     /// Major and minor principal increments (σ1, σ3), kPa.
@@ -47,11 +43,7 @@ pub fn uniform_strip(q: f64, a: f64, b: f64, x: f64, z: f64) -> Stress {
     let (ta, tb) = angles(a, b, x, z);
     let al = ta - tb;
     let (s, c) = ((ta + tb).sin(), (ta + tb).cos());
-    Stress {
-        sz: q / PI * (al + al.sin() * c),
-        sx: q / PI * (al - al.sin() * c),
-        txz: q / PI * al.sin() * s,
-    }
+    Stress { sz: q / PI * (al + al.sin() * c), sx: q / PI * (al - al.sin() * c), txz: q / PI * al.sin() * s }
 }
 
 /// Pressure rising linearly from 0 at ξ = a to q at ξ = b (a < b): Flamant's
@@ -65,11 +57,7 @@ pub fn rising_strip(q: f64, a: f64, b: f64, x: f64, z: f64) -> Stress {
     let fx = |t: f64| xa * (t - t.sin() * t.cos()) + 2.0 * z * t.cos().ln() - z * t.cos().powi(2);
     let ft = |t: f64| xa * t.sin().powi(2) - z * (t - t.sin() * t.cos());
     let k = q / (PI * w);
-    Stress {
-        sz: k * (fz(ta) - fz(tb)),
-        sx: k * (fx(ta) - fx(tb)),
-        txz: k * (ft(ta) - ft(tb)),
-    }
+    Stress { sz: k * (fz(ta) - fz(tb)), sx: k * (fx(ta) - fx(tb)), txz: k * (ft(ta) - ft(tb)) }
 }
 
 /// Stress under a piece of profile from (x0, p0) to (x1, p1), pressures kPa.
@@ -85,8 +73,7 @@ fn piece(x0: f64, p0: f64, x1: f64, p1: f64, x: f64, z: f64) -> Stress {
         base.add(rising_strip(d, x0, x1, x, z), 1.0)
     } else {
         // falling ramp = uniform |d| minus the rising ramp of |d|
-        base.add(uniform_strip(-d, x0, x1, x, z), 1.0)
-            .add(rising_strip(-d, x0, x1, x, z), -1.0)
+        base.add(uniform_strip(-d, x0, x1, x, z), 1.0).add(rising_strip(-d, x0, x1, x, z), -1.0)
     }
 }
 
@@ -123,20 +110,11 @@ pub fn profile(e: &Embankment, t_m: f64) -> Vec<(f64, f64)> {
         h = berm.height_m;
         shapes.push((berm.height_m.min(t_m), x));
     }
-    let height = |x: f64| {
-        shapes
-            .iter()
-            .map(|&(hp, edge)| (hp - (x - edge).max(0.0) / n).max(0.0))
-            .fold(0.0, f64::max)
-    };
+    let height = |x: f64| shapes.iter().map(|&(hp, edge)| (hp - (x - edge).max(0.0) / n).max(0.0)).fold(0.0, f64::max);
     let toe = shapes.iter().map(|&(hp, edge)| edge + n * hp).fold(0.0, f64::max);
     // Vertices: every platform edge and foot, and every point where one
     // shape's slope meets another's platform.
-    let mut xs: Vec<f64> = shapes
-        .iter()
-        .flat_map(|&(hp, edge)| [edge, edge + n * hp])
-        .chain([0.0, toe])
-        .collect();
+    let mut xs: Vec<f64> = shapes.iter().flat_map(|&(hp, edge)| [edge, edge + n * hp]).chain([0.0, toe]).collect();
     for &(ha, ea) in &shapes {
         for &(hb, _) in &shapes {
             if ha > hb {
@@ -182,10 +160,7 @@ pub fn height_at(profile: &[(f64, f64)], x: f64) -> f64 {
 
 /// Cross-section area of a profile (both halves), m² per metre run.
 pub fn area(profile: &[(f64, f64)]) -> f64 {
-    2.0 * profile
-        .windows(2)
-        .map(|w| 0.5 * (w[0].1 + w[1].1) * (w[1].0 - w[0].0))
-        .sum::<f64>()
+    2.0 * profile.windows(2).map(|w| 0.5 * (w[0].1 + w[1].1) * (w[1].0 - w[0].0)).sum::<f64>()
 }
 
 #[cfg(test)]
@@ -253,10 +228,7 @@ mod tests {
             fill_cohesion_kpa: 0.0,
             fill_friction_deg: 30.0,
             surcharge_height_m: 0.0,
-            berms: vec![crate::model::Berm {
-                width_m: 5.0,
-                height_m: 2.0,
-            }],
+            berms: vec![crate::model::Berm { width_m: 5.0, height_m: 2.0 }],
             reinforcement_kn_per_m: 0.0,
         };
         let p = profile(&e, 6.0);

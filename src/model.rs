@@ -281,12 +281,7 @@ pub struct ProposedLift {
 impl Project {
     /// Depth of the top of the stiff base below OGL, or of the profile bottom.
     pub fn profile_depth_m(&self) -> f64 {
-        self.ground
-            .layers
-            .iter()
-            .filter(|l| !matches!(l.kind, LayerKind::StiffBase))
-            .map(|l| l.thickness_m)
-            .sum()
+        self.ground.layers.iter().filter(|l| !matches!(l.kind, LayerKind::StiffBase)).map(|l| l.thickness_m).sum()
     }
 
     /// Highest crest the fill may reach above OGL, m (design + surcharge).

@@ -37,18 +37,12 @@ pub fn write_atomic_with(
     bytes: &[u8],
     before_rename: impl FnOnce(&Path) -> std::io::Result<()>,
 ) -> Result<()> {
-    let err = |source| Error::Write {
-        path: path.to_path_buf(),
-        source,
-    };
+    let err = |source| Error::Write { path: path.to_path_buf(), source };
     let dir = match path.parent() {
         Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
         _ => PathBuf::from("."),
     };
-    let name = path
-        .file_name()
-        .map(|n| n.to_string_lossy().into_owned())
-        .unwrap_or_default();
+    let name = path.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
     let tmp = dir.join(format!(".{name}.{}.tmp", std::process::id()));
     let result = (|| {
         let mut f = std::fs::File::create(&tmp)?;

@@ -49,16 +49,9 @@ pub struct ColumnInfo {
 impl<'p> Engine<'p> {
     /// Build the columns at the standard offsets of the final section.
     pub fn new(project: &'p Project) -> Engine<'p> {
-        let columns = column_offsets(project)
-            .iter()
-            .map(|c| Column::new(project, c.x_m))
-            .collect();
+        let columns = column_offsets(project).iter().map(|c| Column::new(project, c.x_m)).collect();
         let table = (0..LEVELS).map(|_| OnceLock::new()).collect();
-        Engine {
-            project,
-            columns,
-            table,
-        }
+        Engine { project, columns, table }
     }
 
     /// Columns' names and offsets.
@@ -84,10 +77,7 @@ impl<'p> Engine<'p> {
     /// Stress fields for unit fill weight and thickness t (all columns).
     fn unit_stress(&self, t: f64) -> Vec<Vec<Stress>> {
         let prof = load::profile(&self.project.embankment, t);
-        self.columns
-            .iter()
-            .map(|c| c.nodes.iter().map(|n| load::stress(&prof, 1.0, c.x_m, n.z_m)).collect())
-            .collect()
+        self.columns.iter().map(|c| c.nodes.iter().map(|n| load::stress(&prof, 1.0, c.x_m, n.z_m)).collect()).collect()
     }
 
     /// Stress increments in column `c` under placed thickness t and fill
@@ -118,12 +108,8 @@ impl<'p> Engine<'p> {
         let e = &self.project.embankment;
         let s_c = st.settlement_centre_m;
         let placed = if height_end_m > 0.0 { height_end_m + s_c } else { 0.0 };
-        let gamma = effective_fill_weight(
-            e.fill_unit_weight_kn_m3,
-            placed,
-            s_c,
-            self.project.ground.groundwater_depth_m,
-        );
+        let gamma =
+            effective_fill_weight(e.fill_unit_weight_kn_m3, placed, s_c, self.project.ground.groundwater_depth_m);
         let rule = self.project.analysis.pore_pressure;
         let mut buf = Vec::new();
         for (c, col) in self.columns.iter().enumerate() {
@@ -177,12 +163,7 @@ impl<'p> Engine<'p> {
         GroundField {
             xs: self.columns.iter().map(|c| c.x_m).collect(),
             zs: self.columns[0].nodes.iter().map(|n| n.z_m).collect(),
-            settlement_m: self
-                .columns
-                .iter()
-                .zip(&st.cols)
-                .map(|(c, s)| c.settlement(s))
-                .collect(),
+            settlement_m: self.columns.iter().zip(&st.cols).map(|(c, s)| c.settlement(s)).collect(),
             su: self
                 .columns
                 .iter()
@@ -211,27 +192,12 @@ pub fn column_offsets(project: &Project) -> Vec<ColumnInfo> {
     let toe = prof.last().map_or(b, |p| p.0);
     let d = project.profile_depth_m();
     vec![
-        ColumnInfo {
-            name: "centreline",
-            x_m: 0.0,
-        },
-        ColumnInfo {
-            name: "crest edge",
-            x_m: b,
-        },
-        ColumnInfo {
-            name: "mid-slope",
-            x_m: 0.5 * (b + toe),
-        },
+        ColumnInfo { name: "centreline", x_m: 0.0 },
+        ColumnInfo { name: "crest edge", x_m: b },
+        ColumnInfo { name: "mid-slope", x_m: 0.5 * (b + toe) },
         ColumnInfo { name: "toe", x_m: toe },
-        ColumnInfo {
-            name: "beyond toe",
-            x_m: toe + 0.5 * d,
-        },
-        ColumnInfo {
-            name: "far field",
-            x_m: toe + 1.5 * d,
-        },
+        ColumnInfo { name: "beyond toe", x_m: toe + 0.5 * d },
+        ColumnInfo { name: "far field", x_m: toe + 1.5 * d },
     ]
 }
 

@@ -12,12 +12,7 @@ fn every_example_and_template_validates() {
         for entry in std::fs::read_dir(root(dir)).unwrap() {
             let path = entry.unwrap().path();
             if path.extension().is_some_and(|e| e == "toml") {
-                fillpace()
-                    .arg("check")
-                    .arg(&path)
-                    .assert()
-                    .success()
-                    .stdout(predicate::str::contains("is valid"));
+                fillpace().arg("check").arg(&path).assert().success().stdout(predicate::str::contains("is valid"));
             }
         }
     }
@@ -28,17 +23,8 @@ fn new_writes_a_valid_project_and_never_overwrites() {
     let dir = tempfile::tempdir().unwrap();
     let site = dir.path().join("site");
     fillpace().arg("new").arg(&site).assert().success();
-    fillpace()
-        .arg("check")
-        .arg(site.join("project.toml"))
-        .assert()
-        .success();
-    fillpace()
-        .arg("new")
-        .arg(&site)
-        .assert()
-        .code(2)
-        .stderr(predicate::str::contains("never overwrites"));
+    fillpace().arg("check").arg(site.join("project.toml")).assert().success();
+    fillpace().arg("new").arg(&site).assert().code(2).stderr(predicate::str::contains("never overwrites"));
 }
 
 #[test]
@@ -47,19 +33,12 @@ fn bad_input_corpus_is_refused_with_the_key_named() {
     for entry in std::fs::read_dir(root("tests/data/bad")).unwrap() {
         let path = entry.unwrap().path();
         let text = std::fs::read_to_string(&path).unwrap();
-        let key = text
-            .lines()
-            .next()
-            .and_then(|l| l.strip_prefix("# expect-key: "))
-            .expect("expect-key header");
+        let key = text.lines().next().and_then(|l| l.strip_prefix("# expect-key: ")).expect("expect-key header");
         let out = fillpace().arg("check").arg(&path).output().unwrap();
         let err = String::from_utf8_lossy(&out.stderr);
         assert_eq!(out.status.code(), Some(2), "{}: {err}", path.display());
         assert!(err.contains(key), "{}: key `{key}` not named in: {err}", path.display());
-        assert!(
-            err.contains(&*path.file_name().unwrap().to_string_lossy()),
-            "file not named: {err}"
-        );
+        assert!(err.contains(&*path.file_name().unwrap().to_string_lossy()), "file not named: {err}");
         assert!(!err.contains("panicked"), "{err}");
         assert_eq!(err.matches("error:").count(), 1, "error shown once: {err}");
         n += 1;
@@ -98,22 +77,13 @@ fn check_json_has_layers_and_profile() {
 #[test]
 fn demo_full_height_in_one_lift_is_unsafe_and_a_first_lift_is_safe() {
     let p = load(DEMO);
-    let full = fillpace()
-        .args(["stability", DEMO, "--json", "--height"])
-        .arg(p.max_height_m().to_string())
-        .output()
-        .unwrap();
+    let full =
+        fillpace().args(["stability", DEMO, "--json", "--height"]).arg(p.max_height_m().to_string()).output().unwrap();
     let fs_full = json_result(&full.stdout)["critical"]["fs"].as_f64().unwrap();
     assert!(fs_full < 1.0, "full height in one lift: FS {fs_full}");
-    let first = fillpace()
-        .args(["stability", DEMO, "--json", "--height", "2.5"])
-        .output()
-        .unwrap();
+    let first = fillpace().args(["stability", DEMO, "--json", "--height", "2.5"]).output().unwrap();
     let fs_first = json_result(&first.stdout)["critical"]["fs"].as_f64().unwrap();
-    assert!(
-        fs_first >= p.criteria.fs_construction,
-        "2.5 m first lift: FS {fs_first}"
-    );
+    assert!(fs_first >= p.criteria.fs_construction, "2.5 m first lift: FS {fs_first}");
 }
 
 #[test]
@@ -136,18 +106,13 @@ fn stability_rejects_bad_heights_and_circles() {
         .assert()
         .code(2)
         .stderr(predicate::str::contains("too small"));
-    fillpace()
-        .args(["stability", DEMO, "--height", "3", "--circle", "10,x,5"])
-        .assert()
-        .code(2);
+    fillpace().args(["stability", DEMO, "--height", "3", "--circle", "10,x,5"]).assert().code(2);
 }
 
 #[test]
 fn stability_of_one_user_circle() {
-    let out = fillpace()
-        .args(["stability", DEMO, "--height", "3", "--json", "--circle", "29.5,4.2,8.7"])
-        .output()
-        .unwrap();
+    let out =
+        fillpace().args(["stability", DEMO, "--height", "3", "--json", "--circle", "29.5,4.2,8.7"]).output().unwrap();
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     let r = json_result(&out.stdout);
     assert!(r["fs"].as_f64().unwrap() > 0.5);
@@ -158,11 +123,7 @@ fn stability_of_one_user_circle() {
 fn assess_writes_series_and_flags_the_unsafe_lift() {
     let dir = tempfile::tempdir().unwrap();
     let csv = dir.path().join("history.csv");
-    let out = fillpace()
-        .args(["assess", DEMO, "--json", "--csv"])
-        .arg(&csv)
-        .output()
-        .unwrap();
+    let out = fillpace().args(["assess", DEMO, "--json", "--csv"]).arg(&csv).output().unwrap();
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     let r = json_result(&out.stdout);
     let lifts = r["lifts"].as_array().unwrap();
@@ -204,13 +165,7 @@ fn plan_without_arguments_plans_the_bundled_demo() {
 fn plan_outputs_csv_and_an_icalendar_that_parses() {
     let dir = tempfile::tempdir().unwrap();
     let (csv, ics) = (dir.path().join("plan.csv"), dir.path().join("holds.ics"));
-    let out = fillpace()
-        .args(["plan", DEMO, "--json", "--csv"])
-        .arg(&csv)
-        .arg("--ics")
-        .arg(&ics)
-        .output()
-        .unwrap();
+    let out = fillpace().args(["plan", DEMO, "--json", "--csv"]).arg(&csv).arg("--ics").arg(&ics).output().unwrap();
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     let plan = json_result(&out.stdout);
     let stages = plan["stages"].as_array().unwrap();
@@ -243,17 +198,9 @@ fn output_over_an_input_is_refused() {
 
 #[test]
 fn help_and_version() {
-    fillpace()
-        .arg("--version")
-        .assert()
-        .success()
-        .stdout(predicate::str::contains(env!("CARGO_PKG_VERSION")));
+    fillpace().arg("--version").assert().success().stdout(predicate::str::contains(env!("CARGO_PKG_VERSION")));
     for cmd in ["new", "check", "assess", "stability", "plan"] {
-        fillpace()
-            .args([cmd, "--help"])
-            .assert()
-            .success()
-            .stdout(predicate::str::contains("Example"));
+        fillpace().args([cmd, "--help"]).assert().success().stdout(predicate::str::contains("Example"));
     }
 }
 
@@ -262,11 +209,7 @@ fn plan_pdf_has_every_section_stage_hash_and_caution() {
     // Read back with a general-purpose PDF library (lopdf).
     let dir = tempfile::tempdir().unwrap();
     let pdf = dir.path().join("schedule.pdf");
-    let out = fillpace()
-        .args(["plan", DEMO, "--json", "--pdf"])
-        .arg(&pdf)
-        .output()
-        .unwrap();
+    let out = fillpace().args(["plan", DEMO, "--json", "--pdf"]).arg(&pdf).output().unwrap();
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     let plan = json_result(&out.stdout);
     let doc = lopdf::Document::load(&pdf).expect("valid PDF");
@@ -290,11 +233,7 @@ fn plan_pdf_has_every_section_stage_hash_and_caution() {
         assert!(flat.contains(title), "missing {title}");
     }
     for s in plan["stages"].as_array().unwrap() {
-        assert!(
-            flat.contains(s["start"].as_str().unwrap()),
-            "stage date {} missing",
-            s["start"]
-        );
+        assert!(flat.contains(s["start"].as_str().unwrap()), "stage date {} missing", s["start"]);
     }
     let sha = fillpace::report::sha256_hex(&std::fs::read(root(DEMO)).unwrap());
     assert!(flat.contains(&sha), "SHA-256 missing");

@@ -48,11 +48,7 @@ fn demo_plan_is_safe_and_not_needlessly_slow() {
         let remaining = p.max_height_m() - (s.height_after_m - s.thickness_m);
         if s.thickness_m + c.lift_increment_m <= c.lift_max_m.min(remaining) + 1e-9 {
             let thicker = replay_fs(&p, &done, s.start, s.thickness_m + c.lift_increment_m);
-            assert!(
-                thicker < target,
-                "lift {}: one increment thicker still safe ({thicker})",
-                s.number
-            );
+            assert!(thicker < target, "lift {}: one increment thicker still safe ({thicker})", s.number);
         }
         // Starting 7 days earlier would be unsafe unless the rest is the
         // minimum (or the week earlier has no working day before the start).
@@ -63,19 +59,12 @@ fn demo_plan_is_safe_and_not_needlessly_slow() {
             let earlier_start = cal.next_workable(cal.day_of(earlier)).map(|d| cal.date(d));
             if prev.rest_days > c.min_rest_days as i64 + 7 && earlier_start < Some(s.start) {
                 let fs_early = replay_fs(&p, &done, earlier, s.thickness_m);
-                assert!(
-                    fs_early < target,
-                    "lift {} could start a week earlier (FS {fs_early})",
-                    s.number
-                );
+                assert!(fs_early < target, "lift {} could start a week earlier (FS {fs_early})", s.number);
             }
         }
         done.push((s.start, s.thickness_m));
     }
-    assert!(
-        pl.stages.iter().any(|s| s.rest_days >= 14),
-        "rests of weeks to months expected"
-    );
+    assert!(pl.stages.iter().any(|s| s.rest_days >= 14), "rests of weeks to months expected");
 }
 
 #[test]
@@ -84,10 +73,7 @@ fn no_placement_on_weekends_or_holidays() {
     let pl = plan_of(&p);
     for s in &pl.stages {
         for d in [s.start, s.end] {
-            assert!(
-                p.construction.working_days.contains(&d.weekday()),
-                "{d} is not a working day"
-            );
+            assert!(p.construction.working_days.contains(&d.weekday()), "{d} is not a working day");
             assert!(p.construction.holidays.binary_search(&d).is_err(), "{d} is a holiday");
         }
     }
@@ -196,10 +182,5 @@ fn pore_pressure_jumps_with_each_lift_and_falls_in_rests_faster_with_drains() {
     let without = trace(&bare);
     // Before the last lift, Δu with drains is well below Δu without.
     let last = with.len() - 1;
-    assert!(
-        with[last].0 < 0.7 * without[last].0,
-        "{:?} vs {:?}",
-        with[last],
-        without[last]
-    );
+    assert!(with[last].0 < 0.7 * without[last].0, "{:?} vs {:?}", with[last], without[last]);
 }

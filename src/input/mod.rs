@@ -15,10 +15,7 @@ use std::path::Path;
 
 /// Read and validate a project file.
 pub fn load(path: &Path) -> Result<Project> {
-    let text = std::fs::read_to_string(path).map_err(|source| Error::Read {
-        path: path.to_path_buf(),
-        source,
-    })?;
+    let text = std::fs::read_to_string(path).map_err(|source| Error::Read { path: path.to_path_buf(), source })?;
     parse(&text, &path.display().to_string())
 }
 
@@ -38,11 +35,7 @@ pub fn parse(text: &str, file: &str) -> Result<Project> {
         Err(e) => {
             let path = error_path(e.path());
             let (key, message) = describe_serde(&path, &e.into_inner().to_string());
-            issues.push(InputIssue {
-                line: lines.line(&key),
-                key,
-                message,
-            });
+            issues.push(InputIssue { line: lines.line(&key), key, message });
         }
         Ok(raw) if issues.is_empty() => match validate::project(&raw, &lines) {
             Ok(p) => return Ok(p),
@@ -50,10 +43,7 @@ pub fn parse(text: &str, file: &str) -> Result<Project> {
         },
         Ok(_) => {}
     }
-    Err(Error::Input {
-        file: file.to_string(),
-        issues,
-    })
+    Err(Error::Input { file: file.to_string(), issues })
 }
 
 /// Key and sentence for a serde error at `path`: a missing field names the
@@ -61,15 +51,8 @@ pub fn parse(text: &str, file: &str) -> Result<Project> {
 fn describe_serde(path: &str, msg: &str) -> (String, String) {
     let first = msg.lines().next().unwrap_or(msg);
     if let Some(field) = first.strip_prefix("missing field `").and_then(|r| r.strip_suffix('`')) {
-        let key = if path.is_empty() {
-            field.to_string()
-        } else {
-            format!("{path}.{field}")
-        };
-        return (
-            key,
-            "is missing; this key is required (see the project-file reference in README.md)".into(),
-        );
+        let key = if path.is_empty() { field.to_string() } else { format!("{path}.{field}") };
+        return (key, "is missing; this key is required (see the project-file reference in README.md)".into());
     }
     (path.to_string(), format!("wrong type: {first}"))
 }
@@ -81,11 +64,7 @@ fn ignored_path(p: &serde_ignored::Path<'_>) -> String {
         P::Seq { parent, index } => format!("{}[{index}]", ignored_path(parent)),
         P::Map { parent, key } => {
             let head = ignored_path(parent);
-            if head.is_empty() {
-                key.clone()
-            } else {
-                format!("{head}.{key}")
-            }
+            if head.is_empty() { key.clone() } else { format!("{head}.{key}") }
         }
         P::Some { parent } | P::NewtypeStruct { parent } | P::NewtypeVariant { parent } => ignored_path(parent),
     }
@@ -162,11 +141,7 @@ fn unknown_key_issue(path: &str, lines: &LineMap) -> InputIssue {
         None if fields.is_empty() => "unknown key".to_string(),
         None => format!("unknown key; allowed here: {}", fields.join(", ")),
     };
-    InputIssue {
-        line: lines.line(path),
-        key: path.to_string(),
-        message,
-    }
+    InputIssue { line: lines.line(path), key: path.to_string(), message }
 }
 
 #[cfg(test)]

@@ -61,17 +61,11 @@ impl LineMap {
 }
 
 fn join(prefix: &str, key: &str) -> String {
-    if prefix.is_empty() {
-        key.to_string()
-    } else {
-        format!("{prefix}.{key}")
-    }
+    if prefix.is_empty() { key.to_string() } else { format!("{prefix}.{key}") }
 }
 
 fn line_starts(text: &str) -> Vec<usize> {
-    std::iter::once(0)
-        .chain(text.match_indices('\n').map(|(i, _)| i + 1))
-        .collect()
+    std::iter::once(0).chain(text.match_indices('\n').map(|(i, _)| i + 1)).collect()
 }
 
 /// 1-based line containing byte offset `pos`.

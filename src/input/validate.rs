@@ -25,11 +25,7 @@ struct Check<'a> {
 
 impl Check<'_> {
     fn bad(&mut self, key: &str, message: String) {
-        self.issues.push(InputIssue {
-            line: self.lines.line(key),
-            key: key.to_string(),
-            message,
-        });
+        self.issues.push(InputIssue { line: self.lines.line(key), key: key.to_string(), message });
     }
 
     /// Check that `v` is finite and within the range; returns it either way
@@ -41,10 +37,7 @@ impl Check<'_> {
             Low::Excl(b) => (v > b, format!("{b} < {short}")),
         };
         if !v.is_finite() {
-            self.bad(
-                key,
-                format!("= {v} is not a finite number; allowed: {low_text} ≤ {high}"),
-            );
+            self.bad(key, format!("= {v} is not a finite number; allowed: {low_text} ≤ {high}"));
         } else if !ok_low || v > high {
             self.bad(key, format!("= {v} is out of range; allowed: {low_text} ≤ {high}"));
         }
@@ -90,10 +83,7 @@ impl Check<'_> {
             Some(s) => match allowed.iter().find(|a| **a == s) {
                 Some(a) => a,
                 None => {
-                    self.bad(
-                        key,
-                        format!("= \"{s}\" is not allowed; use one of: {}", allowed.join(", ")),
-                    );
+                    self.bad(key, format!("= \"{s}\" is not allowed; use one of: {}", allowed.join(", ")));
                     allowed[0]
                 }
             },
@@ -103,10 +93,7 @@ impl Check<'_> {
 
 /// Validate the whole raw project.
 pub fn project(raw: &RawProject, lines: &LineMap) -> Result<Project, Vec<InputIssue>> {
-    let mut c = Check {
-        lines,
-        issues: Vec::new(),
-    };
+    let mut c = Check { lines, issues: Vec::new() };
     let info = info(&mut c, &raw.project);
     let ground = ground(&mut c, &raw.ground);
     let embankment = embankment(&mut c, &raw.embankment);
@@ -117,17 +104,7 @@ pub fn project(raw: &RawProject, lines: &LineMap) -> Result<Project, Vec<InputIs
     let analysis = analysis(&mut c, raw.analysis.as_ref());
     let sequence = sequence(&mut c, &raw.sequence, &info, &construction, &embankment);
     if c.issues.is_empty() {
-        Ok(Project {
-            info,
-            ground,
-            embankment,
-            drains,
-            construction,
-            criteria,
-            stability,
-            analysis,
-            sequence,
-        })
+        Ok(Project { info, ground, embankment, drains, construction, criteria, stability, analysis, sequence })
     } else {
         Err(c.issues)
     }
@@ -143,28 +120,14 @@ fn info(c: &mut Check, r: &RawInfo) -> ProjectInfo {
         location: r.location.clone().unwrap_or_default(),
         revision: r.revision.clone().unwrap_or_else(|| "-".into()),
         start_date: c.date("project.start_date", &r.start_date),
-        design_life_years: c.opt(
-            "project.design_life_years",
-            r.design_life_years,
-            20.0,
-            Low::Excl(0.0),
-            200.0,
-        ),
+        design_life_years: c.opt("project.design_life_years", r.design_life_years, 20.0, Low::Excl(0.0), 200.0),
     }
 }
 
 fn ground(c: &mut Check, r: &RawGround) -> Ground {
-    let base_drained = c.choice(
-        "ground.base_drainage",
-        r.base_drainage.as_deref(),
-        &["drained", "undrained"],
-    ) == "drained";
-    let gwd = c.num(
-        "ground.groundwater_depth_m",
-        r.groundwater_depth_m,
-        Low::Incl(0.0),
-        50.0,
-    );
+    let base_drained =
+        c.choice("ground.base_drainage", r.base_drainage.as_deref(), &["drained", "undrained"]) == "drained";
+    let gwd = c.num("ground.groundwater_depth_m", r.groundwater_depth_m, Low::Incl(0.0), 50.0);
     if r.layers.is_empty() {
         c.bad("ground.layers", "is empty; give at least one clay layer".into());
     }
@@ -176,27 +139,13 @@ fn ground(c: &mut Check, r: &RawGround) -> Ground {
         layers.push(layer);
     }
     if !r.layers.is_empty() && !layers.iter().any(|l| matches!(l.kind, LayerKind::Clay(_))) {
-        c.bad(
-            "ground.layers",
-            "has no layer of kind = \"clay\"; at least one is needed".into(),
-        );
+        c.bad("ground.layers", "has no layer of kind = \"clay\"; at least one is needed".into());
     }
-    let depth: f64 = layers
-        .iter()
-        .filter(|l| !matches!(l.kind, LayerKind::StiffBase))
-        .map(|l| l.thickness_m)
-        .sum();
+    let depth: f64 = layers.iter().filter(|l| !matches!(l.kind, LayerKind::StiffBase)).map(|l| l.thickness_m).sum();
     if depth > 80.0 {
-        c.bad(
-            "ground.layers",
-            format!("total thickness {depth} m above the base exceeds the supported 80 m"),
-        );
+        c.bad("ground.layers", format!("total thickness {depth} m above the base exceeds the supported 80 m"));
     }
-    Ground {
-        groundwater_depth_m: gwd,
-        layers,
-        base_drained,
-    }
+    Ground { groundwater_depth_m: gwd, layers, base_drained }
 }
 
 fn layer(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, last: bool) -> Layer {
@@ -209,27 +158,16 @@ fn layer(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, last: bool) -> Laye
         (Some(t), _) => c.num(&k("thickness_m"), t, Low::Excl(0.0), 60.0),
         (None, "stiff-base") => 0.0,
         (None, _) => {
-            c.bad(
-                &k("thickness_m"),
-                "is missing; every clay or sand layer needs a thickness".into(),
-            );
+            c.bad(&k("thickness_m"), "is missing; every clay or sand layer needs a thickness".into());
             1.0
         }
     };
     if kind_name == "stiff-base" && !last {
-        c.bad(
-            &k("kind"),
-            "= \"stiff-base\" is only allowed for the lowest layer".into(),
-        );
+        c.bad(&k("kind"), "= \"stiff-base\" is only allowed for the lowest layer".into());
     }
     let gamma = c.num(&k("unit_weight_kn_m3"), r.unit_weight_kn_m3, Low::Incl(10.0), 25.0);
-    let gamma_sat = c.opt(
-        &k("saturated_unit_weight_kn_m3"),
-        r.saturated_unit_weight_kn_m3,
-        gamma,
-        Low::Incl(10.0),
-        25.0,
-    );
+    let gamma_sat =
+        c.opt(&k("saturated_unit_weight_kn_m3"), r.saturated_unit_weight_kn_m3, gamma, Low::Incl(10.0), 25.0);
     if gamma_sat < gamma {
         c.bad(
             &k("saturated_unit_weight_kn_m3"),
@@ -244,13 +182,7 @@ fn layer(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, last: bool) -> Laye
         },
         _ => LayerKind::StiffBase,
     };
-    Layer {
-        name: r.name.clone(),
-        thickness_m,
-        unit_weight_kn_m3: gamma,
-        saturated_unit_weight_kn_m3: gamma_sat,
-        kind,
-    }
+    Layer { name: r.name.clone(), thickness_m, unit_weight_kn_m3: gamma, saturated_unit_weight_kn_m3: gamma_sat, kind }
 }
 
 fn clay(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, thickness_m: f64) -> Clay {
@@ -275,10 +207,7 @@ fn clay(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, thickness_m: f64) ->
     let cv = need(c, "cv_m2_per_year", r.cv_m2_per_year, Low::Excl(0.0), 1000.0, 1.0);
     let ch = match (r.ch_m2_per_year, r.ch_over_cv) {
         (Some(_), Some(_)) => {
-            c.bad(
-                &k("ch_over_cv"),
-                "give either ch_m2_per_year or ch_over_cv, not both".into(),
-            );
+            c.bad(&k("ch_over_cv"), "give either ch_m2_per_year or ch_over_cv, not both".into());
             cv
         }
         (Some(ch), None) => c.num(&k("ch_m2_per_year"), ch, Low::Excl(0.0), 1000.0),
@@ -332,15 +261,10 @@ fn strength(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, thickness_m: f64
                 );
             }
             let ratio = r.gain_ratio.unwrap_or_else(|| {
-                c.bad(
-                    &k("gain_ratio"),
-                    "is missing; strength = \"gain-ratio\" needs it".into(),
-                );
+                c.bad(&k("gain_ratio"), "is missing; strength = \"gain-ratio\" needs it".into());
                 0.2
             });
-            StrengthModel::GainRatio {
-                ratio: c.num(&k("gain_ratio"), ratio, Low::Incl(0.0), 0.6),
-            }
+            StrengthModel::GainRatio { ratio: c.num(&k("gain_ratio"), ratio, Low::Incl(0.0), 0.6) }
         }
     };
     Strength { model, su0_points }
@@ -361,10 +285,7 @@ fn su0_profile(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, thickness_m: 
         }
         (Some(points), None, None) => su0_points(c, &k("su0_points"), points, top_m, thickness_m),
         (Some(_), _, _) => {
-            c.bad(
-                &k("su0_points"),
-                "give either su0_points or su0_top_kpa/su0_bottom_kpa, not both".into(),
-            );
+            c.bad(&k("su0_points"), "give either su0_points or su0_top_kpa/su0_bottom_kpa, not both".into());
             Vec::new()
         }
     }
@@ -378,10 +299,7 @@ fn su0_points(c: &mut Check, key: &str, points: &[Vec<f64>], top_m: f64, thickne
     for (i, p) in points.iter().enumerate() {
         let pk = format!("{key}[{i}]");
         if p.len() != 2 {
-            c.bad(
-                &pk,
-                format!("has {} numbers; each point is [depth below ground m, su kPa]", p.len()),
-            );
+            c.bad(&pk, format!("has {} numbers; each point is [depth below ground m, su kPa]", p.len()));
             continue;
         }
         let z = c.num(&pk, p[0], Low::Incl(top_m), top_m + thickness_m);
@@ -389,10 +307,7 @@ fn su0_points(c: &mut Check, key: &str, points: &[Vec<f64>], top_m: f64, thickne
         if let Some(last) = out.last()
             && z <= last.0
         {
-            c.bad(
-                &pk,
-                format!("depth {z} m must be deeper than the previous point ({} m)", last.0),
-            );
+            c.bad(&pk, format!("depth {z} m must be deeper than the previous point ({} m)", last.0));
         }
         out.push((z, su));
     }
@@ -410,10 +325,7 @@ fn embankment(c: &mut Check, r: &RawEmbankment) -> Embankment {
         if let Some(prev) = berms.last().map(|b: &Berm| b.height_m)
             && height_m >= prev
         {
-            c.bad(
-                &format!("{bk}.height_m"),
-                format!("= {height_m} must be lower than the berm inside it ({prev} m)"),
-            );
+            c.bad(&format!("{bk}.height_m"), format!("= {height_m} must be lower than the berm inside it ({prev} m)"));
         }
         berms.push(Berm { width_m, height_m });
     }
@@ -421,21 +333,10 @@ fn embankment(c: &mut Check, r: &RawEmbankment) -> Embankment {
         design_height_m: h,
         crest_width_m: c.num(&k("crest_width_m"), r.crest_width_m, Low::Excl(0.0), 200.0),
         side_slope_h_per_v: c.num(&k("side_slope_h_per_v"), r.side_slope_h_per_v, Low::Excl(0.0), 20.0),
-        fill_unit_weight_kn_m3: c.num(
-            &k("fill_unit_weight_kn_m3"),
-            r.fill_unit_weight_kn_m3,
-            Low::Incl(12.0),
-            24.0,
-        ),
+        fill_unit_weight_kn_m3: c.num(&k("fill_unit_weight_kn_m3"), r.fill_unit_weight_kn_m3, Low::Incl(12.0), 24.0),
         fill_cohesion_kpa: c.opt(&k("fill_cohesion_kpa"), r.fill_cohesion_kpa, 0.0, Low::Incl(0.0), 100.0),
         fill_friction_deg: c.num(&k("fill_friction_deg"), r.fill_friction_deg, Low::Incl(0.0), 50.0),
-        surcharge_height_m: c.opt(
-            &k("surcharge_height_m"),
-            r.surcharge_height_m,
-            0.0,
-            Low::Incl(0.0),
-            10.0,
-        ),
+        surcharge_height_m: c.opt(&k("surcharge_height_m"), r.surcharge_height_m, 0.0, Low::Incl(0.0), 10.0),
         berms,
         reinforcement_kn_per_m: c.opt(
             &k("reinforcement_kn_per_m"),
@@ -460,28 +361,19 @@ fn drains(c: &mut Check, r: &RawDrains, ground: &Ground) -> Drains {
             let a = c.num(&k("band_width_mm"), a, Low::Excl(0.0), 500.0);
             let b = c.num(&k("band_thickness_mm"), b, Low::Excl(0.0), 50.0);
             if b > a {
-                c.bad(
-                    &k("band_thickness_mm"),
-                    format!("= {b} must not exceed band_width_mm ({a})"),
-                );
+                c.bad(&k("band_thickness_mm"), format!("= {b} must not exceed band_width_mm ({a})"));
             }
             // Equivalent diameter (a + b)/2 (Rixner et al. 1986).
             (a + b) / 2.0 / 1000.0
         }
         _ => {
-            c.bad(
-                &k("diameter_mm"),
-                "give either diameter_mm or both band_width_mm and band_thickness_mm".into(),
-            );
+            c.bad(&k("diameter_mm"), "give either diameter_mm or both band_width_mm and band_thickness_mm".into());
             0.05
         }
     };
     let band_mm = r.band_width_mm.unwrap_or(0.0).max(r.diameter_mm.unwrap_or(0.0));
     if spacing_m * 1000.0 <= band_mm {
-        c.bad(
-            &k("spacing_m"),
-            format!("= {spacing_m} m must be larger than the drain width ({band_mm} mm)"),
-        );
+        c.bad(&k("spacing_m"), format!("= {spacing_m} m must be larger than the drain width ({band_mm} mm)"));
     }
     let profile: f64 = ground.layers.iter().map(|l| l.thickness_m).sum();
     let smear_ratio = c.opt(&k("smear_ratio"), r.smear_ratio, 1.0, Low::Incl(1.0), 10.0);
@@ -510,18 +402,12 @@ fn construction(c: &mut Check, r: &RawConstruction) -> Construction {
     let lift_min_m = c.num(&k("lift_min_m"), r.lift_min_m, Low::Excl(0.0), 5.0);
     let lift_max_m = c.num(&k("lift_max_m"), r.lift_max_m, Low::Excl(0.0), 10.0);
     if lift_min_m > lift_max_m {
-        c.bad(
-            &k("lift_min_m"),
-            format!("= {lift_min_m} must not exceed lift_max_m ({lift_max_m})"),
-        );
+        c.bad(&k("lift_min_m"), format!("= {lift_min_m} must not exceed lift_max_m ({lift_max_m})"));
     }
     let inc = c.opt(&k("lift_increment_m"), r.lift_increment_m, 0.25, Low::Incl(0.05), 5.0);
     let rest = r.min_rest_days.unwrap_or(0);
     if !(0..=365).contains(&rest) {
-        c.bad(
-            &k("min_rest_days"),
-            format!("= {rest} is out of range; allowed: 0 ≤ min_rest_days ≤ 365"),
-        );
+        c.bad(&k("min_rest_days"), format!("= {rest} is out of range; allowed: 0 ≤ min_rest_days ≤ 365"));
     }
     let working_days = working_days(c, r.working_days.as_deref());
     Construction {
@@ -555,10 +441,7 @@ fn working_days(c: &mut Check, days: Option<&[String]>) -> Vec<Weekday> {
     for (i, d) in days.iter().enumerate() {
         match d.parse::<Weekday>() {
             Ok(w) if !out.contains(&w) => out.push(w),
-            Ok(_) => c.bad(
-                &format!("construction.working_days[{i}]"),
-                format!("= \"{d}\" is listed twice"),
-            ),
+            Ok(_) => c.bad(&format!("construction.working_days[{i}]"), format!("= \"{d}\" is listed twice")),
             Err(_) => c.bad(
                 &format!("construction.working_days[{i}]"),
                 format!("= \"{d}\" is not a weekday; use mon, tue, wed, thu, fri, sat, sun"),
@@ -566,10 +449,7 @@ fn working_days(c: &mut Check, days: Option<&[String]>) -> Vec<Weekday> {
         }
     }
     if out.is_empty() {
-        c.bad(
-            "construction.working_days",
-            "is empty; at least one working day is needed".into(),
-        );
+        c.bad("construction.working_days", "is empty; at least one working day is needed".into());
     }
     out
 }
@@ -598,10 +478,8 @@ fn holidays(c: &mut Check, items: &[String]) -> Vec<NaiveDate> {
         }
         ranges.push((a, b, i));
     }
-    let mut out: Vec<NaiveDate> = ranges
-        .iter()
-        .flat_map(|(a, b, _)| a.iter_days().take_while(move |d| d <= b))
-        .collect();
+    let mut out: Vec<NaiveDate> =
+        ranges.iter().flat_map(|(a, b, _)| a.iter_days().take_while(move |d| d <= b)).collect();
     out.sort();
     out.dedup();
     out
@@ -624,10 +502,7 @@ fn criteria(c: &mut Check, r: &RawCriteria) -> Criteria {
 fn stability(c: &mut Check, r: Option<&RawStability>) -> StabilityOptions {
     let slices = r.and_then(|s| s.slices).unwrap_or(40);
     if !(30..=400).contains(&slices) {
-        c.bad(
-            "stability.slices",
-            format!("= {slices} is out of range; allowed: 30 ≤ slices ≤ 400"),
-        );
+        c.bad("stability.slices", format!("= {slices} is out of range; allowed: 30 ≤ slices ≤ 400"));
     }
     StabilityOptions {
         fill_strength_factor: c.opt(
@@ -643,35 +518,16 @@ fn stability(c: &mut Check, r: Option<&RawStability>) -> StabilityOptions {
 }
 
 fn analysis(c: &mut Check, r: Option<&RawAnalysis>) -> AnalysisOptions {
-    let mode = match c.choice(
-        "analysis.mode",
-        r.and_then(|a| a.mode.as_deref()),
-        &["stress-dependent", "linear"],
-    ) {
+    let mode = match c.choice("analysis.mode", r.and_then(|a| a.mode.as_deref()), &["stress-dependent", "linear"]) {
         "linear" => ConsolidationMode::Linear,
         _ => ConsolidationMode::StressDependent,
     };
-    let rule = c.choice(
-        "analysis.pore_pressure",
-        r.and_then(|a| a.pore_pressure.as_deref()),
-        &["vertical", "skempton"],
-    );
+    let rule =
+        c.choice("analysis.pore_pressure", r.and_then(|a| a.pore_pressure.as_deref()), &["vertical", "skempton"]);
     let pore_pressure = if rule == "skempton" {
         PorePressureRule::Skempton {
-            a: c.opt(
-                "analysis.skempton_a",
-                r.and_then(|a| a.skempton_a),
-                0.5,
-                Low::Incl(-0.5),
-                1.5,
-            ),
-            b: c.opt(
-                "analysis.skempton_b",
-                r.and_then(|a| a.skempton_b),
-                1.0,
-                Low::Excl(0.0),
-                1.0,
-            ),
+            a: c.opt("analysis.skempton_a", r.and_then(|a| a.skempton_a), 0.5, Low::Incl(-0.5), 1.5),
+            b: c.opt("analysis.skempton_b", r.and_then(|a| a.skempton_b), 1.0, Low::Excl(0.0), 1.0),
         }
     } else {
         PorePressureRule::Vertical
@@ -693,13 +549,7 @@ fn analysis(c: &mut Check, r: Option<&RawAnalysis>) -> AnalysisOptions {
             Low::Incl(0.01),
             1.0,
         ),
-        rest_step_days: c.opt(
-            "analysis.rest_step_days",
-            r.and_then(|a| a.rest_step_days),
-            2.0,
-            Low::Incl(0.01),
-            10.0,
-        ),
+        rest_step_days: c.opt("analysis.rest_step_days", r.and_then(|a| a.rest_step_days), 2.0, Low::Incl(0.01), 10.0),
     }
 }
 
@@ -714,12 +564,7 @@ fn sequence(
     let mut total = 0.0;
     for (i, l) in lifts.iter().enumerate() {
         let key = format!("sequence[{i}]");
-        let t = c.num(
-            &format!("{key}.thickness_m"),
-            l.thickness_m,
-            Low::Excl(0.0),
-            k.lift_max_m,
-        );
+        let t = c.num(&format!("{key}.thickness_m"), l.thickness_m, Low::Excl(0.0), k.lift_max_m);
         let start = c.date(&format!("{key}.start_date"), &l.start_date);
         if start < info.start_date {
             c.bad(
@@ -744,10 +589,7 @@ fn sequence(
     }
     let limit = e.design_height_m + e.surcharge_height_m;
     if total > limit + 1e-9 {
-        c.bad(
-            "sequence",
-            format!("lifts add up to {total:.2} m, above design height plus surcharge ({limit:.2} m)"),
-        );
+        c.bad("sequence", format!("lifts add up to {total:.2} m, above design height plus surcharge ({limit:.2} m)"));
     }
     out
 }

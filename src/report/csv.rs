@@ -8,11 +8,7 @@ use crate::schedule::assess::Assessment;
 
 /// Quote a field if it needs it.
 fn field(s: &str) -> String {
-    if s.contains([',', '"', '\n']) {
-        format!("\"{}\"", s.replace('"', "\"\""))
-    } else {
-        s.to_string()
-    }
+    if s.contains([',', '"', '\n']) { format!("\"{}\"", s.replace('"', "\"\"")) } else { s.to_string() }
 }
 
 fn opt<T: std::fmt::Display>(v: Option<T>) -> String {
@@ -31,7 +27,7 @@ impl Exporter for Csv {
             let kind = match s.kind {
                 crate::schedule::planner::StageKind::Lift => "lift",
                 crate::schedule::planner::StageKind::SurchargeRemoval => "surcharge-removal",
-            };
+            }; // CSV keeps the JSON spelling of the kind
             out.push_str(&format!(
                 "{},{},{},{},{:.3},{:.3},{:.3},{:.3},{},{:.2},{:.2},{},{},{},{:.2},{:.4},{:.4}\n",
                 s.number,
@@ -60,17 +56,10 @@ impl Exporter for Csv {
 /// The assessment's daily series as CSV: one column per (column, depth)
 /// excess pore pressure and per depth centreline strength.
 pub fn series(a: &Assessment) -> String {
-    let mut head = vec![
-        "date",
-        "height_m",
-        "placed_m",
-        "settlement_centre_m",
-        "degree_centre",
-        "fs",
-    ]
-    .into_iter()
-    .map(String::from)
-    .collect::<Vec<_>>();
+    let mut head = vec!["date", "height_m", "placed_m", "settlement_centre_m", "degree_centre", "fs"]
+        .into_iter()
+        .map(String::from)
+        .collect::<Vec<_>>();
     for c in &a.columns {
         for z in &a.depths_m {
             head.push(format!("u_excess_kpa[{} z={z:.2}]", c.name));

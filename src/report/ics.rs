@@ -24,40 +24,23 @@ impl Exporter for Ics {
         let stamp = format!("{}T000000Z", p.info.start_date.format("%Y%m%d"));
         for s in &r.plan.stages {
             let what = match s.kind {
-                StageKind::Lift => format!(
-                    "Lift {}: place {:.2} m (crest to {:.2} m)",
-                    s.number, s.thickness_m, s.height_after_m
-                ),
+                StageKind::Lift => {
+                    format!("Lift {}: place {:.2} m (crest to {:.2} m)", s.number, s.thickness_m, s.height_after_m)
+                }
                 StageKind::SurchargeRemoval => format!("Stage {}: remove {:.2} m surcharge", s.number, -s.thickness_m),
             };
             let desc = format!(
                 "{} — predicted FS at end {:.2}. Prediction only: field monitoring governs.",
                 p.info.title, s.fs_end
             );
-            event(
-                &mut lines,
-                &format!("{uid_base}-stage{}@fillpace", s.number),
-                &stamp,
-                s.start,
-                s.end,
-                &what,
-                &desc,
-            );
+            event(&mut lines, &format!("{uid_base}-stage{}@fillpace", s.number), &stamp, s.start, s.end, &what, &desc);
             if let Some(rel) = s.release {
                 let hold = format!("HOLD POINT before stage {}: release check", s.number + 1);
                 let desc = format!(
                     "Check piezometer, settlement and lateral-movement readings; the next stage may start only when released by the engineer. Predicted FS now {:.2}.",
                     s.fs_release.unwrap_or(f64::NAN)
                 );
-                event(
-                    &mut lines,
-                    &format!("{uid_base}-hold{}@fillpace", s.number),
-                    &stamp,
-                    rel,
-                    rel,
-                    &hold,
-                    &desc,
-                );
+                event(&mut lines, &format!("{uid_base}-hold{}@fillpace", s.number), &stamp, rel, rel, &hold, &desc);
             }
         }
         lines.push("END:VCALENDAR".into());
@@ -83,10 +66,7 @@ fn event(
     lines.push(format!("DTSTAMP:{stamp}"));
     lines.push(format!("DTSTART;VALUE=DATE:{}", first.format("%Y%m%d")));
     // DTEND of an all-day event is exclusive (RFC 5545 §3.6.1).
-    lines.push(format!(
-        "DTEND;VALUE=DATE:{}",
-        (last + Duration::days(1)).format("%Y%m%d")
-    ));
+    lines.push(format!("DTEND;VALUE=DATE:{}", (last + Duration::days(1)).format("%Y%m%d")));
     lines.push(format!("SUMMARY:{}", escape(summary)));
     lines.push(format!("DESCRIPTION:{}", escape(desc)));
     lines.push("END:VEVENT".into());
@@ -94,10 +74,7 @@ fn event(
 
 /// Escape text values (RFC 5545 §3.3.11).
 fn escape(s: &str) -> String {
-    s.replace('\\', "\\\\")
-        .replace(';', "\\;")
-        .replace(',', "\\,")
-        .replace('\n', "\\n")
+    s.replace('\\', "\\\\").replace(';', "\\;").replace(',', "\\,").replace('\n', "\\n")
 }
 
 /// Fold a content line at 75 octets with CRLF + space (RFC 5545 §3.1).
@@ -118,10 +95,7 @@ fn fold(line: &str) -> String {
 }
 
 fn slug(s: &str) -> String {
-    let t: String = s
-        .chars()
-        .map(|c| if c.is_ascii_alphanumeric() { c } else { '-' })
-        .collect();
+    let t: String = s.chars().map(|c| if c.is_ascii_alphanumeric() { c } else { '-' }).collect();
     if t.is_empty() { "fillpace".into() } else { t }
 }
 

@@ -29,11 +29,7 @@ pub fn envelope<T: Serialize>(command: &str, project: &Project, source: &str, re
     let e = Envelope {
         fillpace: env!("CARGO_PKG_VERSION"),
         command,
-        project: Head {
-            title: &project.info.title,
-            reference: &project.info.reference,
-            source,
-        },
+        project: Head { title: &project.info.title, reference: &project.info.reference, source },
         result,
         cautions: super::cautions(),
     };

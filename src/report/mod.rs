@@ -21,13 +21,7 @@ pub fn cautions() -> Vec<String> {
 
 fn parse_cautions(text: &str) -> Vec<String> {
     text.split("\n\n")
-        .map(|p| {
-            p.lines()
-                .filter(|l| !l.trim_start().starts_with('#'))
-                .map(str::trim)
-                .collect::<Vec<_>>()
-                .join(" ")
-        })
+        .map(|p| p.lines().filter(|l| !l.trim_start().starts_with('#')).map(str::trim).collect::<Vec<_>>().join(" "))
         .filter(|p| !p.is_empty())
         .collect()
 }
@@ -42,6 +36,47 @@ pub struct PlanReport<'a> {
     pub source_sha256: String,
 }
 
+/// Column headings of the stage table shared by the terminal and PDF.
+pub const STAGE_COLUMNS: [&str; 15] = [
+    "#",
+    "stage",
+    "start",
+    "end",
+    "lift m",
+    "crest m",
+    "placed m",
+    "FS end",
+    "rest d",
+    "release (hold point)",
+    "FS rel.",
+    "peak Δu kPa",
+    "U centre",
+    "settl. m",
+    "mechanism / su",
+];
+
+/// One stage as the cells of `STAGE_COLUMNS`.
+pub fn stage_cells(s: &crate::schedule::planner::Stage) -> Vec<String> {
+    let f = |v: f64, d: usize| format!("{v:.d$}");
+    vec![
+        s.number.to_string(),
+        s.kind.label().into(),
+        s.start.format("%Y-%m-%d %a").to_string(),
+        s.end.format("%Y-%m-%d %a").to_string(),
+        f(s.thickness_m, 2),
+        f(s.height_after_m, 2),
+        f(s.placed_after_m, 2),
+        f(s.fs_end, 2),
+        if s.release.is_some() { s.rest_days.to_string() } else { "-".into() },
+        s.release.map_or("-".into(), |d| d.format("%Y-%m-%d %a").to_string()),
+        s.fs_release.map_or("-".into(), |x| f(x, 2)),
+        f(s.peak_excess_kpa, 1),
+        format!("{:.0}%", 100.0 * s.degree_centre),
+        f(s.settlement_centre_m, 3),
+        format!("{} / {:.1} kPa", s.mechanism, s.su_governing_kpa),
+    ]
+}
+
 /// SHA-256 of bytes as lowercase hex.
 pub fn sha256_hex(bytes: &[u8]) -> String {
     use sha2::Digest;
@@ -50,9 +85,7 @@ pub fn sha256_hex(bytes: &[u8]) -> String {
 
 /// Today's date (UTC) from the system clock, for title blocks.
 pub fn today() -> chrono::NaiveDate {
-    let secs = std::time::SystemTime::now()
-        .duration_since(std::time::UNIX_EPOCH)
-        .map_or(0, |d| d.as_secs());
+    let secs = std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map_or(0, |d| d.as_secs());
     chrono::DateTime::from_timestamp(secs as i64, 0).map_or(chrono::NaiveDate::MIN, |t| t.date_naive())
 }
 
@@ -67,22 +100,13 @@ mod tests {
     #[test]
     fn sha256_of_abc() {
         // FIPS 180-2 test vector: SHA-256("abc").
-        assert_eq!(
-            super::sha256_hex(b"abc"),
-            "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad"
-        );
+        assert_eq!(super::sha256_hex(b"abc"), "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
     }
 
     #[test]
     fn cautions_cover_the_required_points() {
         let c = super::cautions().join(" ");
-        for needle in [
-            "uncertain",
-            "monitoring governs",
-            "local codes",
-            "licensed geotechnical engineer",
-            "distress",
-        ] {
+        for needle in ["uncertain", "monitoring governs", "local codes", "licensed geotechnical engineer", "distress"] {
             assert!(c.contains(needle), "missing {needle}");
         }
         assert!(!c.contains('#'));

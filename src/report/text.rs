@@ -5,7 +5,6 @@ use super::PlanReport;
 use crate::ground::Summary;
 use crate::model::{ConsolidationMode, Project};
 use crate::schedule::assess::Assessment;
-use crate::schedule::planner::StageKind;
 use crate::stability::CircleResult;
 use crate::stability::search::SearchResult;
 
@@ -17,10 +16,7 @@ struct Table {
 
 impl Table {
     fn new(head: &[&str]) -> Table {
-        Table {
-            head: head.iter().map(|s| s.to_string()).collect(),
-            rows: Vec::new(),
-        }
+        Table { head: head.iter().map(|s| s.to_string()).collect(), rows: Vec::new() }
     }
 
     fn row(&mut self, cells: Vec<String>) {
@@ -45,11 +41,7 @@ impl Table {
                 .enumerate()
                 .map(|(i, c)| {
                     let pad = widths[i].saturating_sub(c.chars().count());
-                    if looks_numeric(c) {
-                        format!("{}{c}", " ".repeat(pad))
-                    } else {
-                        format!("{c}{}", " ".repeat(pad))
-                    }
+                    if looks_numeric(c) { format!("{}{c}", " ".repeat(pad)) } else { format!("{c}{}", " ".repeat(pad)) }
                 })
                 .collect();
             out.push_str(parts.join("  ").trim_end());
@@ -101,10 +93,7 @@ fn wrap(text: &str, width: usize, indent: &str) -> String {
 }
 
 fn header(p: &Project, what: &str) -> String {
-    format!(
-        "{what}: {}\n{} | {} | rev {}\n\n",
-        p.info.title, p.info.reference, p.info.location, p.info.revision
-    )
+    format!("{what}: {}\n{} | {} | rev {}\n\n", p.info.title, p.info.reference, p.info.location, p.info.revision)
 }
 
 /// `fillpace check`.
@@ -132,11 +121,7 @@ pub fn check(p: &Project, s: &Summary, source: &str) -> String {
             l.name.clone(),
             l.kind.into(),
             f(l.top_m, 2),
-            if l.kind == "stiff-base" {
-                "-".into()
-            } else {
-                f(l.thickness_m, 2)
-            },
+            if l.kind == "stiff-base" { "-".into() } else { f(l.thickness_m, 2) },
             f(l.unit_weight_kn_m3, 1),
             f(l.saturated_unit_weight_kn_m3, 1),
             o(l.compression_ratio, 3),
@@ -146,16 +131,7 @@ pub fn check(p: &Project, s: &Summary, source: &str) -> String {
     }
     out.push_str(&t.render());
     out.push_str("\nInitial state\n");
-    let mut t = Table::new(&[
-        "z m",
-        "layer",
-        "σv0 kPa",
-        "u0 kPa",
-        "σ'v0 kPa",
-        "σ'p0 kPa",
-        "OCR",
-        "su0 kPa",
-    ]);
+    let mut t = Table::new(&["z m", "layer", "σv0 kPa", "u0 kPa", "σ'v0 kPa", "σ'p0 kPa", "OCR", "su0 kPa"]);
     for n in &s.profile {
         t.row(vec![
             f(n.z_m, 2),
@@ -232,11 +208,7 @@ pub fn assess(p: &Project, a: &Assessment) -> String {
     let with_fs: Vec<_> = a.series.iter().filter(|r| r.fs.is_some()).collect();
     let stride = with_fs.len().div_ceil(40).max(1);
     for r in with_fs.iter().step_by(stride) {
-        let mut row = vec![
-            r.date.to_string(),
-            f(r.height_m, 2),
-            r.fs.map_or("-".into(), |x| f(x, 2)),
-        ];
+        let mut row = vec![r.date.to_string(), f(r.height_m, 2), r.fs.map_or("-".into(), |x| f(x, 2))];
         row.extend(r.excess_kpa[0].iter().map(|u| f(*u, 1)));
         row.extend(r.su_centre_kpa.iter().map(|s| f(*s, 1)));
         t.row(row);
@@ -272,10 +244,7 @@ pub fn stability_search(p: &Project, height: f64, when: &str, placed: f64, s: &S
     out.push_str(&format!(
         "Crest {height:.2} m above original ground (fill placed {placed:.2} m), ground state {when}.\n"
     ));
-    out.push_str(&format!(
-        "Critical circle: FS = {:.3} (target {:.2})\n",
-        s.critical.fs, p.criteria.fs_construction
-    ));
+    out.push_str(&format!("Critical circle: FS = {:.3} (target {:.2})\n", s.critical.fs, p.criteria.fs_construction));
     out.push_str(&circle_lines(&s.critical));
     out.push_str("\nBest circle by depth band (circles tangent within the band)\n");
     let mut t = Table::new(&["band", "FS", "lowest point in", "depth m", "xc m", "yc m", "R m"]);
@@ -303,9 +272,7 @@ pub fn stability_search(p: &Project, height: f64, when: &str, placed: f64, s: &S
 /// `fillpace stability --circle`.
 pub fn stability_circle(p: &Project, height: f64, when: &str, c: &CircleResult) -> String {
     let mut out = header(p, "Stability of one circle");
-    out.push_str(&format!(
-        "Crest {height:.2} m above original ground, ground state {when}.\n"
-    ));
+    out.push_str(&format!("Crest {height:.2} m above original ground, ground state {when}.\n"));
     out.push_str(&circle_lines(c));
     out.push_str(&cautions_block());
     out
@@ -319,50 +286,9 @@ pub fn plan(r: &PlanReport) -> String {
         "Planned from {}. Design height {:.2} m, surcharge {:.2} m, FS target {:.2} at the end of every lift.\nConsolidation mode: {}.\n\n",
         r.source, p.embankment.design_height_m, p.embankment.surcharge_height_m, p.criteria.fs_construction, mode_text(p.analysis.mode)
     ));
-    let mut t = Table::new(&[
-        "#",
-        "stage",
-        "start",
-        "end",
-        "thick m",
-        "crest m",
-        "placed m",
-        "FS end",
-        "mechanism",
-        "su kPa",
-        "rest d",
-        "release",
-        "FS rel",
-        "peak Δu",
-        "U",
-        "settl. m",
-    ]);
+    let mut t = Table::new(&super::STAGE_COLUMNS);
     for s in &pl.stages {
-        t.row(vec![
-            s.number.to_string(),
-            match s.kind {
-                StageKind::Lift => "lift".into(),
-                StageKind::SurchargeRemoval => "remove surcharge".into(),
-            },
-            s.start.format("%Y-%m-%d %a").to_string(),
-            s.end.format("%Y-%m-%d %a").to_string(),
-            f(s.thickness_m, 2),
-            f(s.height_after_m, 2),
-            f(s.placed_after_m, 2),
-            f(s.fs_end, 2),
-            s.mechanism.clone(),
-            f(s.su_governing_kpa, 1),
-            if s.release.is_some() {
-                s.rest_days.to_string()
-            } else {
-                "-".into()
-            },
-            s.release.map_or("-".into(), |d| d.format("%Y-%m-%d %a").to_string()),
-            s.fs_release.map_or("-".into(), |x| f(x, 2)),
-            f(s.peak_excess_kpa, 1),
-            format!("{:.0}%", 100.0 * s.degree_centre),
-            f(s.settlement_centre_m, 3),
-        ]);
+        t.row(super::stage_cells(s));
     }
     out.push_str(&t.render());
     out.push_str(&format!(
@@ -383,10 +309,7 @@ pub fn plan(r: &PlanReport) -> String {
         "Fill per metre run: {:.1} m³ design profile + {:.1} m³ settlement make-up + {:.1} m³ surcharge (removed).\n",
         pl.volume_design_m3_per_m, pl.volume_makeup_m3_per_m, pl.volume_surcharge_m3_per_m
     ));
-    out.push_str(&format!(
-        "Effort: {} slip-circle searches.\n",
-        pl.effort.stability_searches
-    ));
+    out.push_str(&format!("Effort: {} slip-circle searches.\n", pl.effort.stability_searches));
     for w in &pl.warnings {
         out.push_str(&format!("warning: {w}\n"));
     }

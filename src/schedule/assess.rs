@@ -184,9 +184,7 @@ fn recorder<'a>(
             placed_m: st.placed_m,
             settlement_centre_m: st.settlement_centre_m,
             degree_centre: e.degree_centre(st),
-            excess_kpa: (0..e.columns.len())
-                .map(|c| depths.iter().map(|z| e.excess_at(st, c, *z)).collect())
-                .collect(),
+            excess_kpa: (0..e.columns.len()).map(|c| depths.iter().map(|z| e.excess_at(st, c, *z)).collect()).collect(),
             su_centre_kpa: depths.iter().map(|z| e.su_at(st, 0, *z)).collect(),
             fs,
         });

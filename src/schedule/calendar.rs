@@ -42,19 +42,13 @@ impl Calendar {
 
     /// Whether fill may be placed on day `k`.
     pub fn workable(&self, k: i64) -> bool {
-        usize::try_from(k)
-            .ok()
-            .and_then(|k| self.workable.get(k).copied())
-            .unwrap_or(false)
+        usize::try_from(k).ok().and_then(|k| self.workable.get(k).copied()).unwrap_or(false)
     }
 
     /// First workable day at or after day `k`, if any within the horizon.
     pub fn next_workable(&self, k: i64) -> Option<i64> {
         let from = usize::try_from(k.max(0)).ok()?;
-        self.workable[from.min(self.workable.len())..]
-            .iter()
-            .position(|w| *w)
-            .map(|p| (from + p) as i64)
+        self.workable[from.min(self.workable.len())..].iter().position(|w| *w).map(|p| (from + p) as i64)
     }
 
     /// Calendar date of day `k`.

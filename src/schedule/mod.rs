@@ -80,9 +80,7 @@ impl<'e, 'p> Runner<'e, 'p> {
             rec(st);
             day += 1;
             if day > self.calendar.horizon() {
-                return Err(Error::Computation(
-                    "placement ran past the 40-year calendar horizon".into(),
-                ));
+                return Err(Error::Computation("placement ran past the 40-year calendar horizon".into()));
             }
         }
         st.height_m = target;

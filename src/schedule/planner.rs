@@ -28,6 +28,16 @@ pub enum StageKind {
     SurchargeRemoval,
 }
 
+impl StageKind {
+    /// Short label for tables.
+    pub fn label(self) -> &'static str {
+        match self {
+            StageKind::Lift => "lift",
+            StageKind::SurchargeRemoval => "remove surcharge",
+        }
+    }
+}
+
 /// One stage of the timetable.
 #[derive(Debug, Clone, Serialize)]
 pub struct Stage {
@@ -103,14 +113,17 @@ pub struct Plan {
 
 /// Plan the project from its initial state.
 pub fn plan(r: &Runner) -> Result<Plan> {
+    plan_with_progress(r, &mut |_| {})
+}
+
+/// `plan`, reporting progress as the fraction of the final height reached
+/// (0–1) after each stage.
+pub fn plan_with_progress(r: &Runner, progress: &mut dyn FnMut(f64)) -> Result<Plan> {
     let p = r.engine.project;
     let mut st = r.engine.initial_state();
     let mut effort = Effort::default();
     let mut stages: Vec<Stage> = Vec::new();
-    let mut fig = Figures {
-        probes: record::probes(r.engine),
-        ..Figures::default()
-    };
+    let mut fig = Figures { probes: record::probes(r.engine), ..Figures::default() };
     fig.profile(r.engine, &st, "start".into());
     let top = p.max_height_m();
     let mut earliest = 0;
@@ -121,6 +134,7 @@ pub fn plan(r: &Runner) -> Result<Plan> {
         let crit = r.stability(&st, &mut effort)?;
         stages.push(stage(r, stages.len() + 1, StageKind::Lift, a, b, lift, &st, crit));
         earliest = b + 1 + p.construction.min_rest_days as i64;
+        progress(st.height_m / top);
     }
     let mut warnings = Vec::new();
     if p.embankment.surcharge_height_m > 0.0 {
@@ -129,22 +143,9 @@ pub fn plan(r: &Runner) -> Result<Plan> {
         let change = -p.embankment.surcharge_height_m;
         let (a, b) = r.place(&mut st, change, &mut |s| fig.record(r.engine, &r.calendar, s))?;
         let crit = r.stability(&st, &mut effort)?;
-        stages.push(stage(
-            r,
-            stages.len() + 1,
-            StageKind::SurchargeRemoval,
-            a,
-            b,
-            change,
-            &st,
-            crit,
-        ));
+        stages.push(stage(r, stages.len() + 1, StageKind::SurchargeRemoval, a, b, change, &st, crit));
     }
-    fig.profile(
-        r.engine,
-        &st,
-        format!("end {}", stages.last().map_or(p.info.start_date, |s| s.end)),
-    );
+    fig.profile(r.engine, &st, format!("end {}", stages.last().map_or(p.info.start_date, |s| s.end)));
     fig.governing = governing(r, &stages, &mut effort)?;
     totals(r, stages, &st, effort, warnings, fig)
 }
@@ -164,11 +165,7 @@ fn advance_to(
     }
     r.rest_until(st, start, &mut |s| fig.record(r.engine, &r.calendar, s));
     if let Some(prev) = stages.last() {
-        fig.profile(
-            r.engine,
-            st,
-            format!("release after stage {} ({})", prev.number, r.calendar.date(start)),
-        );
+        fig.profile(r.engine, st, format!("release after stage {} ({})", prev.number, r.calendar.date(start)));
     }
     Ok(())
 }
@@ -176,10 +173,7 @@ fn advance_to(
 /// The section at the lift with the lowest FS, rebuilt by replaying the
 /// timetable up to the end of that lift.
 fn governing(r: &Runner, stages: &[Stage], effort: &mut Effort) -> Result<Option<Governing>> {
-    let Some(g) = stages
-        .iter()
-        .filter(|s| s.kind == StageKind::Lift)
-        .min_by(|a, b| a.fs_end.total_cmp(&b.fs_end))
+    let Some(g) = stages.iter().filter(|s| s.kind == StageKind::Lift).min_by(|a, b| a.fs_end.total_cmp(&b.fs_end))
     else {
         return Ok(None);
     };
@@ -189,12 +183,7 @@ fn governing(r: &Runner, stages: &[Stage], effort: &mut Effort) -> Result<Option
         r.place(&mut st, s.thickness_m, &mut |_| {})?;
     }
     let critical = r.stability(&st, effort)?.critical;
-    Ok(Some(Governing {
-        stage: g.number,
-        height_m: st.height_m,
-        field: r.engine.field(&st),
-        critical,
-    }))
+    Ok(Some(Governing { stage: g.number, height_m: st.height_m, field: r.engine.field(&st), critical }))
 }
 
 /// The next lift from state `st`: its start day (on or after `earliest`)
@@ -260,10 +249,7 @@ fn find_next(r: &Runner, st: &State, earliest: i64, cands: &[f64], effort: &mut 
     if safe(0, start, effort)? {
         return Ok((start, cands[0]));
     }
-    Ok((
-        start,
-        cands[thickest_safe(0, last - 1, |i, e| safe(i, start, e), effort)?],
-    ))
+    Ok((start, cands[thickest_safe(0, last - 1, |i, e| safe(i, start, e), effort)?]))
 }
 
 /// Bisection over candidate indices: `unsafe_i` is known unsafe and
@@ -473,10 +459,8 @@ fn totals(
         .unwrap_or((f64::INFINITY, 0));
     let fs_finish = r.stability(st, &mut effort)?.critical.fs;
     if fs_finish < p.criteria.fs_service {
-        warnings.push(format!(
-            "FS at the finish {fs_finish:.3} is below the service target {:.2}",
-            p.criteria.fs_service
-        ));
+        warnings
+            .push(format!("FS at the finish {fs_finish:.3} is below the service target {:.2}", p.criteria.fs_service));
     }
     let s_fin = st.settlement_centre_m;
     let area = |t: f64| crate::load::area(&crate::load::profile(e, t));

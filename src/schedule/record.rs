@@ -67,17 +67,9 @@ pub fn probes(e: &Engine) -> Vec<Probe> {
     let toe = e.column_info().iter().position(|c| c.name == "toe").unwrap_or(0);
     let mut out: Vec<Probe> = [0.25, 0.5, 0.75]
         .iter()
-        .map(|f| Probe {
-            label: format!("centreline, z = {:.1} m", t + f * h),
-            column: 0,
-            z_m: t + f * h,
-        })
+        .map(|f| Probe { label: format!("centreline, z = {:.1} m", t + f * h), column: 0, z_m: t + f * h })
         .collect();
-    out.push(Probe {
-        label: format!("toe, z = {:.1} m", t + 0.5 * h),
-        column: toe,
-        z_m: t + 0.5 * h,
-    });
+    out.push(Probe { label: format!("toe, z = {:.1} m", t + 0.5 * h), column: toe, z_m: t + 0.5 * h });
     out
 }
 
@@ -93,12 +85,7 @@ impl Figures {
             return;
         }
         let excess_kpa = self.probes.iter().map(|p| e.excess_at(st, p.column, p.z_m)).collect();
-        self.days.push(Day {
-            date,
-            height_m: st.height_m,
-            settlement_centre_m: st.settlement_centre_m,
-            excess_kpa,
-        });
+        self.days.push(Day { date, height_m: st.height_m, settlement_centre_m: st.settlement_centre_m, excess_kpa });
     }
 
     /// Add the su profile under the centreline now.

@@ -202,12 +202,8 @@ impl Section<'_> {
     /// and pushes on it with the Rankine active thrust ½ Ka γ h² (c' = 0)
     /// at a third of the crack height.
     fn slice_forces(&self, c: Circle, slices: &[(f64, f64)]) -> Forces {
-        let mut f = Forces {
-            resist_ordinary: 0.0,
-            drive_moment: 0.0,
-            slices: Vec::with_capacity(slices.len()),
-            thickest: 0.0,
-        };
+        let mut f =
+            Forces { resist_ordinary: 0.0, drive_moment: 0.0, slices: Vec::with_capacity(slices.len()), thickest: 0.0 };
         let below_ground = c.yc_m - c.r_m < self.ground_y(c.xc_m);
         let mut cracked = self.crack && below_ground;
         for &(xa, xb) in slices {
@@ -235,15 +231,7 @@ impl Section<'_> {
             let l = b / cos_a;
             f.resist_ordinary += coh * l + ((w * cos_a - u * l).max(0.0)) * tan_phi;
             f.drive_moment += w * sin_a * c.r_m;
-            f.slices.push(SliceData {
-                b,
-                w,
-                sin_a,
-                cos_a,
-                coh,
-                tan_phi,
-                u,
-            });
+            f.slices.push(SliceData { b, w, sin_a, cos_a, coh, tan_phi, u });
         }
         f
     }

@@ -91,10 +91,7 @@ pub fn search(s: &Section) -> Result<SearchResult> {
                 scope.spawn(move || grid.scan(s, bands, (t * NX / threads)..((t + 1) * NX / threads)))
             })
             .collect();
-        handles
-            .into_iter()
-            .map(|h| h.join().expect("search thread panicked"))
-            .collect()
+        handles.into_iter().map(|h| h.join().expect("search thread panicked")).collect()
     });
     let mut count = Counter { tried: 0, rejected: 0 };
     let mut best: Vec<Vec<Candidate>> = vec![Vec::new(); bands.len()];
@@ -116,18 +113,13 @@ pub fn search(s: &Section) -> Result<SearchResult> {
             .map(|(b, band)| {
                 scope.spawn(move || {
                     let mut c = Counter { tried: 0, rejected: 0 };
-                    let r = refine(s, &mut c, b, band, step0).map(|circle| BandResult {
-                        band: band.name.clone(),
-                        circle,
-                    });
+                    let r =
+                        refine(s, &mut c, b, band, step0).map(|circle| BandResult { band: band.name.clone(), circle });
                     (r, c)
                 })
             })
             .collect();
-        handles
-            .into_iter()
-            .map(|h| h.join().expect("refinement thread panicked"))
-            .collect()
+        handles.into_iter().map(|h| h.join().expect("refinement thread panicked")).collect()
     });
     let mut refined = Vec::new();
     for (r, c) in refined_counted {
@@ -141,12 +133,7 @@ pub fn search(s: &Section) -> Result<SearchResult> {
         .min_by(|a, b| a.fs.total_cmp(&b.fs))
         .cloned()
         .ok_or_else(|| Error::Computation("no trial slip circle could be analysed on this section".into()))?;
-    Ok(SearchResult {
-        critical,
-        bands: refined,
-        circles_tried: count.tried,
-        circles_rejected: count.rejected,
-    })
+    Ok(SearchResult { critical, bands: refined, circles_tried: count.tried, circles_rejected: count.rejected })
 }
 
 fn better(a: &Candidate, b: &Candidate) -> bool {
@@ -189,14 +176,7 @@ impl Grid {
             for j in 0..NY {
                 let yc = self.y0 + (self.y1 - self.y0) * j as f64 / (NY - 1) as f64;
                 for (k, &yt) in self.tangents.iter().enumerate() {
-                    let Some(r) = count.eval(
-                        s,
-                        Circle {
-                            xc_m: xc,
-                            yc_m: yc,
-                            r_m: yc - yt,
-                        },
-                    ) else {
+                    let Some(r) = count.eval(s, Circle { xc_m: xc, yc_m: yc, r_m: yc - yt }) else {
                         continue;
                     };
                     let cand = (r, yt, (i * NY + j) * self.tangents.len() + k, k);
@@ -216,11 +196,7 @@ impl Grid {
 fn bands(s: &Section) -> Vec<Band> {
     let mut out = Vec::new();
     if s.crest_m() > 0.2 && (s.fill_c > 0.0 || s.fill_tan_phi > 0.0) {
-        out.push(Band {
-            name: "fill".into(),
-            lo: 0.0,
-            hi: s.crest_m(),
-        });
+        out.push(Band { name: "fill".into(), lo: 0.0, hi: s.crest_m() });
     }
     let x = s.toe_m();
     for l in &s.layers {
@@ -279,11 +255,7 @@ fn pattern(
             if yc <= t + 0.1 {
                 continue;
             }
-            let trial = Circle {
-                xc_m: c.xc_m + d[0] * step,
-                yc_m: yc,
-                r_m: yc - t,
-            };
+            let trial = Circle { xc_m: c.xc_m + d[0] * step, yc_m: yc, r_m: yc - t };
             if let Some(r) = count.eval(s, trial) {
                 let current = improved.as_ref().map_or(best.fs - 1e-6, |b| b.0.fs);
                 if r.fs < current {
@@ -314,7 +286,5 @@ fn refine(s: &Section, count: &mut Counter, starts: Vec<Candidate>, band: &Band,
 
 /// The 26 unit moves of a 3 × 3 × 3 stencil.
 fn directions() -> impl Iterator<Item = [f64; 3]> {
-    (0..27)
-        .filter(|&k| k != 13)
-        .map(|k| [(k % 3) as f64 - 1.0, ((k / 3) % 3) as f64 - 1.0, (k / 9) as f64 - 1.0])
+    (0..27).filter(|&k| k != 13).map(|k| [(k % 3) as f64 - 1.0, ((k / 3) % 3) as f64 - 1.0, (k / 9) as f64 - 1.0])
 }

@@ -65,13 +65,9 @@ impl<'a> Section<'a> {
         for l in &project.ground.layers {
             let material = match l.kind {
                 LayerKind::Clay(_) => Material::Clay,
-                LayerKind::Sand {
-                    friction_deg,
-                    cohesion_kpa,
-                } => Material::Sand {
-                    c: cohesion_kpa,
-                    tan_phi: friction_deg.to_radians().tan(),
-                },
+                LayerKind::Sand { friction_deg, cohesion_kpa } => {
+                    Material::Sand { c: cohesion_kpa, tan_phi: friction_deg.to_radians().tan() }
+                }
                 LayerKind::StiffBase => break,
             };
             layers.push(SectionLayer {
@@ -92,9 +88,7 @@ impl<'a> Section<'a> {
             fill_c: o.fill_strength_factor * e.fill_cohesion_kpa,
             fill_tan_phi: o.fill_strength_factor * e.fill_friction_deg.to_radians().tan(),
             crack: o.fill_tension_crack,
-            fill_ka: (std::f64::consts::FRAC_PI_4 - 0.5 * e.fill_friction_deg.to_radians())
-                .tan()
-                .powi(2),
+            fill_ka: (std::f64::consts::FRAC_PI_4 - 0.5 * e.fill_friction_deg.to_radians()).tan().powi(2),
             layers,
             base_y: -top,
             water_y: -project.ground.groundwater_depth_m,
@@ -128,11 +122,7 @@ impl<'a> Section<'a> {
             return f64::NEG_INFINITY;
         }
         let toe = self.toe_m();
-        if x <= toe {
-            load::height_at(&self.profile, x)
-        } else {
-            -(x - toe) / self.side_slope
-        }
+        if x <= toe { load::height_at(&self.profile, x) } else { -(x - toe) / self.side_slope }
     }
 
     /// Top of the section at x (fill where there is fill, else ground), m.
@@ -149,12 +139,7 @@ impl<'a> Section<'a> {
     /// sides, plus the points where the fill slope meets the settled ground.
     fn build_surface(&self) -> Vec<(f64, f64)> {
         let far = 1.0e5;
-        let mut xs: Vec<f64> = self
-            .profile
-            .iter()
-            .map(|p| p.0)
-            .chain(self.field.xs.iter().copied())
-            .collect();
+        let mut xs: Vec<f64> = self.profile.iter().map(|p| p.0).chain(self.field.xs.iter().copied()).collect();
         xs.extend(xs.clone().iter().map(|x| -x));
         xs.extend([-far, far]);
         xs.sort_by(f64::total_cmp);
@@ -162,10 +147,7 @@ impl<'a> Section<'a> {
         let mut pts: Vec<(f64, f64)> = Vec::new();
         for w in xs.windows(2) {
             pts.push((w[0], self.surface_y(w[0])));
-            let (d0, d1) = (
-                self.fill_top(w[0]) - self.ground_y(w[0]),
-                self.fill_top(w[1]) - self.ground_y(w[1]),
-            );
+            let (d0, d1) = (self.fill_top(w[0]) - self.ground_y(w[0]), self.fill_top(w[1]) - self.ground_y(w[1]));
             if d0.is_finite() && d1.is_finite() && d0 * d1 < 0.0 {
                 let x = w[0] + (w[1] - w[0]) * d0 / (d0 - d1);
                 pts.push((x, self.surface_y(x)));
@@ -239,11 +221,7 @@ impl<'a> Section<'a> {
 
     /// Elevations (at offset x) of the layer boundaries and the water table.
     pub(super) fn horizontal_breaks(&self, x: f64) -> Vec<f64> {
-        let mut v: Vec<f64> = self
-            .layers
-            .iter()
-            .map(|l| self.elevation_of_depth(x, l.top_z))
-            .collect();
+        let mut v: Vec<f64> = self.layers.iter().map(|l| self.elevation_of_depth(x, l.top_z)).collect();
         v.push(self.water_y);
         v
     }

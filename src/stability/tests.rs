@@ -38,11 +38,7 @@ fn strip_load_on_clay_fellenius_circle() {
     let s = Section::new(&p, 0.01, &field);
     let r = search(&s).unwrap();
     let expect = 5.52 * su / q;
-    assert!(
-        (r.critical.fs - expect).abs() < 0.015 * expect,
-        "FS = {} vs {expect}",
-        r.critical.fs
-    );
+    assert!((r.critical.fs - expect).abs() < 0.015 * expect, "FS = {} vs {expect}", r.critical.fs);
     assert!(r.critical.fs > 5.14 * su / q);
     assert!(r.circles_tried >= 2000);
 }
@@ -52,11 +48,7 @@ fn fs_scales_with_su_in_phi_zero_problem() {
     // φ = 0: FS is proportional to su (exact for any method).
     let p = strip_project(50.0);
     let (f1, f2) = (uniform_su(10.0), uniform_su(20.0));
-    let c = Circle {
-        xc_m: 1.0,
-        yc_m: 0.7,
-        r_m: 2.2,
-    };
+    let c = Circle { xc_m: 1.0, yc_m: 0.7, r_m: 2.2 };
     let a = Section::new(&p, 0.01, &f1).analyse(c).unwrap();
     let b = Section::new(&p, 0.01, &f2).analyse(c).unwrap();
     assert!((b.fs / a.fs - 2.0).abs() < 1e-9);
@@ -104,10 +96,7 @@ fn verruijt_c_phi_slope() {
     // 1.54). Foundation 2 m of the same soil on a rigid base. Within 3%.
     let mut p = fixtures::uniform_clay(2.0, 1.0, "drained", "");
     p.ground.groundwater_depth_m = 10.0;
-    p.ground.layers[0].kind = LayerKind::Sand {
-        friction_deg: 20.0,
-        cohesion_kpa: 5.0,
-    };
+    p.ground.layers[0].kind = LayerKind::Sand { friction_deg: 20.0, cohesion_kpa: 5.0 };
     for l in &mut p.ground.layers {
         l.unit_weight_kn_m3 = 16.0;
         l.saturated_unit_weight_kn_m3 = 16.0;
@@ -131,11 +120,7 @@ fn verruijt_c_phi_slope() {
 fn fs_independent_of_slice_count_beyond_thirty() {
     let p = taylor_project(20.0, 18.0, 5.0, 2.0);
     let field = uniform_su(20.0);
-    let c = Circle {
-        xc_m: 108.0,
-        yc_m: 15.0,
-        r_m: 25.0,
-    };
+    let c = Circle { xc_m: 108.0, yc_m: 15.0, r_m: 25.0 };
     let mut fs = Vec::new();
     for n in [30, 60, 240] {
         let mut q = p.clone();
@@ -162,10 +147,7 @@ fn berm_never_lowers_fs_of_through_toe_mechanism() {
     let mut p = taylor_project(20.0, 18.0, 5.0, 2.0);
     let field = uniform_su(20.0);
     let plain = search(&Section::new(&p, 5.0, &field)).unwrap().critical.fs;
-    p.embankment.berms = vec![Berm {
-        width_m: 8.0,
-        height_m: 2.0,
-    }];
+    p.embankment.berms = vec![Berm { width_m: 8.0, height_m: 2.0 }];
     let bermed = search(&Section::new(&p, 5.0, &field)).unwrap().critical.fs;
     assert!(bermed >= plain - 1e-6, "{bermed} < {plain}");
 }
@@ -175,17 +157,9 @@ fn circle_missing_the_ground_is_rejected() {
     let p = taylor_project(20.0, 18.0, 5.0, 2.0);
     let field = uniform_su(20.0);
     let s = Section::new(&p, 5.0, &field);
-    let miss = s.analyse(Circle {
-        xc_m: 100.0,
-        yc_m: 20.0,
-        r_m: 5.0,
-    });
+    let miss = s.analyse(Circle { xc_m: 100.0, yc_m: 20.0, r_m: 5.0 });
     assert_eq!(miss.unwrap_err(), Reject::NoIntersection);
-    let deep = s.analyse(Circle {
-        xc_m: 100.0,
-        yc_m: 20.0,
-        r_m: 80.0,
-    });
+    let deep = s.analyse(Circle { xc_m: 100.0, yc_m: 20.0, r_m: 80.0 });
     assert_eq!(deep.unwrap_err(), Reject::IntoBase);
 }
 
@@ -199,11 +173,7 @@ fn crack_position_moves_smoothly_with_settlement() {
     field.xs = vec![0.0, 100.0, 110.0, 1.0e4];
     field.zs = vec![0.0, 100.0];
     field.su = vec![vec![20.0, 20.0]; 4];
-    let c = Circle {
-        xc_m: 108.0,
-        yc_m: 12.0,
-        r_m: 20.0,
-    };
+    let c = Circle { xc_m: 108.0, yc_m: 12.0, r_m: 20.0 };
     let mut last = None;
     for k in 0..20 {
         let s = 0.5 + 0.001 * k as f64;

@@ -59,11 +59,7 @@ impl Fonts {
         let upem = face.units_per_em() as f32;
         let units: f32 = s
             .chars()
-            .map(|c| {
-                face.glyph_index(c)
-                    .and_then(|g| face.glyph_hor_advance(g))
-                    .unwrap_or(upem as u16 / 2) as f32
-            })
+            .map(|c| face.glyph_index(c).and_then(|g| face.glyph_hor_advance(g)).unwrap_or(upem as u16 / 2) as f32)
             .sum();
         units / upem * size_pt / PT_PER_MM
     }
@@ -76,17 +72,11 @@ pub struct Canvas<'f> {
 }
 
 fn pt(x: f32, y: f32) -> Point {
-    Point {
-        x: Mm(x).into(),
-        y: Mm(PAGE_H - y).into(),
-    }
+    Point { x: Mm(x).into(), y: Mm(PAGE_H - y).into() }
 }
 
 fn grey(level: f32) -> Color {
-    Color::Greyscale(Greyscale {
-        percent: level,
-        icc_profile: None,
-    })
+    Color::Greyscale(Greyscale { percent: level, icc_profile: None })
 }
 
 impl<'f> Canvas<'f> {
@@ -99,23 +89,14 @@ impl<'f> Canvas<'f> {
         if s.is_empty() {
             return;
         }
-        let font = if bold {
-            self.fonts.bold.clone()
-        } else {
-            self.fonts.regular.clone()
-        };
+        let font = if bold { self.fonts.bold.clone() } else { self.fonts.regular.clone() };
         self.ops.extend([
             Op::SaveGraphicsState,
             Op::SetFillColor { col: grey(0.0) },
             Op::StartTextSection,
             Op::SetTextCursor { pos: pt(x, y) },
-            Op::SetFont {
-                font: PdfFontHandle::External(font),
-                size: Pt(size),
-            },
-            Op::ShowText {
-                items: vec![TextItem::Text(s.to_string())],
-            },
+            Op::SetFont { font: PdfFontHandle::External(font), size: Pt(size) },
+            Op::ShowText { items: vec![TextItem::Text(s.to_string())] },
             Op::EndTextSection,
             Op::RestoreGraphicsState,
         ]);
@@ -140,16 +121,9 @@ impl<'f> Canvas<'f> {
         self.ops.extend([
             Op::SaveGraphicsState,
             Op::StartTextSection,
-            Op::SetTextMatrix {
-                matrix: printpdf::TextMatrix::TranslateRotate(p.x, p.y, 90.0),
-            },
-            Op::SetFont {
-                font: PdfFontHandle::External(font),
-                size: Pt(size),
-            },
-            Op::ShowText {
-                items: vec![TextItem::Text(s.to_string())],
-            },
+            Op::SetTextMatrix { matrix: printpdf::TextMatrix::TranslateRotate(p.x, p.y, 90.0) },
+            Op::SetFont { font: PdfFontHandle::External(font), size: Pt(size) },
+            Op::ShowText { items: vec![TextItem::Text(s.to_string())] },
             Op::EndTextSection,
             Op::RestoreGraphicsState,
         ]);
@@ -160,11 +134,7 @@ impl<'f> Canvas<'f> {
         let mut lines = Vec::new();
         let mut cur = String::new();
         for word in s.split_whitespace() {
-            let trial = if cur.is_empty() {
-                word.to_string()
-            } else {
-                format!("{cur} {word}")
-            };
+            let trial = if cur.is_empty() { word.to_string() } else { format!("{cur} {word}") };
             if self.fonts.width(&trial, size, bold) > width && !cur.is_empty() {
                 lines.push(std::mem::take(&mut cur));
                 cur = word.to_string();
@@ -203,25 +173,13 @@ impl<'f> Canvas<'f> {
         self.ops.extend([
             Op::SaveGraphicsState,
             Op::SetOutlineColor { col: grey(level) },
-            Op::SetOutlineThickness {
-                pt: Pt(width * PT_PER_MM),
-            },
+            Op::SetOutlineThickness { pt: Pt(width * PT_PER_MM) },
             Op::SetLineDashPattern {
-                dash: if pattern.is_empty() {
-                    LineDashPattern::solid()
-                } else {
-                    LineDashPattern::new(0.0, pattern)
-                },
+                dash: if pattern.is_empty() { LineDashPattern::solid() } else { LineDashPattern::new(0.0, pattern) },
             },
             Op::DrawLine {
                 line: Line {
-                    points: points
-                        .iter()
-                        .map(|&(x, y)| LinePoint {
-                            p: pt(x, y),
-                            bezier: false,
-                        })
-                        .collect(),
+                    points: points.iter().map(|&(x, y)| LinePoint { p: pt(x, y), bezier: false }).collect(),
                     is_closed: false,
                 },
             },
@@ -236,30 +194,17 @@ impl<'f> Canvas<'f> {
 
     /// A filled polygon (grey level), optionally outlined in black.
     pub fn fill(&mut self, points: &[(f32, f32)], level: f32, outline: bool) {
-        let ring = PolygonRing {
-            points: points
-                .iter()
-                .map(|&(x, y)| LinePoint {
-                    p: pt(x, y),
-                    bezier: false,
-                })
-                .collect(),
-        };
+        let ring =
+            PolygonRing { points: points.iter().map(|&(x, y)| LinePoint { p: pt(x, y), bezier: false }).collect() };
         self.ops.extend([
             Op::SaveGraphicsState,
             Op::SetFillColor { col: grey(level) },
             Op::SetOutlineColor { col: grey(0.0) },
-            Op::SetOutlineThickness {
-                pt: Pt(0.2 * PT_PER_MM),
-            },
+            Op::SetOutlineThickness { pt: Pt(0.2 * PT_PER_MM) },
             Op::DrawPolygon {
                 polygon: Polygon {
                     rings: vec![ring],
-                    mode: if outline {
-                        PaintMode::FillStroke
-                    } else {
-                        PaintMode::Fill
-                    },
+                    mode: if outline { PaintMode::FillStroke } else { PaintMode::Fill },
                     winding_order: WindingOrder::NonZero,
                 },
             },
@@ -269,12 +214,7 @@ impl<'f> Canvas<'f> {
 
     /// An outlined rectangle with top-left (x, y), size w × h mm.
     pub fn rect(&mut self, x: f32, y: f32, w: f32, h: f32, width: f32) {
-        self.polyline(
-            &[(x, y), (x + w, y), (x + w, y + h), (x, y + h), (x, y)],
-            width,
-            Dash::Solid,
-            0.0,
-        );
+        self.polyline(&[(x, y), (x + w, y), (x + w, y + h), (x, y + h), (x, y)], width, Dash::Solid, 0.0);
     }
 
     /// A marker of size `s` mm centred at (x, y).
@@ -282,11 +222,7 @@ impl<'f> Canvas<'f> {
         let h = 0.5 * s;
         match m {
             Marker::None => {}
-            Marker::Square => self.fill(
-                &[(x - h, y - h), (x + h, y - h), (x + h, y + h), (x - h, y + h)],
-                1.0,
-                true,
-            ),
+            Marker::Square => self.fill(&[(x - h, y - h), (x + h, y - h), (x + h, y + h), (x - h, y + h)], 1.0, true),
             Marker::Triangle => self.fill(&[(x, y - h), (x + h, y + h), (x - h, y + h)], 1.0, true),
             Marker::Circle => {
                 let pts: Vec<(f32, f32)> = (0..16)

@@ -58,11 +58,7 @@ pub struct Chart {
 pub fn nice_step(span: f64, n: f64) -> f64 {
     let raw = (span / n).max(1e-12);
     let mag = 10f64.powf(raw.log10().floor());
-    [1.0, 2.0, 2.5, 5.0, 10.0]
-        .iter()
-        .map(|m| m * mag)
-        .find(|s| *s >= raw)
-        .unwrap_or(10.0 * mag)
+    [1.0, 2.0, 2.5, 5.0, 10.0].iter().map(|m| m * mag).find(|s| *s >= raw).unwrap_or(10.0 * mag)
 }
 
 fn ticks(min: f64, max: f64, n: f64) -> Vec<f64> {
@@ -78,19 +74,15 @@ fn ticks(min: f64, max: f64, n: f64) -> Vec<f64> {
 
 /// Label with the fewest decimals that show the tick step exactly.
 fn tick_label(v: f64, step: f64) -> String {
-    let decimals = (0..4)
-        .find(|d| ((step * 10f64.powi(*d)).round() - step * 10f64.powi(*d)).abs() < 1e-6)
-        .unwrap_or(3) as usize;
+    let decimals =
+        (0..4).find(|d| ((step * 10f64.powi(*d)).round() - step * 10f64.powi(*d)).abs() < 1e-6).unwrap_or(3) as usize;
     format!("{v:.decimals$}")
 }
 
 /// Month-start ticks between two dates (every 1, 2, 3 or 6 months).
 fn month_ticks(start: NaiveDate, min: f64, max: f64) -> Vec<(f64, String)> {
     let months = (max - min) / 30.44;
-    let every = [1, 2, 3, 6, 12]
-        .into_iter()
-        .find(|m| months / *m as f64 <= 12.0)
-        .unwrap_or(12);
+    let every = [1, 2, 3, 6, 12].into_iter().find(|m| months / *m as f64 <= 12.0).unwrap_or(12);
     let first = start + Duration::days(min.floor() as i64);
     let mut d = NaiveDate::from_ymd_opt(first.year(), first.month(), 1).unwrap_or(first);
     let mut out = Vec::new();
@@ -125,17 +117,9 @@ impl Chart {
     }
 
     fn py(&self, v: f64, right: bool) -> f32 {
-        let axis = if right {
-            self.right.as_ref().unwrap_or(&self.left)
-        } else {
-            &self.left
-        };
+        let axis = if right { self.right.as_ref().unwrap_or(&self.left) } else { &self.left };
         let f = ((v - axis.min) / (axis.max - axis.min)) as f32;
-        if self.left_down && !right {
-            self.y + f * self.h
-        } else {
-            self.y + self.h - f * self.h
-        }
+        if self.left_down && !right { self.y + f * self.h } else { self.y + self.h - f * self.h }
     }
 
     /// Draw the chart.
@@ -148,11 +132,7 @@ impl Chart {
             c.text_up(px - 0.6, self.y + self.h - 1.0, 5.5, label);
         }
         for s in &self.series {
-            let pts: Vec<(f32, f32)> = s
-                .points
-                .iter()
-                .map(|&(x, y)| (self.px(x), self.py(y, s.right)))
-                .collect();
+            let pts: Vec<(f32, f32)> = s.points.iter().map(|&(x, y)| (self.px(x), self.py(y, s.right))).collect();
             if !s.markers_only {
                 c.polyline(&pts, 0.45, s.dash, 0.0);
             }
@@ -200,13 +180,7 @@ impl Chart {
             let step = nice_step(r.max - r.min, 5.0);
             for t in ticks(r.min, r.max, 5.0) {
                 let py = self.py(t, true);
-                c.line(
-                    (self.x + self.w, py),
-                    (self.x + self.w + 1.2, py),
-                    0.3,
-                    Dash::Solid,
-                    0.0,
-                );
+                c.line((self.x + self.w, py), (self.x + self.w + 1.2, py), 0.3, Dash::Solid, 0.0);
                 c.text(self.x + self.w + 1.8, py + 1.0, 6.5, false, &tick_label(t, step));
             }
             c.text_up(self.x + self.w + 10.5, self.y + self.h, 7.0, &r.label);

@@ -6,6 +6,7 @@
 
 mod canvas;
 mod chart;
+mod figures;
 mod pages;
 
 use super::{Exporter, PlanReport};
@@ -55,10 +56,7 @@ impl Exporter for Pdf {
         let bold = ParsedFont::from_bytes(canvas::BOLD_TTF, 0, &mut warn)
             .ok_or_else(|| Error::Computation("the bundled bold font could not be read".into()))?;
         let fonts = Fonts::new(doc.add_font(&regular), doc.add_font(&bold));
-        let ctx = Ctx {
-            r,
-            report_date: self.report_date,
-        };
+        let ctx = Ctx { r, report_date: self.report_date };
         let rows = pages::timetable_rows(&ctx);
         let mut kinds = vec![Kind::Summary];
         for k in (0..rows.len().max(1)).step_by(pages::TIMETABLE_ROWS_PER_PAGE) {
@@ -83,9 +81,9 @@ impl Exporter for Pdf {
                     let end = (k + pages::TIMETABLE_ROWS_PER_PAGE).min(rows.len());
                     pages::timetable(&mut c, &rows[*k..end], *k == 0);
                 }
-                Kind::FiguresTime => pages::figures_time(&mut c, &ctx),
-                Kind::FiguresPore => pages::figures_pore_strength(&mut c, &ctx),
-                Kind::Section => pages::cross_section(&mut c, &ctx),
+                Kind::FiguresTime => figures::figures_time(&mut c, &ctx),
+                Kind::FiguresPore => figures::figures_pore_strength(&mut c, &ctx),
+                Kind::Section => figures::cross_section(&mut c, &ctx),
                 Kind::Inputs => pages::inputs(&mut c, &ctx),
                 Kind::Methods => pages::methods(&mut c),
                 Kind::Cautions => pages::cautions_and_monitoring(&mut c, &ctx),
@@ -93,10 +91,7 @@ impl Exporter for Pdf {
             out.push(PdfPage::new(Mm(PAGE_W), Mm(PAGE_H), c.ops));
         }
         doc.with_pages(out);
-        let opts = PdfSaveOptions {
-            subset_fonts: true,
-            ..PdfSaveOptions::default()
-        };
+        let opts = PdfSaveOptions { subset_fonts: true, ..PdfSaveOptions::default() };
         Ok(doc.save(&opts, &mut Vec::new()))
     }
 }
