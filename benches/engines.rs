@@ -69,9 +69,9 @@ fn main() {
         let e = Engine::new(&p);
         planner::plan(&Runner::new(&e)).unwrap()
     });
-    let Effort { stability_searches } = plan.effort;
+    let Effort { stability_searches, consolidation_steps } = plan.effort;
     println!(
-        "plan      {} stages, {stability_searches} stability searches: {:.0} ms median",
+        "plan      {} stages, {stability_searches} stability searches, {consolidation_steps} consolidation steps: {:.0} ms median",
         plan.stages.len(),
         t.as_secs_f64() * 1e3
     );

@@ -398,6 +398,22 @@ mod tests {
     }
 
     #[test]
+    fn skempton_pore_pressure_from_principal_increments() {
+        // Skempton (1954): Δu = B [Δσ3 + A (Δσ1 − Δσ3)]. A vertical-only
+        // increment of 100 kPa with A = 0.5, B = 1 gives 50 kPa; an isotropic
+        // increment gives B × 100 whatever A is.
+        let zero = Stress::default();
+        let rule = PorePressureRule::Skempton { a: 0.5, b: 1.0 };
+        assert!((generated(rule, &zero, &Stress { sz: 100.0, sx: 0.0, txz: 0.0 }) - 50.0).abs() < 1e-9);
+        let iso = Stress { sz: 100.0, sx: 100.0, txz: 0.0 };
+        assert!((generated(PorePressureRule::Skempton { a: 0.2, b: 0.9 }, &zero, &iso) - 90.0).abs() < 1e-9);
+        // Pure shear has σ1 − σ3 = 2τ about a zero mean: Δu = B(−τ + A·2τ).
+        let shear = Stress { sz: 0.0, sx: 0.0, txz: 10.0 };
+        assert!((generated(rule, &zero, &shear) - 0.0).abs() < 1e-9);
+        assert!((generated(PorePressureRule::Vertical, &zero, &shear)).abs() < 1e-12);
+    }
+
+    #[test]
     fn thomas_solves_small_system() {
         // [2 -1 0; -1 2 -1; 0 -1 2] x = [1 0 1] → x = [1 1 1]
         let a = [0.0, -1.0, -1.0];

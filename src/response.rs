@@ -10,6 +10,7 @@ use crate::load::{self, Stress};
 use crate::model::*;
 use serde::Serialize;
 use std::sync::OnceLock;
+use std::sync::atomic::{AtomicUsize, Ordering};
 
 /// Spacing of the fill-thickness levels at which stress fields are computed
 /// and between which they are interpolated linearly, m.
@@ -23,6 +24,8 @@ pub struct Engine<'p> {
     pub columns: Vec<Column>,
     /// Unit-weight stress fields per thickness level: [level] → [column][node].
     table: Vec<OnceLock<Vec<Vec<Stress>>>>,
+    /// Time steps taken so far (all columns advance together).
+    steps: AtomicUsize,
 }
 
 /// The state of the ground and the fill at one moment.
@@ -51,7 +54,12 @@ impl<'p> Engine<'p> {
     pub fn new(project: &'p Project) -> Engine<'p> {
         let columns = column_offsets(project).iter().map(|c| Column::new(project, c.x_m)).collect();
         let table = (0..LEVELS).map(|_| OnceLock::new()).collect();
-        Engine { project, columns, table }
+        Engine { project, columns, table, steps: AtomicUsize::new(0) }
+    }
+
+    /// Consolidation time steps taken so far by this engine.
+    pub fn steps_taken(&self) -> usize {
+        self.steps.load(Ordering::Relaxed)
     }
 
     /// Columns' names and offsets.
@@ -117,6 +125,7 @@ impl<'p> Engine<'p> {
             col.step(&mut st.cols[c], &buf, rule, dt_days);
         }
         st.settlement_centre_m = self.columns[0].settlement(&st.cols[0]);
+        self.steps.fetch_add(1, Ordering::Relaxed);
         st.day += dt_days;
         st.height_m = height_end_m;
         st.placed_m = placed;

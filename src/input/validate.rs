@@ -500,7 +500,7 @@ fn criteria(c: &mut Check, r: &RawCriteria) -> Criteria {
 }
 
 fn stability(c: &mut Check, r: Option<&RawStability>) -> StabilityOptions {
-    let slices = r.and_then(|s| s.slices).unwrap_or(40);
+    let slices = r.and_then(|s| s.slices).unwrap_or(30);
     if !(30..=400).contains(&slices) {
         c.bad("stability.slices", format!("= {slices} is out of range; allowed: 30 ≤ slices ≤ 400"));
     }

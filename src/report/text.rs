@@ -309,7 +309,10 @@ pub fn plan(r: &PlanReport) -> String {
         "Fill per metre run: {:.1} m³ design profile + {:.1} m³ settlement make-up + {:.1} m³ surcharge (removed).\n",
         pl.volume_design_m3_per_m, pl.volume_makeup_m3_per_m, pl.volume_surcharge_m3_per_m
     ));
-    out.push_str(&format!("Effort: {} slip-circle searches.\n", pl.effort.stability_searches));
+    out.push_str(&format!(
+        "Effort: {} slip-circle searches, {} consolidation steps.\n",
+        pl.effort.stability_searches, pl.effort.consolidation_steps
+    ));
     for w in &pl.warnings {
         out.push_str(&format!("warning: {w}\n"));
     }

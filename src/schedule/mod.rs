@@ -29,6 +29,8 @@ pub struct Runner<'e, 'p> {
 pub struct Effort {
     /// Full slip-circle searches run.
     pub stability_searches: usize,
+    /// Consolidation time steps taken (trials included).
+    pub consolidation_steps: usize,
 }
 
 impl<'e, 'p> Runner<'e, 'p> {

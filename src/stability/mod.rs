@@ -166,7 +166,7 @@ impl Section<'_> {
     }
 
     /// Where the arc crosses the settled original ground on each side of its
-    /// lowest point (bisection on arc − ground, which changes sign there),
+    /// lowest point (a root of arc − ground, which changes sign there),
     /// so the crack and the fill/ground boundary fall on slice boundaries.
     fn ground_crossings(&self, c: Circle, x0: f64, x1: f64) -> Vec<f64> {
         let g = |x: f64| {
@@ -178,19 +178,10 @@ impl Section<'_> {
             return Vec::new();
         }
         let mut out = Vec::new();
-        for (mut above, mut below) in [(x0, mid), (x1, mid)] {
-            if g(above) <= 0.0 {
-                continue;
+        for (above, below) in [(x0, mid), (x1, mid)] {
+            if g(above) > 0.0 {
+                out.push(root(&g, above, below));
             }
-            for _ in 0..50 {
-                let m = 0.5 * (above + below);
-                if g(m) > 0.0 {
-                    above = m;
-                } else {
-                    below = m;
-                }
-            }
-            out.push(0.5 * (above + below));
         }
         out
     }
@@ -265,6 +256,35 @@ impl Section<'_> {
         }
         Err(Reject::NoConvergence)
     }
+}
+
+/// Root of g between a (g > 0) and b (g < 0) by the Illinois variant of
+/// false position (Dowell & Jarratt 1971), to 1e-7 m or 60 iterations.
+fn root(g: &impl Fn(f64) -> f64, a: f64, b: f64) -> f64 {
+    let (mut a, mut b) = (a, b);
+    let (mut fa, mut fb) = (g(a), g(b));
+    let mut side = 0;
+    for _ in 0..60 {
+        let x = (a * fb - b * fa) / (fb - fa);
+        let fx = g(x);
+        if (b - a).abs() < 1e-7 || fx == 0.0 {
+            return x;
+        }
+        if (fx > 0.0) == (fa > 0.0) {
+            (a, fa) = (x, fx);
+            if side == -1 {
+                fb *= 0.5;
+            }
+            side = -1;
+        } else {
+            (b, fb) = (x, fx);
+            if side == 1 {
+                fa *= 0.5;
+            }
+            side = 1;
+        }
+    }
+    0.5 * (a + b)
 }
 
 /// Sums over the slices of one circle.
