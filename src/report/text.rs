@@ -140,7 +140,7 @@ pub fn check(p: &Project, s: &Summary, source: &str) -> String {
             f(n.u0_kpa, 1),
             f(n.sigma_v0_eff_kpa, 1),
             f(n.sigma_p0_kpa, 1),
-            f(n.sigma_p0_kpa / n.sigma_v0_eff_kpa, 2),
+            if n.sigma_v0_eff_kpa >= 1.0 { f(n.sigma_p0_kpa / n.sigma_v0_eff_kpa, 2) } else { "-".into() },
             if n.clay.is_some() { f(n.su0_kpa, 1) } else { "-".into() },
         ]);
     }
@@ -223,13 +223,17 @@ pub fn assess(p: &Project, a: &Assessment) -> String {
 
 fn circle_lines(c: &CircleResult) -> String {
     format!(
-        "  centre ({:.2}, {:.2}) m, radius {:.2} m; enters at x = {:.2} m, exits at x = {:.2} m; lowest point {:.2} m below original ground ({})\n  Bishop FS {:.3}; Ordinary FS {:.3}; driving moment {:.0} kN·m/m, resisting {:.0} kN·m/m\n",
+        "  centre ({:.2}, {:.2}) m, radius {:.2} m; enters at x = {:.2} m, exits at x = {:.2} m; lowest point {} ({})\n  Bishop FS {:.3}; Ordinary FS {:.3}; driving moment {:.0} kN·m/m, resisting {:.0} kN·m/m\n",
         c.circle.xc_m,
         c.circle.yc_m,
         c.circle.r_m,
         c.entry_x_m,
         c.exit_x_m,
-        c.depth_m,
+        if c.depth_m >= 0.0 {
+            format!("{:.2} m below original ground", c.depth_m)
+        } else {
+            format!("{:.2} m above original ground", -c.depth_m)
+        },
         c.band,
         c.fs,
         c.fs_ordinary,
