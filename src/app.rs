@@ -21,7 +21,7 @@ pub const TEMPLATE: &str = include_str!("../templates/project.toml");
 /// Run one command; returns what to print on standard output.
 pub fn run(cmd: &Command) -> Result<String> {
     match cmd {
-        Command::New { dir } => new(dir),
+        Command::New { dir, json } => new(dir, *json),
         Command::Check { project, step, json } => check(project, *step, *json),
         Command::Assess { project, tail_days, csv, json } => assess_cmd(project, *tail_days, csv.as_deref(), *json),
         Command::Stability { project, height, date, circle, json } => {
@@ -35,7 +35,7 @@ pub fn run(cmd: &Command) -> Result<String> {
     }
 }
 
-fn new(dir: &Path) -> Result<String> {
+fn new(dir: &Path, json: bool) -> Result<String> {
     if dir.exists() && std::fs::read_dir(dir).map(|mut d| d.next().is_some()).unwrap_or(true) {
         return Err(Error::Usage(format!(
             "{} already exists and is not empty; fillpace new never overwrites",
@@ -45,6 +45,12 @@ fn new(dir: &Path) -> Result<String> {
     std::fs::create_dir_all(dir).map_err(|source| Error::Write { path: dir.to_path_buf(), source })?;
     let path = dir.join("project.toml");
     output::write_atomic(&path, TEMPLATE.as_bytes())?;
+    if json {
+        return Ok(format!(
+            "{}\n",
+            serde_json::json!({ "fillpace": env!("CARGO_PKG_VERSION"), "command": "new", "written": path })
+        ));
+    }
     Ok(format!("wrote {}\nnext: fillpace check {}\n", path.display(), path.display()))
 }
 

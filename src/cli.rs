@@ -20,6 +20,9 @@ pub enum Command {
     New {
         /// Folder to create (must not exist or be empty).
         dir: PathBuf,
+        /// Print JSON ({"written": path}).
+        #[arg(long)]
+        json: bool,
     },
     /// Validate a project and print the initial ground model.
     #[command(

@@ -22,7 +22,10 @@ fn every_example_and_template_validates() {
 fn new_writes_a_valid_project_and_never_overwrites() {
     let dir = tempfile::tempdir().unwrap();
     let site = dir.path().join("site");
-    fillpace().arg("new").arg(&site).assert().success();
+    let out = fillpace().arg("new").arg(&site).arg("--json").output().unwrap();
+    assert!(out.status.success());
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert!(v["written"].as_str().unwrap().ends_with("project.toml"));
     fillpace().arg("check").arg(site.join("project.toml")).assert().success();
     fillpace().arg("new").arg(&site).assert().code(2).stderr(predicate::str::contains("never overwrites"));
 }
