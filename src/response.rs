@@ -149,10 +149,8 @@ impl<'p> Engine<'p> {
     /// Value of a nodal quantity at depth z in column c (linear between nodes).
     pub fn at_depth(&self, c: usize, z_m: f64, f: impl Fn(usize) -> f64) -> f64 {
         let nodes = &self.columns[c].nodes;
-        let i = nodes.partition_point(|n| n.z_m < z_m).clamp(1, nodes.len() - 1);
-        let (a, b) = (&nodes[i - 1], &nodes[i]);
-        let w = ((z_m - a.z_m) / (b.z_m - a.z_m)).clamp(0.0, 1.0);
-        f(i - 1) * (1.0 - w) + f(i) * w
+        let (i, w) = bracket(nodes.len(), |k| nodes[k].z_m, z_m);
+        f(i) * (1.0 - w) + f(i + 1) * w
     }
 
     /// Excess pore pressure at depth z in column c, kPa.
@@ -225,37 +223,30 @@ impl GroundField {
     /// Surface settlement at offset x, m (linear between columns, constant
     /// beyond the outermost).
     pub fn settlement(&self, x: f64) -> f64 {
-        let x = x.abs();
-        let j = self.xs.partition_point(|&c| c < x);
-        if j == 0 {
-            return self.settlement_m[0];
-        }
-        if j >= self.xs.len() {
-            return self.settlement_m[self.xs.len() - 1];
-        }
-        let w = (x - self.xs[j - 1]) / (self.xs[j] - self.xs[j - 1]);
-        self.settlement_m[j - 1] * (1.0 - w) + self.settlement_m[j] * w
+        let (j, w) = bracket(self.xs.len(), |k| self.xs[k], x.abs());
+        self.settlement_m[j] * (1.0 - w) + self.settlement_m[j + 1] * w
     }
 
     /// su at offset x (symmetric about the centreline) and depth z below OGL:
     /// linear in z on each column, linear in x between columns, constant
     /// beyond the outermost column.
     pub fn sample(&self, x: f64, z: f64) -> f64 {
-        let x = x.abs();
-        let j = self.xs.partition_point(|&c| c < x);
-        if j == 0 {
-            return self.on_column(0, z);
-        }
-        if j >= self.xs.len() {
-            return self.on_column(self.xs.len() - 1, z);
-        }
-        let w = (x - self.xs[j - 1]) / (self.xs[j] - self.xs[j - 1]);
-        self.on_column(j - 1, z) * (1.0 - w) + self.on_column(j, z) * w
+        let (j, wx) = bracket(self.xs.len(), |k| self.xs[k], x.abs());
+        let (i, wz) = bracket(self.zs.len(), |k| self.zs[k], z);
+        let on = |c: usize| self.su[c][i] * (1.0 - wz) + self.su[c][i + 1] * wz;
+        on(j) * (1.0 - wx) + on(j + 1) * wx
     }
+}
 
-    fn on_column(&self, c: usize, z: f64) -> f64 {
-        let i = self.zs.partition_point(|&d| d < z).clamp(1, self.zs.len() - 1);
-        let w = ((z - self.zs[i - 1]) / (self.zs[i] - self.zs[i - 1])).clamp(0.0, 1.0);
-        self.su[c][i - 1] * (1.0 - w) + self.su[c][i] * w
+/// Linear interpolation bracket in an increasing sequence of `n` ≥ 2 values
+/// `at(k)`: (i, w) with the value at v ≈ (1 − w)·f(i) + w·f(i + 1), w
+/// clamped to 0–1 so that values beyond either end take the end value.
+fn bracket(n: usize, at: impl Fn(usize) -> f64, v: f64) -> (usize, f64) {
+    let (mut lo, mut hi) = (0, n - 1);
+    while hi - lo > 1 {
+        let mid = (lo + hi) / 2;
+        if at(mid) < v { lo = mid } else { hi = mid }
     }
+    let (a, b) = (at(lo), at(hi));
+    (lo, ((v - a) / (b - a)).clamp(0.0, 1.0))
 }
