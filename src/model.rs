@@ -290,6 +290,26 @@ impl Project {
     }
 }
 
+impl DrainPattern {
+    /// Name as written in the project file.
+    pub fn label(self) -> &'static str {
+        match self {
+            DrainPattern::Triangular => "triangular",
+            DrainPattern::Square => "square",
+        }
+    }
+}
+
+impl ConsolidationMode {
+    /// One-line description for reports.
+    pub fn describe(self) -> &'static str {
+        match self {
+            ConsolidationMode::Linear => "linear (constant mv and cv)",
+            ConsolidationMode::StressDependent => "stress-dependent (mv from Cr/Cc at current σ'v against σ'p)",
+        }
+    }
+}
+
 impl Drains {
     /// Diameter of the soil cylinder drained by one drain, de, m:
     /// 1.05 s (triangular) or 1.128 s (square) (Barron 1948; Hansbo 1981).

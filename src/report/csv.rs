@@ -24,10 +24,7 @@ impl Exporter for Csv {
             "stage,kind,start,end,thickness_m,height_after_m,placed_after_m,fs_end,mechanism,circle_depth_m,su_governing_kpa,rest_days,release,fs_release,peak_excess_kpa,degree_centre,settlement_centre_m\n",
         );
         for s in &r.plan.stages {
-            let kind = match s.kind {
-                crate::schedule::planner::StageKind::Lift => "lift",
-                crate::schedule::planner::StageKind::SurchargeRemoval => "surcharge-removal",
-            }; // CSV keeps the JSON spelling of the kind
+            let kind = s.kind.key();
             out.push_str(&format!(
                 "{},{},{},{},{:.3},{:.3},{:.3},{:.3},{},{:.2},{:.2},{},{},{},{:.2},{:.4},{:.4}\n",
                 s.number,

@@ -55,9 +55,14 @@ pub const STAGE_COLUMNS: [&str; 15] = [
     "mechanism / su",
 ];
 
+/// `v` with `d` decimals (the one number formatter of the reports).
+pub fn fixed(v: f64, d: usize) -> String {
+    format!("{v:.d$}")
+}
+
 /// One stage as the cells of `STAGE_COLUMNS`.
 pub fn stage_cells(s: &crate::schedule::planner::Stage) -> Vec<String> {
-    let f = |v: f64, d: usize| format!("{v:.d$}");
+    let f = fixed;
     vec![
         s.number.to_string(),
         s.kind.label().into(),

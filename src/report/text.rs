@@ -2,8 +2,9 @@
 //! the warnings and the caution notes.
 
 use super::PlanReport;
+use super::fixed as f;
 use crate::ground::Summary;
-use crate::model::{ConsolidationMode, Project};
+use crate::model::Project;
 use crate::schedule::assess::Assessment;
 use crate::stability::CircleResult;
 use crate::stability::search::SearchResult;
@@ -60,10 +61,6 @@ impl Table {
 
 fn looks_numeric(s: &str) -> bool {
     !s.is_empty() && s.chars().all(|c| c.is_ascii_digit() || "+-.%".contains(c))
-}
-
-fn f(v: f64, d: usize) -> String {
-    format!("{v:.d$}")
 }
 
 fn cautions_block() -> String {
@@ -149,19 +146,12 @@ pub fn check(p: &Project, s: &Summary, source: &str) -> String {
     out
 }
 
-fn mode_text(m: ConsolidationMode) -> &'static str {
-    match m {
-        ConsolidationMode::Linear => "linear (constant mv and cv)",
-        ConsolidationMode::StressDependent => "stress-dependent (mv from Cr/Cc at current σ'v against σ'p)",
-    }
-}
-
 /// `fillpace assess`.
 pub fn assess(p: &Project, a: &Assessment) -> String {
     let mut out = header(p, "Proposed sequence");
     out.push_str(&format!(
         "Consolidation mode: {}. FS target at end of each lift: {:.2}.\n\n",
-        mode_text(a.mode),
+        a.mode.describe(),
         a.fs_target
     ));
     let mut t = Table::new(&[
@@ -288,7 +278,7 @@ pub fn plan(r: &PlanReport) -> String {
     let mut out = header(p, "Lift timetable");
     out.push_str(&format!(
         "Planned from {}. Design height {:.2} m, surcharge {:.2} m, FS target {:.2} at the end of every lift.\nConsolidation mode: {}.\n\n",
-        r.source, p.embankment.design_height_m, p.embankment.surcharge_height_m, p.criteria.fs_construction, mode_text(p.analysis.mode)
+        r.source, p.embankment.design_height_m, p.embankment.surcharge_height_m, p.criteria.fs_construction, p.analysis.mode.describe()
     ));
     let mut t = Table::new(&super::STAGE_COLUMNS);
     for s in &pl.stages {

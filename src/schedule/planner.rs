@@ -29,6 +29,14 @@ pub enum StageKind {
 }
 
 impl StageKind {
+    /// Key as in the JSON output (kebab-case), also used in CSV.
+    pub fn key(self) -> &'static str {
+        match self {
+            StageKind::Lift => "lift",
+            StageKind::SurchargeRemoval => "surcharge-removal",
+        }
+    }
+
     /// Short label for tables.
     pub fn label(self) -> &'static str {
         match self {

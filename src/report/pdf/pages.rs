@@ -5,6 +5,7 @@
 use super::canvas::{Canvas, Dash, PAGE_H, PAGE_W};
 use crate::model::{DAYS_PER_YEAR, LayerKind, Preconsolidation, StrengthModel};
 use crate::report::PlanReport;
+use crate::report::fixed as f;
 use crate::schedule::planner::StageKind;
 
 pub const MARGIN: f32 = 12.0;
@@ -90,21 +91,14 @@ pub fn table(c: &mut Canvas, x: f32, y: f32, cols: &[(&str, f32, bool)], rows: &
     base + lead
 }
 
-fn f(v: f64, d: usize) -> String {
-    format!("{v:.d$}")
-}
-
 /// Page 1: the summary.
 pub fn summary(c: &mut Canvas, ctx: &Ctx) {
     let (p, pl) = (ctx.r.project, ctx.r.plan);
     let e = &p.embankment;
     let drains = p.drains.as_ref().map_or("none".to_string(), |d| {
-        let pattern = match d.pattern {
-            crate::model::DrainPattern::Triangular => "triangular",
-            crate::model::DrainPattern::Square => "square",
-        };
         format!(
-            "{pattern} pattern at {:.2} m, dw = {:.0} mm, to {:.1} m depth",
+            "{} pattern at {:.2} m, dw = {:.0} mm, to {:.1} m depth",
+            d.pattern.label(),
             d.spacing_m,
             d.diameter_m * 1000.0,
             d.depth_m
@@ -326,10 +320,7 @@ pub fn inputs(c: &mut Canvas, ctx: &Ctx) {
         match &p.drains {
             Some(d) => format!(
                 "Drains: {} pattern at {} m (de = {:.3} m), dw = {:.0} mm, to {} m, smear ratio {}, kh/ks {}, qw {}.",
-                match d.pattern {
-                    crate::model::DrainPattern::Triangular => "triangular",
-                    crate::model::DrainPattern::Square => "square",
-                },
+                d.pattern.label(),
                 d.spacing_m,
                 d.influence_diameter_m(),
                 d.diameter_m * 1000.0,
@@ -363,10 +354,7 @@ pub fn inputs(c: &mut Canvas, ctx: &Ctx) {
         ),
         format!(
             "Analysis: {} consolidation, pore pressure {}, node spacing ≤ {} m, steps {} / {} days; stability: {} slices, fill strength factor {}, tension crack {}.",
-            match p.analysis.mode {
-                crate::model::ConsolidationMode::Linear => "linear (constant mv, cv)",
-                crate::model::ConsolidationMode::StressDependent => "stress-dependent (mv from Cr/Cc against σ'p)",
-            },
+            p.analysis.mode.describe(),
             match p.analysis.pore_pressure {
                 crate::model::PorePressureRule::Vertical => "Δu = Δσz".to_string(),
                 crate::model::PorePressureRule::Skempton { a, b } => format!("Skempton A = {a}, B = {b}"),
