@@ -2,10 +2,14 @@
 //! engines, run, and write outputs (stdout, and files written atomically).
 //! Returns the text for standard output; `main.rs` prints it.
 
-use crate::cli::Command;
+use crate::cli::{Command, LogCommand};
 use crate::error::{Error, Result};
 use crate::model::Project;
-use crate::report::{self, Exporter, PlanReport};
+use crate::monitoring::{
+    readings,
+    release::{self as release_check},
+};
+use crate::report::{self, Exporter, PlanReport, ReleaseReport};
 use crate::response::Engine;
 use crate::schedule::{Runner, assess, planner};
 use crate::stability::{Circle, Section, search};
@@ -27,10 +31,31 @@ pub fn run(cmd: &Command) -> Result<String> {
         Command::Stability { project, height, date, circle, json } => {
             stability(project, *height, date.as_deref(), circle.as_deref(), *json)
         }
-        Command::Plan { project, csv, ics, pdf, out, json } => {
+        Command::Plan { project, csv, ics, pdf, out, readings, json } => {
             let outs =
                 PlanOutputs { csv: csv.as_deref(), ics: ics.as_deref(), pdf: pdf.as_deref(), dir: out.as_deref() };
-            plan(project.as_deref(), &outs, *json)
+            plan(project.as_deref(), readings.as_deref(), &outs, *json)
+        }
+        Command::Release { project, readings, lift, on, pdf, log, json } => {
+            let files = ReleaseFiles { readings, pdf: pdf.as_deref(), log: log.as_deref() };
+            release(project, &files, *lift, on.as_deref(), *json)
+        }
+        Command::Log(LogCommand::Verify { log, json }) => {
+            if !log.exists() {
+                return Err(Error::Read {
+                    path: log.clone(),
+                    source: std::io::Error::new(std::io::ErrorKind::NotFound, "no such file"),
+                });
+            }
+            let v = crate::audit::verify(log)?;
+            if *json {
+                Ok(format!(
+                    "{}\n",
+                    serde_json::json!({ "fillpace": env!("CARGO_PKG_VERSION"), "command": "log verify", "result": v })
+                ))
+            } else {
+                Ok(report::text::log_verified(&v))
+            }
         }
     }
 }
@@ -219,8 +244,8 @@ impl PlanOutputs<'_> {
     }
 }
 
-fn plan(path: Option<&Path>, outs: &PlanOutputs, json: bool) -> Result<String> {
-    let (text, source, inputs): (String, String, Vec<PathBuf>) = match path {
+fn plan(path: Option<&Path>, readings_file: Option<&Path>, outs: &PlanOutputs, json: bool) -> Result<String> {
+    let (text, mut source, mut inputs): (String, String, Vec<PathBuf>) = match path {
         Some(f) => {
             let t = std::fs::read_to_string(f).map_err(|source| Error::Read { path: f.to_path_buf(), source })?;
             (t, f.display().to_string(), vec![f.to_path_buf()])
@@ -228,7 +253,27 @@ fn plan(path: Option<&Path>, outs: &PlanOutputs, json: bool) -> Result<String> {
         None => (DEMO.to_string(), "the bundled demo site (examples/kestrel-fen.toml)".into(), vec![]),
     };
     let name = path.map_or("bundled demo (examples/kestrel-fen.toml)".to_string(), |f| f.display().to_string());
-    let p = input::parse(&text, &name)?;
+    let mut p = input::parse(&text, &name)?;
+    let mut start = None;
+    if let Some(rf) = readings_file {
+        if path.is_none() {
+            return Err(Error::Usage("--readings needs the project file the readings belong to".into()));
+        }
+        let r = readings::load(rf, &p)?;
+        let cal = release_check::calibrate(&p, &r)?;
+        let min_rest = f64::from(p.construction.min_rest_days);
+        let earliest = (r.today_day.ceil()).max((r.last_change_end() + min_rest).ceil()) as i64;
+        source = format!(
+            "{source}, re-planned from the hold point {} of {} (cv, ch × {:.2}; pore pressures × {:.2})",
+            r.today.format("%Y-%m-%d %H:%M"),
+            rf.display(),
+            cal.fit.multiplier,
+            cal.pore_pressure_factor
+        );
+        inputs.push(rf.to_path_buf());
+        start = Some((cal.state, earliest));
+        p = cal.project;
+    }
     let input_refs: Vec<&Path> = inputs.iter().map(PathBuf::as_path).collect();
     let files = outs.files();
     for (_, out) in &files {
@@ -239,7 +284,10 @@ fn plan(path: Option<&Path>, outs: &PlanOutputs, json: bool) -> Result<String> {
     }
     let engine = Engine::new(&p);
     let runner = Runner::new(&engine);
-    let plan = with_progress(|tick| planner::plan_with_progress(&runner, tick))?;
+    let plan = with_progress(|tick| match start {
+        Some((st, earliest)) => planner::plan_from(&runner, st, earliest, tick),
+        None => planner::plan_with_progress(&runner, tick),
+    })?;
     let rep = PlanReport { project: &p, plan: &plan, source, source_sha256: report::sha256_hex(text.as_bytes()) };
     for (kind, out) in &files {
         let bytes = match *kind {
@@ -255,4 +303,85 @@ fn plan(path: Option<&Path>, outs: &PlanOutputs, json: bool) -> Result<String> {
     } else {
         Ok(report::text::plan(&rep))
     }
+}
+
+/// Files of a release check.
+pub struct ReleaseFiles<'a> {
+    pub readings: &'a Path,
+    /// Certificate; default next to the project.
+    pub pdf: Option<&'a Path>,
+    /// Audit log; default next to the project.
+    pub log: Option<&'a Path>,
+}
+
+fn release(path: &Path, files: &ReleaseFiles, lift: f64, on: Option<&str>, json: bool) -> Result<String> {
+    let text = std::fs::read(path).map_err(|source| Error::Read { path: path.to_path_buf(), source })?;
+    let name = path.display().to_string();
+    let p = input::parse(&String::from_utf8_lossy(&text), &name)?;
+    if p.instruments.is_empty() {
+        return Err(Error::input(
+            &name,
+            None,
+            "instrument",
+            "has no [[instrument]] entries; the release check needs the piezometers, settlement plates and markers the readings come from".into(),
+        ));
+    }
+    let r = readings::load(files.readings, &p)?;
+    let on = on
+        .map(|t| {
+            NaiveDate::parse_from_str(t, "%Y-%m-%d")
+                .map_err(|_| Error::Usage(format!("--on {t} is not a date YYYY-MM-DD")))
+        })
+        .transpose()?;
+    let dir = path.parent().map_or_else(|| PathBuf::from("."), Path::to_path_buf);
+    let stem = path.file_stem().map_or("project".into(), |s| s.to_string_lossy().into_owned());
+    let cert = files.pdf.map_or_else(|| dir.join(format!("{stem}-release-{}.pdf", r.today.date())), Path::to_path_buf);
+    let log = files.log.map_or_else(|| dir.join(format!("{stem}.release-log.jsonl")), Path::to_path_buf);
+    for out in [&cert, &log] {
+        output::refuse_overwrite_of_inputs(out, &[path, files.readings])?;
+    }
+    if cert == log {
+        return Err(Error::Usage("the certificate and the log must be different files".into()));
+    }
+    // A damaged log stops the check before anything is written.
+    let next_entry = crate::audit::verify(&log)?.entries + 1;
+    let check = release_check::check(&p, &r, lift, on)?;
+    let mut rep = ReleaseReport {
+        project: &p,
+        check: &check,
+        project_file: name.clone(),
+        project_sha256: report::sha256_hex(&text),
+        certificate: cert.display().to_string(),
+        log: log.display().to_string(),
+        log_entry: next_entry,
+    };
+    let now = report::now_utc();
+    let pdf = report::pdf::certificate(&rep, now.date())?;
+    output::write_atomic(&cert, &pdf)?;
+    let entry = serde_json::json!({
+        "fillpace": env!("CARGO_PKG_VERSION"),
+        "written_utc": now.format("%Y-%m-%dT%H:%M:%SZ").to_string(),
+        "project_file": name,
+        "project_sha256": rep.project_sha256,
+        "readings_file": r.file,
+        "readings_sha256": r.sha256,
+        "hold_point": check.hold_point.format("%Y-%m-%dT%H:%M").to_string(),
+        "lift_m": check.lift_m,
+        "lift_start": check.lift_start.to_string(),
+        "decision": check.decision.label(),
+        "fs_now": check.fs_now,
+        "fs_next": check.fs_next,
+        "fs_target": check.fs_target,
+        "multiplier": check.fit.multiplier,
+        "pore_pressure_factor": check.pore_pressure_factor,
+        "failing_rules": check.rules.iter().filter(|r| r.verdict == release_check::Verdict::Fail).map(|r| r.name).collect::<Vec<_>>(),
+        "earliest_release": check.earliest_release.map(|d| d.to_string()),
+        "certificate": rep.certificate,
+        "certificate_sha256": report::sha256_hex(&pdf),
+    });
+    let serde_json::Value::Object(fields) = entry else {
+        return Err(Error::Computation("the log entry is not a JSON object".into()));
+    };
+    rep.log_entry = crate::audit::append(&log, fields)?;
+    if json { report::json::envelope("release", &p, &name, &rep) } else { Ok(report::text::release(&rep)) }
 }

@@ -95,7 +95,59 @@ pub enum Command {
         /// Write plan.csv, plan.ics, plan.pdf and plan.json into this folder.
         #[arg(long, value_name = "DIR")]
         out: Option<PathBuf>,
+        /// Plan the remaining lifts from the hold point of this readings
+        /// file, with the model calibrated on it.
+        #[arg(long, value_name = "CSV")]
+        readings: Option<PathBuf>,
         /// Print JSON instead of tables.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Hold-point check: may the next lift be placed? Interprets the
+    /// readings, calibrates the model, decides RELEASE or HOLD, writes a PDF
+    /// certificate and appends the decision to the audit log.
+    #[command(
+        after_help = "Example:\n  fillpace release examples/kestrel-fen.toml --readings examples/kestrel-fen-readings.csv --lift 1.0"
+    )]
+    Release {
+        /// Project file with [[instrument]] entries.
+        project: PathBuf,
+        /// Readings file (CSV: instrument,time,value; `fill` rows give the
+        /// as-built crest height).
+        #[arg(long, value_name = "CSV")]
+        readings: PathBuf,
+        /// Thickness of the proposed next lift, m.
+        #[arg(long, value_name = "M")]
+        lift: f64,
+        /// Proposed start date of the lift (YYYY-MM-DD); default the day
+        /// after the last reading.
+        #[arg(long, value_name = "DATE")]
+        on: Option<String>,
+        /// Certificate file; default <project>-release-<hold point date>.pdf
+        /// next to the project.
+        #[arg(long)]
+        pdf: Option<PathBuf>,
+        /// Audit log; default <project>.release-log.jsonl next to the project.
+        #[arg(long)]
+        log: Option<PathBuf>,
+        /// Print JSON instead of tables.
+        #[arg(long)]
+        json: bool,
+    },
+    /// The audit log of release decisions.
+    #[command(subcommand)]
+    Log(LogCommand),
+}
+
+#[derive(Debug, Subcommand)]
+pub enum LogCommand {
+    /// Check the hash chain of a release log; reports the first broken,
+    /// edited or torn entry (exit code 2).
+    #[command(after_help = "Example:\n  fillpace log verify examples/kestrel-fen.release-log.jsonl")]
+    Verify {
+        /// The log file (JSON lines).
+        log: PathBuf,
+        /// Print JSON.
         #[arg(long)]
         json: bool,
     },

@@ -7,6 +7,7 @@
 //! calendar; `report` writes the results. `main.rs` only wires these up.
 
 pub mod app;
+pub mod audit;
 pub mod cli;
 pub mod consolidation;
 pub mod error;
@@ -14,6 +15,7 @@ pub mod ground;
 pub mod input;
 pub mod load;
 pub mod model;
+pub mod monitoring;
 pub mod output;
 pub mod report;
 pub mod response;

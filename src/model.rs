@@ -25,6 +25,10 @@ pub struct Project {
     pub analysis: AnalysisOptions,
     /// A proposed lift sequence (may be empty).
     pub sequence: Vec<ProposedLift>,
+    /// Field instruments (may be empty).
+    pub instruments: Vec<Instrument>,
+    /// Tolerances and alarm limits of the release check.
+    pub monitoring: MonitoringRules,
 }
 
 /// Title-block information.
@@ -318,5 +322,142 @@ impl Drains {
             DrainPattern::Triangular => 1.05 * self.spacing_m,
             DrainPattern::Square => 1.128 * self.spacing_m,
         }
+    }
+}
+
+/// Id reserved in readings files for the as-built fill record (crest height
+/// above OGL, m).
+pub const FILL_ID: &str = "fill";
+
+/// What an instrument measures.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum InstrumentKind {
+    /// Pore pressure at a tip in the ground.
+    Piezometer,
+    /// Level of a plate on original ground (settlement = baseline − reading).
+    SettlementPlate,
+    /// Horizontal position of a marker at or beyond the toe, measured
+    /// outwards from the centreline (movement = reading − baseline).
+    LateralMarker,
+}
+
+impl InstrumentKind {
+    /// Name as written in the project file.
+    pub fn label(self) -> &'static str {
+        match self {
+            InstrumentKind::Piezometer => "piezometer",
+            InstrumentKind::SettlementPlate => "settlement-plate",
+            InstrumentKind::LateralMarker => "lateral-marker",
+        }
+    }
+}
+
+/// Units of an instrument's readings.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum ReadingUnit {
+    /// Pore pressure, kPa.
+    Kpa,
+    /// Head of water above the piezometer tip, m (× γw to kPa).
+    MHead,
+    /// Length, m.
+    M,
+    /// Length, mm.
+    Mm,
+}
+
+impl ReadingUnit {
+    /// Name as written in the project file.
+    pub fn label(self) -> &'static str {
+        match self {
+            ReadingUnit::Kpa => "kPa",
+            ReadingUnit::MHead => "m-head",
+            ReadingUnit::M => "m",
+            ReadingUnit::Mm => "mm",
+        }
+    }
+
+    /// A reading in these units in SI (kPa for pore pressure, m for lengths).
+    pub fn to_si(self, v: f64) -> f64 {
+        match self {
+            ReadingUnit::Kpa | ReadingUnit::M => v,
+            ReadingUnit::MHead => v * GAMMA_W,
+            ReadingUnit::Mm => v / 1000.0,
+        }
+    }
+}
+
+/// A field instrument of the monitoring scheme.
+#[derive(Debug, Clone, Serialize)]
+pub struct Instrument {
+    pub id: String,
+    pub kind: InstrumentKind,
+    /// Offset from the centreline, m (the section is symmetric; the sign only
+    /// tells the side).
+    pub offset_m: f64,
+    /// Depth of a piezometer tip below OGL, m (0 for other kinds).
+    pub depth_m: f64,
+    /// Reading at the baseline date, in the instrument's units.
+    pub baseline_value: f64,
+    pub baseline_date: NaiveDate,
+    pub units: ReadingUnit,
+}
+
+/// Tolerances and alarm limits of the hold-point release check. Defaults
+/// are common practice (see the README's project-file reference).
+#[derive(Debug, Clone, Serialize)]
+pub struct MonitoringRules {
+    /// Rise of a piezometer under constant fill height that raises the alarm, kPa.
+    pub pore_rise_limit_kpa: f64,
+    /// Settlement rate limit at any plate, mm/day.
+    pub settlement_rate_limit_mm_per_day: f64,
+    /// Lateral movement rate limit at any marker, mm/day.
+    pub lateral_rate_limit_mm_per_day: f64,
+    /// Limit of lateral movement increment over centreline settlement increment.
+    pub lateral_ratio_limit: f64,
+    /// Window over which rates and the ratio are measured, days.
+    pub rate_window_days: f64,
+    /// Piezometer readings further than this below hydrostatic are suspect, kPa.
+    pub piezometer_tolerance_kpa: f64,
+    /// Plate readings showing more heave than this are suspect, m.
+    pub settlement_noise_m: f64,
+    /// Resampling interval for Asaoka's method, days.
+    pub asaoka_interval_days: f64,
+    /// Standard deviation of a piezometer reading used to weight the fit, kPa.
+    pub piezometer_sd_kpa: f64,
+    /// Standard deviation of a plate reading used to weight the fit, m.
+    pub settlement_sd_m: f64,
+}
+
+impl Default for MonitoringRules {
+    fn default() -> Self {
+        MonitoringRules {
+            pore_rise_limit_kpa: 3.0,
+            settlement_rate_limit_mm_per_day: 20.0,
+            lateral_rate_limit_mm_per_day: 5.0,
+            lateral_ratio_limit: 0.5,
+            rate_window_days: 7.0,
+            piezometer_tolerance_kpa: 5.0,
+            settlement_noise_m: 0.01,
+            asaoka_interval_days: 7.0,
+            piezometer_sd_kpa: 2.0,
+            settlement_sd_m: 0.01,
+        }
+    }
+}
+
+impl Project {
+    /// The project with every clay layer's cv and ch multiplied by `factor`
+    /// (the back-analysed consolidation-rate multiplier).
+    pub fn with_consolidation_factor(&self, factor: f64) -> Project {
+        let mut p = self.clone();
+        for l in &mut p.ground.layers {
+            if let LayerKind::Clay(c) = &mut l.kind {
+                c.cv_m2_per_day *= factor;
+                c.ch_m2_per_day *= factor;
+            }
+        }
+        p
     }
 }

@@ -164,6 +164,36 @@ impl<'p> Engine<'p> {
         self.at_depth(c, z_m, |i| col.su(&st.cols[c], i))
     }
 
+    /// Excess pore pressure at offset x and depth z, kPa: linear in depth on
+    /// each column and in offset between columns (symmetric about the
+    /// centreline, constant beyond the outermost column).
+    pub fn excess_at_point(&self, st: &State, x_m: f64, z_m: f64) -> f64 {
+        let xs: Vec<f64> = self.columns.iter().map(|c| c.x_m).collect();
+        let (j, w) = bracket(xs.len(), |k| xs[k], x_m.abs());
+        self.excess_at(st, j, z_m) * (1.0 - w) + self.excess_at(st, j + 1, z_m) * w
+    }
+
+    /// Surface settlement at offset x, m (linear between columns).
+    pub fn settlement_at(&self, st: &State, x_m: f64) -> f64 {
+        let xs: Vec<f64> = self.columns.iter().map(|c| c.x_m).collect();
+        let (j, w) = bracket(xs.len(), |k| xs[k], x_m.abs());
+        let s = |c: usize| self.columns[c].settlement(&st.cols[c]);
+        s(j) * (1.0 - w) + s(j + 1) * w
+    }
+
+    /// Vertical total stress increment from the fill at offset x and depth
+    /// z in the current state, kPa.
+    pub fn fill_stress_at(&self, st: &State, x_m: f64, z_m: f64) -> f64 {
+        let e = &self.project.embankment;
+        let gamma = effective_fill_weight(
+            e.fill_unit_weight_kn_m3,
+            st.placed_m,
+            st.settlement_centre_m,
+            self.project.ground.groundwater_depth_m,
+        );
+        load::stress(&load::profile(e, st.placed_m), gamma, x_m.abs(), z_m).sz
+    }
+
     /// Strength and settlement of the current state, for the stability
     /// engine.
     pub fn field(&self, st: &State) -> GroundField {

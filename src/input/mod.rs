@@ -104,6 +104,8 @@ fn known_fields(parent: &str) -> &'static [&'static str] {
         "stability" => field_names::<RawStability>(),
         "analysis" => field_names::<RawAnalysis>(),
         "sequence[]" => field_names::<RawLift>(),
+        "instrument[]" => field_names::<RawInstrument>(),
+        "monitoring" => field_names::<RawMonitoring>(),
         _ => &[],
     }
 }

@@ -18,6 +18,9 @@ pub struct RawProject {
     pub analysis: Option<RawAnalysis>,
     #[serde(default)]
     pub sequence: Vec<RawLift>,
+    #[serde(default)]
+    pub instrument: Vec<RawInstrument>,
+    pub monitoring: Option<RawMonitoring>,
 }
 
 #[derive(Debug, Deserialize)]
@@ -151,6 +154,33 @@ pub struct RawAnalysis {
 pub struct RawLift {
     pub thickness_m: f64,
     pub start_date: toml::Value,
+}
+
+#[derive(Debug, Deserialize)]
+pub struct RawInstrument {
+    pub id: String,
+    /// "piezometer", "settlement-plate" or "lateral-marker".
+    pub kind: String,
+    pub offset_m: f64,
+    pub depth_m: Option<f64>,
+    pub baseline_value: f64,
+    pub baseline_date: toml::Value,
+    /// "kPa" or "m-head" (piezometers); "m" or "mm" (plates and markers).
+    pub units: Option<String>,
+}
+
+#[derive(Debug, Deserialize)]
+pub struct RawMonitoring {
+    pub pore_rise_limit_kpa: Option<f64>,
+    pub settlement_rate_limit_mm_per_day: Option<f64>,
+    pub lateral_rate_limit_mm_per_day: Option<f64>,
+    pub lateral_ratio_limit: Option<f64>,
+    pub rate_window_days: Option<f64>,
+    pub piezometer_tolerance_kpa: Option<f64>,
+    pub settlement_noise_m: Option<f64>,
+    pub asaoka_interval_days: Option<f64>,
+    pub piezometer_sd_kpa: Option<f64>,
+    pub settlement_sd_m: Option<f64>,
 }
 
 /// Field names of a struct, read from its `Deserialize` impl, so that "did

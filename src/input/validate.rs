@@ -103,8 +103,22 @@ pub fn project(raw: &RawProject, lines: &LineMap) -> Result<Project, Vec<InputIs
     let stability = stability(&mut c, raw.stability.as_ref());
     let analysis = analysis(&mut c, raw.analysis.as_ref());
     let sequence = sequence(&mut c, &raw.sequence, &info, &construction, &embankment);
+    let instruments = instruments(&mut c, &raw.instrument, &info, &ground);
+    let monitoring = monitoring(&mut c, raw.monitoring.as_ref());
     if c.issues.is_empty() {
-        Ok(Project { info, ground, embankment, drains, construction, criteria, stability, analysis, sequence })
+        Ok(Project {
+            info,
+            ground,
+            embankment,
+            drains,
+            construction,
+            criteria,
+            stability,
+            analysis,
+            sequence,
+            instruments,
+            monitoring,
+        })
     } else {
         Err(c.issues)
     }
@@ -592,4 +606,140 @@ fn sequence(
         c.bad("sequence", format!("lifts add up to {total:.2} m, above design height plus surcharge ({limit:.2} m)"));
     }
     out
+}
+
+fn instruments(c: &mut Check, raw: &[RawInstrument], info: &ProjectInfo, g: &Ground) -> Vec<Instrument> {
+    let depth_limit: f64 =
+        g.layers.iter().filter(|l| !matches!(l.kind, LayerKind::StiffBase)).map(|l| l.thickness_m).sum();
+    let mut out: Vec<Instrument> = Vec::new();
+    for (i, r) in raw.iter().enumerate() {
+        let key = |f: &str| format!("instrument[{i}].{f}");
+        let id = r.id.trim().to_string();
+        let id_ok = !id.is_empty()
+            && id.len() <= 24
+            && id.chars().all(|ch| ch.is_ascii_alphanumeric() || "-_.".contains(ch))
+            && !id.eq_ignore_ascii_case(FILL_ID);
+        if !id_ok {
+            c.bad(
+                &key("id"),
+                format!(
+                    "= \"{}\" is not allowed; use 1–24 letters, digits, '-', '_' or '.', and not \"{FILL_ID}\" (reserved for the fill record)",
+                    r.id
+                ),
+            );
+        } else if out.iter().any(|o| o.id == id) {
+            c.bad(&key("id"), format!("= \"{id}\" is used by an earlier instrument; ids must be unique"));
+        }
+        let kind = match c.choice(&key("kind"), Some(&r.kind), &["piezometer", "settlement-plate", "lateral-marker"]) {
+            "settlement-plate" => InstrumentKind::SettlementPlate,
+            "lateral-marker" => InstrumentKind::LateralMarker,
+            _ => InstrumentKind::Piezometer,
+        };
+        let units = if kind == InstrumentKind::Piezometer {
+            match c.choice(&key("units"), r.units.as_deref(), &["kPa", "m-head"]) {
+                "m-head" => ReadingUnit::MHead,
+                _ => ReadingUnit::Kpa,
+            }
+        } else {
+            match c.choice(&key("units"), r.units.as_deref(), &["m", "mm"]) {
+                "mm" => ReadingUnit::Mm,
+                _ => ReadingUnit::M,
+            }
+        };
+        let offset_m = c.num(&key("offset_m"), r.offset_m, Low::Incl(-500.0), 500.0);
+        let depth_m = match (kind, r.depth_m) {
+            (InstrumentKind::Piezometer, Some(d)) => c.num(&key("depth_m"), d, Low::Excl(0.0), depth_limit),
+            (InstrumentKind::Piezometer, None) => {
+                c.bad(&key("depth_m"), "is missing; a piezometer needs the depth of its tip below OGL".into());
+                0.0
+            }
+            (_, Some(d)) => {
+                c.bad(
+                    &key("depth_m"),
+                    format!("= {d} is only allowed for piezometers (plates and markers sit on the ground)"),
+                );
+                0.0
+            }
+            (_, None) => 0.0,
+        };
+        let baseline_value = c.num(&key("baseline_value"), r.baseline_value, Low::Incl(-1.0e5), 1.0e5);
+        let baseline_date = c.date(&key("baseline_date"), &r.baseline_date);
+        if baseline_date > info.start_date {
+            c.bad(
+                &key("baseline_date"),
+                format!(
+                    "= {baseline_date} is after project.start_date ({}); take baselines before filling starts",
+                    info.start_date
+                ),
+            );
+        }
+        out.push(Instrument { id, kind, offset_m, depth_m, baseline_value, baseline_date, units });
+    }
+    out
+}
+
+fn monitoring(c: &mut Check, r: Option<&RawMonitoring>) -> MonitoringRules {
+    let d = MonitoringRules::default();
+    let k = |f: &str| format!("monitoring.{f}");
+    let Some(r) = r else { return d };
+    MonitoringRules {
+        pore_rise_limit_kpa: c.opt(
+            &k("pore_rise_limit_kpa"),
+            r.pore_rise_limit_kpa,
+            d.pore_rise_limit_kpa,
+            Low::Excl(0.0),
+            100.0,
+        ),
+        settlement_rate_limit_mm_per_day: c.opt(
+            &k("settlement_rate_limit_mm_per_day"),
+            r.settlement_rate_limit_mm_per_day,
+            d.settlement_rate_limit_mm_per_day,
+            Low::Excl(0.0),
+            1000.0,
+        ),
+        lateral_rate_limit_mm_per_day: c.opt(
+            &k("lateral_rate_limit_mm_per_day"),
+            r.lateral_rate_limit_mm_per_day,
+            d.lateral_rate_limit_mm_per_day,
+            Low::Excl(0.0),
+            1000.0,
+        ),
+        lateral_ratio_limit: c.opt(
+            &k("lateral_ratio_limit"),
+            r.lateral_ratio_limit,
+            d.lateral_ratio_limit,
+            Low::Excl(0.0),
+            5.0,
+        ),
+        rate_window_days: c.opt(&k("rate_window_days"), r.rate_window_days, d.rate_window_days, Low::Incl(1.0), 90.0),
+        piezometer_tolerance_kpa: c.opt(
+            &k("piezometer_tolerance_kpa"),
+            r.piezometer_tolerance_kpa,
+            d.piezometer_tolerance_kpa,
+            Low::Excl(0.0),
+            100.0,
+        ),
+        settlement_noise_m: c.opt(
+            &k("settlement_noise_m"),
+            r.settlement_noise_m,
+            d.settlement_noise_m,
+            Low::Excl(0.0),
+            0.5,
+        ),
+        asaoka_interval_days: c.opt(
+            &k("asaoka_interval_days"),
+            r.asaoka_interval_days,
+            d.asaoka_interval_days,
+            Low::Incl(1.0),
+            90.0,
+        ),
+        piezometer_sd_kpa: c.opt(
+            &k("piezometer_sd_kpa"),
+            r.piezometer_sd_kpa,
+            d.piezometer_sd_kpa,
+            Low::Excl(0.0),
+            50.0,
+        ),
+        settlement_sd_m: c.opt(&k("settlement_sd_m"), r.settlement_sd_m, d.settlement_sd_m, Low::Excl(0.0), 0.5),
+    }
 }

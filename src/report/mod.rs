@@ -12,6 +12,7 @@ pub mod text;
 
 use crate::error::Result;
 use crate::model::Project;
+use crate::monitoring::release::ReleaseCheck;
 use crate::schedule::planner::Plan;
 
 /// The caution notes, one string per paragraph (templates/cautions.txt).
@@ -34,6 +35,22 @@ pub struct PlanReport<'a> {
     pub source: String,
     /// SHA-256 of the project file's bytes, hex.
     pub source_sha256: String,
+}
+
+/// A release check together with its project and the files it wrote.
+#[derive(serde::Serialize)]
+pub struct ReleaseReport<'a> {
+    #[serde(skip)]
+    pub project: &'a Project,
+    #[serde(flatten)]
+    pub check: &'a ReleaseCheck,
+    pub project_file: String,
+    pub project_sha256: String,
+    /// The certificate written (PDF).
+    pub certificate: String,
+    /// The audit log and the number of the entry appended to it.
+    pub log: String,
+    pub log_entry: usize,
 }
 
 /// Column headings of the stage table shared by the terminal and PDF.
@@ -88,10 +105,15 @@ pub fn sha256_hex(bytes: &[u8]) -> String {
     sha2::Sha256::digest(bytes).iter().map(|b| format!("{b:02x}")).collect()
 }
 
+/// Now (UTC) from the system clock.
+pub fn now_utc() -> chrono::NaiveDateTime {
+    let secs = std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map_or(0, |d| d.as_secs());
+    chrono::DateTime::from_timestamp(secs as i64, 0).map_or(chrono::NaiveDateTime::MIN, |t| t.naive_utc())
+}
+
 /// Today's date (UTC) from the system clock, for title blocks.
 pub fn today() -> chrono::NaiveDate {
-    let secs = std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map_or(0, |d| d.as_secs());
-    chrono::DateTime::from_timestamp(secs as i64, 0).map_or(chrono::NaiveDate::MIN, |t| t.date_naive())
+    now_utc().date()
 }
 
 /// One output format of a plan.

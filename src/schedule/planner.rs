@@ -127,14 +127,21 @@ pub fn plan(r: &Runner) -> Result<Plan> {
 /// `plan`, reporting progress as the fraction of the final height reached
 /// (0–1) after each stage.
 pub fn plan_with_progress(r: &Runner, progress: &mut dyn FnMut(f64)) -> Result<Plan> {
+    plan_from(r, r.engine.initial_state(), 0, progress)
+}
+
+/// Plan the remaining stages from state `start` (for example today's
+/// calibrated state at a hold point), the next lift starting no earlier
+/// than day `earliest`. Stages are numbered from 1.
+pub fn plan_from(r: &Runner, start: State, earliest: i64, progress: &mut dyn FnMut(f64)) -> Result<Plan> {
     let p = r.engine.project;
-    let mut st = r.engine.initial_state();
+    let mut st = start.clone();
     let mut effort = Effort::default();
     let mut stages: Vec<Stage> = Vec::new();
     let mut fig = Figures { probes: record::probes(r.engine), ..Figures::default() };
     fig.profile(r.engine, &st, "start".into());
     let top = p.max_height_m();
-    let mut earliest = 0;
+    let mut earliest = earliest;
     while st.height_m < top - 1e-6 {
         let (start, lift) = next_lift(r, &st, earliest, &mut effort)?;
         advance_to(r, &mut stages, &mut st, start, &mut fig, &mut effort)?;
@@ -154,7 +161,7 @@ pub fn plan_with_progress(r: &Runner, progress: &mut dyn FnMut(f64)) -> Result<P
         stages.push(stage(r, stages.len() + 1, StageKind::SurchargeRemoval, a, b, change, &st, crit));
     }
     fig.profile(r.engine, &st, format!("end {}", stages.last().map_or(p.info.start_date, |s| s.end)));
-    fig.governing = governing(r, &stages, &mut effort)?;
+    fig.governing = governing(r, &start, &stages, &mut effort)?;
     totals(r, stages, &st, effort, warnings, fig)
 }
 
@@ -180,12 +187,12 @@ fn advance_to(
 
 /// The section at the lift with the lowest FS, rebuilt by replaying the
 /// timetable up to the end of that lift.
-fn governing(r: &Runner, stages: &[Stage], effort: &mut Effort) -> Result<Option<Governing>> {
+fn governing(r: &Runner, start: &State, stages: &[Stage], effort: &mut Effort) -> Result<Option<Governing>> {
     let Some(g) = stages.iter().filter(|s| s.kind == StageKind::Lift).min_by(|a, b| a.fs_end.total_cmp(&b.fs_end))
     else {
         return Ok(None);
     };
-    let mut st = r.engine.initial_state();
+    let mut st = start.clone();
     for s in stages.iter().take(g.number) {
         r.rest_until(&mut st, r.calendar.day_of(s.start), &mut |_| {});
         r.place(&mut st, s.thickness_m, &mut |_| {})?;
@@ -458,7 +465,7 @@ fn totals(
 ) -> Result<Plan> {
     let p = r.engine.project;
     let e = &p.embankment;
-    let finish = stages.last().map_or(p.info.start_date, |s| s.end);
+    let finish = stages.last().map_or(r.calendar.date(st.day.ceil() as i64), |s| s.end);
     let (min_fs, min_fs_stage) = stages
         .iter()
         .filter(|s| s.kind == StageKind::Lift)

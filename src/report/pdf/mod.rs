@@ -3,13 +3,15 @@
 //! headers, figures drawn as vector graphics, inputs with the project file's
 //! SHA-256, method statement, caution notes and monitoring plan. A4
 //! landscape, black and grey only, fonts embedded (DejaVu Sans Condensed).
+//! The hold-point release certificate shares the title block and charts.
 
 mod canvas;
+mod certificate;
 mod chart;
 mod figures;
 mod pages;
 
-use super::{Exporter, PlanReport};
+use super::{Exporter, PlanReport, ReleaseReport};
 use crate::error::{Error, Result};
 use canvas::{Canvas, Fonts, PAGE_H, PAGE_W};
 use pages::Ctx;
@@ -49,13 +51,6 @@ impl Kind {
 
 impl Exporter for Pdf {
     fn serialize(&self, r: &PlanReport) -> Result<Vec<u8>> {
-        let mut doc = PdfDocument::new(&format!("{} — lift timetable", r.project.info.title));
-        let mut warn = Vec::new();
-        let regular = ParsedFont::from_bytes(canvas::REGULAR_TTF, 0, &mut warn)
-            .ok_or_else(|| Error::Computation("the bundled regular font could not be read".into()))?;
-        let bold = ParsedFont::from_bytes(canvas::BOLD_TTF, 0, &mut warn)
-            .ok_or_else(|| Error::Computation("the bundled bold font could not be read".into()))?;
-        let fonts = Fonts::new(doc.add_font(&regular), doc.add_font(&bold));
         let ctx = Ctx { r, report_date: self.report_date };
         let rows = pages::timetable_rows(&ctx);
         let mut kinds = vec![Kind::Summary];
@@ -71,27 +66,61 @@ impl Exporter for Pdf {
             Kind::Cautions,
         ]);
         let total = kinds.len();
-        let mut out = Vec::with_capacity(total);
-        for (i, kind) in kinds.iter().enumerate() {
-            let mut c = Canvas::new(&fonts);
-            pages::frame(&mut c, &ctx, kind.heading(), i + 1, total);
+        let title = ctx.title();
+        document(&format!("{} — lift timetable", r.project.info.title), total, |c, i| {
+            let kind = &kinds[i];
+            pages::frame(c, &title, kind.heading(), i + 1, total);
             match kind {
-                Kind::Summary => pages::summary(&mut c, &ctx),
+                Kind::Summary => pages::summary(c, &ctx),
                 Kind::Timetable(k) => {
                     let end = (k + pages::TIMETABLE_ROWS_PER_PAGE).min(rows.len());
-                    pages::timetable(&mut c, &rows[*k..end], *k == 0);
+                    pages::timetable(c, &rows[*k..end], *k == 0);
                 }
-                Kind::FiguresTime => figures::figures_time(&mut c, &ctx),
-                Kind::FiguresPore => figures::figures_pore_strength(&mut c, &ctx),
-                Kind::Section => figures::cross_section(&mut c, &ctx),
-                Kind::Inputs => pages::inputs(&mut c, &ctx),
-                Kind::Methods => pages::methods(&mut c),
-                Kind::Cautions => pages::cautions_and_monitoring(&mut c, &ctx),
+                Kind::FiguresTime => figures::figures_time(c, &ctx),
+                Kind::FiguresPore => figures::figures_pore_strength(c, &ctx),
+                Kind::Section => figures::cross_section(c, &ctx),
+                Kind::Inputs => pages::inputs(c, &ctx),
+                Kind::Methods => pages::methods(c),
+                Kind::Cautions => pages::cautions_and_monitoring(c, &ctx),
             }
-            out.push(PdfPage::new(Mm(PAGE_W), Mm(PAGE_H), c.ops));
-        }
-        doc.with_pages(out);
-        let opts = PdfSaveOptions { subset_fonts: true, ..PdfSaveOptions::default() };
-        Ok(doc.save(&opts, &mut Vec::new()))
+        })
     }
+}
+
+/// The release certificate (two pages): decision, rules and figures; the
+/// readings against the model.
+pub fn certificate(r: &ReleaseReport, date: chrono::NaiveDate) -> Result<Vec<u8>> {
+    let source = format!("{} and {}", r.project_file, r.check.readings_file);
+    let title = pages::Title {
+        info: &r.project.info,
+        source: &source,
+        date,
+        document: "fillpace hold-point release certificate",
+    };
+    document(&format!("{} — release certificate", r.project.info.title), 2, |c, i| {
+        let heading = if i == 0 { "Hold-point release certificate" } else { "Readings against the model" };
+        pages::frame(c, &title, heading, i + 1, 2);
+        if i == 0 { certificate::decision_page(c, r) } else { certificate::readings_page(c, r) }
+    })
+}
+
+/// An A4-landscape document of `pages` pages, each drawn by `draw(canvas,
+/// index)`, with the bundled fonts embedded (subset).
+fn document(name: &str, pages: usize, mut draw: impl FnMut(&mut Canvas, usize)) -> Result<Vec<u8>> {
+    let mut doc = PdfDocument::new(name);
+    let mut warn = Vec::new();
+    let regular = ParsedFont::from_bytes(canvas::REGULAR_TTF, 0, &mut warn)
+        .ok_or_else(|| Error::Computation("the bundled regular font could not be read".into()))?;
+    let bold = ParsedFont::from_bytes(canvas::BOLD_TTF, 0, &mut warn)
+        .ok_or_else(|| Error::Computation("the bundled bold font could not be read".into()))?;
+    let fonts = Fonts::new(doc.add_font(&regular), doc.add_font(&bold));
+    let mut out = Vec::with_capacity(pages);
+    for i in 0..pages {
+        let mut c = Canvas::new(&fonts);
+        draw(&mut c, i);
+        out.push(PdfPage::new(Mm(PAGE_W), Mm(PAGE_H), c.ops));
+    }
+    doc.with_pages(out);
+    let opts = PdfSaveOptions { subset_fonts: true, ..PdfSaveOptions::default() };
+    Ok(doc.save(&opts, &mut Vec::new()))
 }

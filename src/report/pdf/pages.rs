@@ -3,7 +3,7 @@
 //! function draws one kind of page on a canvas; `super::Pdf` assembles them.
 
 use super::canvas::{Canvas, Dash, PAGE_H, PAGE_W};
-use crate::model::{DAYS_PER_YEAR, LayerKind, Preconsolidation, StrengthModel};
+use crate::model::{DAYS_PER_YEAR, LayerKind, Preconsolidation, ProjectInfo, StrengthModel};
 use crate::report::PlanReport;
 use crate::report::fixed as f;
 use crate::schedule::planner::StageKind;
@@ -20,11 +20,33 @@ pub struct Ctx<'a> {
     pub report_date: chrono::NaiveDate,
 }
 
+/// What the title block of every page shows.
+pub struct Title<'a> {
+    pub info: &'a ProjectInfo,
+    /// Where the inputs came from.
+    pub source: &'a str,
+    pub date: chrono::NaiveDate,
+    /// The kind of document, top right of each page.
+    pub document: &'a str,
+}
+
+impl Ctx<'_> {
+    /// The schedule's title block.
+    pub fn title(&self) -> Title<'_> {
+        Title {
+            info: &self.r.project.info,
+            source: &self.r.source,
+            date: self.report_date,
+            document: "fillpace staged construction schedule",
+        }
+    }
+}
+
 /// Heading line and the title block with page x of y and signature boxes.
-pub fn frame(c: &mut Canvas, ctx: &Ctx, heading: &str, page: usize, pages: usize) {
-    let info = &ctx.r.project.info;
+pub fn frame(c: &mut Canvas, t: &Title, heading: &str, page: usize, pages: usize) {
+    let info = t.info;
     c.text(MARGIN, MARGIN + 4.0, 13.0, true, heading);
-    c.text_right(PAGE_W - MARGIN, MARGIN + 4.0, 7.5, false, "fillpace staged construction schedule");
+    c.text_right(PAGE_W - MARGIN, MARGIN + 4.0, 7.5, false, t.document);
     c.line((MARGIN, MARGIN + 6.5), (PAGE_W - MARGIN, MARGIN + 6.5), 0.3, Dash::Solid, 0.0);
     let (x, y, w, h) = (MARGIN, BLOCK_TOP, PAGE_W - 2.0 * MARGIN, 20.0);
     c.rect(x, y, w, h, 0.4);
@@ -35,9 +57,9 @@ pub fn frame(c: &mut Canvas, ctx: &Ctx, heading: &str, page: usize, pages: usize
     c.text(x + 2.0, y + 5.0, 8.5, true, &info.title);
     c.text(x + 2.0, y + 10.0, 7.0, false, &format!("Reference {}", info.reference));
     c.text(x + 2.0, y + 14.5, 7.0, false, &info.location);
-    c.text(x + 2.0, y + 18.5, 6.0, false, &format!("Source: {}", ctx.r.source));
+    c.text(x + 2.0, y + 18.5, 6.0, false, &format!("Source: {}", t.source));
     c.text(cols[0] + 2.0, y + 5.0, 7.0, false, &format!("Revision {}", info.revision));
-    c.text(cols[0] + 2.0, y + 10.0, 7.0, false, &format!("Date {}", ctx.report_date));
+    c.text(cols[0] + 2.0, y + 10.0, 7.0, false, &format!("Date {}", t.date));
     c.text(cols[0] + 2.0, y + 15.0, 8.0, true, &format!("Page {page} of {pages}"));
     let box_w = (x + w - cols[1]) / 3.0;
     for (i, role) in ["Prepared", "Checked", "Approved"].iter().enumerate() {

@@ -1,0 +1,149 @@
+//! Synthetic readings for tests and for the invented demo file: the engine
+//! run along an as-built fill record with cv and ch scaled by a chosen
+//! multiplier, read at regular times, plus Gaussian noise from a seeded
+//! generator (SplitMix64, Steele, Lea & Flood 2014; Box–Muller transform).
+//! Lateral markers move by a fixed fraction of the centreline settlement
+//! increment: one value while the fill height changes, another while it
+//! holds. Nothing here is a measurement.
+
+use super::readings::{FillPoint, HEADER, day_of};
+use super::replay::replay;
+use crate::model::{FILL_ID, InstrumentKind, Project};
+use crate::response::Engine;
+use chrono::{Duration, NaiveDateTime, NaiveTime};
+
+/// How to make the readings.
+#[derive(Debug, Clone)]
+pub struct Recipe {
+    /// As-built record: (time, crest height above OGL m), starting at 0.
+    pub fill: Vec<(NaiveDateTime, f64)>,
+    /// Multiplier on cv and ch of the "true" ground.
+    pub multiplier: f64,
+    /// Reading interval of every instrument from its baseline date, days.
+    pub every_days: i64,
+    /// Last reading time.
+    pub until: NaiveDateTime,
+    pub seed: u64,
+    /// Noise standard deviations: pore pressure kPa, levels and positions m.
+    pub sd_kpa: f64,
+    pub sd_m: f64,
+    /// Lateral movement over centreline settlement increment while filling
+    /// and while resting.
+    pub lateral_ratio_filling: f64,
+    pub lateral_ratio_resting: f64,
+    /// Extra rise of pore pressure added linearly over the last `rise_days`
+    /// days at every piezometer, kPa (0 = none).
+    pub rise_kpa: f64,
+    pub rise_days: f64,
+}
+
+/// A seeded normal generator.
+pub struct Noise(u64);
+
+impl Noise {
+    pub fn new(seed: u64) -> Noise {
+        Noise(seed)
+    }
+
+    fn next_u64(&mut self) -> u64 {
+        self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
+        let mut z = self.0;
+        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
+        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
+        z ^ (z >> 31)
+    }
+
+    /// Uniform in (0, 1).
+    fn uniform(&mut self) -> f64 {
+        ((self.next_u64() >> 11) as f64 + 0.5) / (1u64 << 53) as f64
+    }
+
+    /// Standard normal (Box–Muller).
+    pub fn normal(&mut self) -> f64 {
+        let (a, b) = (self.uniform(), self.uniform());
+        (-2.0 * a.ln()).sqrt() * (std::f64::consts::TAU * b).cos()
+    }
+}
+
+/// The readings file text (header comment, header, rows in time order).
+pub fn readings_csv(p: &Project, recipe: &Recipe, comment: &str) -> String {
+    let fill: Vec<FillPoint> = recipe
+        .fill
+        .iter()
+        .enumerate()
+        .map(|(k, (t, h))| FillPoint { time: *t, day: day_of(p, *t), height_m: *h, line: k })
+        .collect();
+    // (time, instrument index) of every reading.
+    let mut when: Vec<(NaiveDateTime, usize)> = Vec::new();
+    for (k, inst) in p.instruments.iter().enumerate() {
+        let mut t = inst.baseline_date.and_time(NaiveTime::from_hms_opt(9, 0, 0).unwrap_or(NaiveTime::MIN));
+        while t <= recipe.until {
+            when.push((t, k));
+            t += Duration::days(recipe.every_days);
+        }
+    }
+    when.sort();
+    let days: Vec<f64> = when.iter().map(|(t, _)| day_of(p, *t)).collect();
+    let q = p.with_consolidation_factor(recipe.multiplier);
+    let engine = Engine::new(&q);
+    let mut noise = Noise::new(recipe.seed);
+    let mut rows: Vec<(NaiveDateTime, String)> = Vec::new();
+    let mut lateral: Vec<(f64, f64, f64)> = vec![(0.0, 0.0, 0.0); p.instruments.len()]; // (movement, s_c, height)
+    let end = days.last().copied().unwrap_or(0.0).max(0.0);
+    replay(&engine, &fill, &days, end, |i, st| {
+        let (t, k) = when[i];
+        let inst = &p.instruments[k];
+        let e = noise.normal();
+        let value = match inst.kind {
+            InstrumentKind::Piezometer => {
+                let since = recipe.rise_days - (recipe.until - t).num_seconds() as f64 / 86_400.0;
+                let rise = if recipe.rise_days > 0.0 {
+                    recipe.rise_kpa * (since / recipe.rise_days).clamp(0.0, 1.0)
+                } else {
+                    0.0
+                };
+                let u = crate::ground::u0(&p.ground, inst.depth_m)
+                    + engine.excess_at_point(st, inst.offset_m, inst.depth_m)
+                    + rise
+                    + recipe.sd_kpa * e;
+                inst.units.to_si(1.0).recip() * u
+            }
+            InstrumentKind::SettlementPlate => {
+                let s = engine.settlement_at(st, inst.offset_m) + recipe.sd_m * e;
+                inst.baseline_value - s / inst.units.to_si(1.0)
+            }
+            InstrumentKind::LateralMarker => {
+                let (moved, s_prev, h_prev) = lateral[k];
+                let ratio = if (st.height_m - h_prev).abs() > 1e-9 {
+                    recipe.lateral_ratio_filling
+                } else {
+                    recipe.lateral_ratio_resting
+                };
+                let now = moved + ratio * (st.settlement_centre_m - s_prev);
+                lateral[k] = (now, st.settlement_centre_m, st.height_m);
+                inst.baseline_value + (now + recipe.sd_m * e) / inst.units.to_si(1.0)
+            }
+        };
+        let decimals = match inst.units {
+            crate::model::ReadingUnit::M => 3,
+            crate::model::ReadingUnit::MHead => 2,
+            _ => 1,
+        };
+        rows.push((t, format!("{},{},{value:.decimals$}", inst.id, t.format("%Y-%m-%dT%H:%M"))));
+    });
+    for (t, h) in &recipe.fill {
+        rows.push((*t, format!("{FILL_ID},{},{h:.2}", t.format("%Y-%m-%dT%H:%M"))));
+    }
+    rows.sort_by_key(|a| a.0);
+    let mut out = String::new();
+    for l in comment.lines() {
+        out.push_str(&format!("# {l}\n").replace("# \n", "#\n"));
+    }
+    out.push_str(HEADER);
+    out.push('\n');
+    for (_, r) in rows {
+        out.push_str(&r);
+        out.push('\n');
+    }
+    out
+}
