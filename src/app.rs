@@ -344,7 +344,7 @@ fn release(path: &Path, files: &ReleaseFiles, lift: f64, on: Option<&str>, json:
         return Err(Error::Usage("the certificate and the log must be different files".into()));
     }
     // A damaged log stops the check before anything is written.
-    let next_entry = crate::audit::verify(&log)?.entries + 1;
+    let next_entry = crate::audit::appendable(&log)?.entries + 1;
     let check = release_check::check(&p, &r, lift, on)?;
     let mut rep = ReleaseReport {
         project: &p,

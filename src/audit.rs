@@ -87,11 +87,10 @@ pub fn verify_bytes(bytes: &[u8], file: &str) -> Result<Verified> {
     Ok(Verified { file: file.to_string(), entries, last_sha256: prev })
 }
 
-/// Append one entry (an object's fields) to the log after verifying it;
-/// returns the entry number. The write is one `write_all` followed by a
-/// flush and an fsync.
-pub fn append(path: &Path, fields: Map<String, Value>) -> Result<usize> {
-    let v = verify(path).map_err(|e| match e {
+/// Verify a log before appending to it: as `verify`, with the refusal
+/// stated in the message.
+pub fn appendable(path: &Path) -> Result<Verified> {
+    verify(path).map_err(|e| match e {
         Error::Input { file, mut issues } => {
             for i in &mut issues {
                 i.message.push_str("; nothing was appended to the damaged log");
@@ -99,7 +98,14 @@ pub fn append(path: &Path, fields: Map<String, Value>) -> Result<usize> {
             Error::Input { file, issues }
         }
         other => other,
-    })?;
+    })
+}
+
+/// Append one entry (an object's fields) to the log after verifying it;
+/// returns the entry number. The write is one `write_all` followed by a
+/// flush and an fsync.
+pub fn append(path: &Path, fields: Map<String, Value>) -> Result<usize> {
+    let v = appendable(path)?;
     let line = entry_line(fields, v.entries + 1, &v.last_sha256)?;
     let err = |source| Error::Write { path: path.to_path_buf(), source };
     let mut f = std::fs::OpenOptions::new().create(true).append(true).open(path).map_err(err)?;

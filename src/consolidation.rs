@@ -48,6 +48,11 @@ pub struct Element {
     pub mv_lin: f64,
 }
 
+/// Convergence tolerance of the storage iteration, kPa.
+const PICARD_TOL_KPA: f64 = 1e-3;
+/// Iteration limit of the storage iteration (the last iterate is kept).
+const PICARD_MAX: usize = 12;
+
 /// A vertical column of the ground at offset x from the centreline.
 #[derive(Debug, Clone)]
 pub struct Column {
@@ -141,16 +146,32 @@ impl Column {
         }
     }
 
-    /// Storage mv·h/2 of element e at its end `end` (0 top, 1 bottom).
-    fn storage(&self, st: &ColumnState, e: usize, end: usize) -> f64 {
+    /// Storage mv·h/2 of element e at its end `end` (0 top, 1 bottom). With
+    /// `u_new` (a trial solution of the step) in stress-dependent mode, mv is
+    /// the secant (ε(σ'new) − ε(σ'old)) / (σ'new − σ'old) of the e–log σ'
+    /// law, so that the step conserves volume exactly (the modified Picard
+    /// scheme of Celia, Bouloutas & Zarba 1990); without it, the tangent at
+    /// the start of the step.
+    fn storage(&self, st: &ColumnState, e: usize, end: usize, u_new: Option<&[f64]>) -> f64 {
         let el = &self.elements[e];
         let Some(c) = el.clay else { return 0.0 };
-        let mv = match self.mode {
-            ConsolidationMode::Linear => el.mv_lin,
-            ConsolidationMode::StressDependent => {
-                let i = e + end;
+        let i = e + end;
+        let mv = match (self.mode, u_new) {
+            (ConsolidationMode::Linear, _) => el.mv_lin,
+            (ConsolidationMode::StressDependent, None) => {
+                ground::mv_tangent(&c, self.sigma_eff(st, i), el.sp0[end].max(st.smax[i]))
+            }
+            (ConsolidationMode::StressDependent, Some(u)) => {
+                let s_old = self.sigma_eff(st, i);
+                let s_new = s_old + st.u[i] - u[i];
                 let sp = el.sp0[end].max(st.smax[i]);
-                ground::mv_tangent(&c, self.sigma_eff(st, i), sp)
+                if (s_new - s_old).abs() < 1e-6 {
+                    ground::mv_tangent(&c, s_old, sp)
+                } else {
+                    let s0 = self.nodes[i].sigma_v0_eff_kpa;
+                    let eps = |s: f64, smax: f64| ground::strain(&c, s0, el.sp0[end], smax.max(s), s);
+                    (eps(s_new, st.smax[i].max(s_new)) - eps(s_old, st.smax[i])) / (s_new - s_old)
+                }
             }
         };
         0.5 * el.h_m * mv
@@ -185,28 +206,50 @@ impl Column {
         }
     }
 
-    /// One θ-scheme step of the diffusion–sink equation.
+    /// One θ-scheme step of the diffusion–sink equation. Conductivities are
+    /// taken at the start of the step; in stress-dependent mode the storage
+    /// is iterated (modified Picard, secant mv) until the step's solution
+    /// changes by less than `PICARD_TOL_KPA`, at most `PICARD_MAX` times,
+    /// so that the result depends smoothly on the inputs even where σ'
+    /// crosses σ'p within a step.
     fn diffuse(&self, st: &mut ColumnState, dt: f64, theta: f64) {
-        let n = self.nodes.len();
         let ne = self.elements.len();
         let k: Vec<f64> = (0..ne).map(|e| self.conductivity(st, e)).collect();
-        let cond: Vec<f64> = (0..ne).map(|e| k[e] / self.elements[e].h_m).collect();
+        let mut u = self.solve_step(st, &k, dt, theta, None);
+        if self.mode == ConsolidationMode::StressDependent {
+            for _ in 0..PICARD_MAX {
+                let next = self.solve_step(st, &k, dt, theta, Some(&u));
+                let change = next.iter().zip(&u).map(|(a, b)| (a - b).abs()).fold(0.0, f64::max);
+                u = next;
+                if change < PICARD_TOL_KPA {
+                    break;
+                }
+            }
+        }
+        st.u.copy_from_slice(&u);
+    }
+
+    /// Assemble and solve one θ-step from `st` with conductances K = k/γw per
+    /// element and the storage of `storage(…, trial)`; returns the new u.
+    fn solve_step(&self, st: &ColumnState, k: &[f64], dt: f64, theta: f64, trial: Option<&[f64]>) -> Vec<f64> {
+        let n = self.nodes.len();
+        let ne = self.elements.len();
         let (mut a, mut b, mut c, mut d) = (vec![0.0; n], vec![0.0; n], vec![0.0; n], vec![0.0; n]);
         for i in 0..n {
             if self.fixed[i] {
                 b[i] = 1.0;
                 continue;
             }
-            let up = if i > 0 { cond[i - 1] } else { 0.0 };
-            let down = if i < ne { cond[i] } else { 0.0 };
+            let up = if i > 0 { k[i - 1] / self.elements[i - 1].h_m } else { 0.0 };
+            let down = if i < ne { k[i] / self.elements[i].h_m } else { 0.0 };
             let mut s = 0.0;
             let mut r = 0.0;
             if i > 0 {
-                s += self.storage(st, i - 1, 1);
+                s += self.storage(st, i - 1, 1, trial);
                 r += self.sink(i - 1, i, k[i - 1]);
             }
             if i < ne {
-                s += self.storage(st, i, 0);
+                s += self.storage(st, i, 0, trial);
                 r += self.sink(i, i, k[i]);
             }
             let u = &st.u;
@@ -219,7 +262,7 @@ impl Column {
             d[i] = s / dt * u[i] + (1.0 - theta) * flux;
         }
         thomas(&a, &mut b, &c, &mut d);
-        st.u.copy_from_slice(&d);
+        d
     }
 
     /// Radial sink conductance of element e's half-cell at node i, given the

@@ -649,7 +649,7 @@ fn instruments(c: &mut Check, raw: &[RawInstrument], info: &ProjectInfo, g: &Gro
         let offset_m = c.num(&key("offset_m"), r.offset_m, Low::Incl(-500.0), 500.0);
         let depth_m = match (kind, r.depth_m) {
             (InstrumentKind::Piezometer, Some(d)) => c.num(&key("depth_m"), d, Low::Excl(0.0), depth_limit),
-            (InstrumentKind::Piezometer, None) => {
+            (InstrumentKind::Piezometer, None) if r.kind == "piezometer" => {
                 c.bad(&key("depth_m"), "is missing; a piezometer needs the depth of its tip below OGL".into());
                 0.0
             }
@@ -660,7 +660,7 @@ fn instruments(c: &mut Check, raw: &[RawInstrument], info: &ProjectInfo, g: &Gro
                 );
                 0.0
             }
-            (_, None) => 0.0,
+            _ => 0.0,
         };
         let baseline_value = c.num(&key("baseline_value"), r.baseline_value, Low::Incl(-1.0e5), 1.0e5);
         let baseline_date = c.date(&key("baseline_date"), &r.baseline_date);

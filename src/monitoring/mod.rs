@@ -9,3 +9,6 @@ pub mod readings;
 pub mod release;
 pub mod replay;
 pub mod synth;
+
+#[cfg(test)]
+mod tests;

@@ -218,6 +218,15 @@ pub fn check(p: &Project, r: &Readings, lift_m: f64, on: Option<NaiveDate>) -> R
     let instruments = statuses(p, r, &cal, &engine);
     let mut rules = trend_rules(p, r, &instruments);
     rules.push(Rule {
+        name: "FS of the section now",
+        value: Some(fs_now),
+        limit: target,
+        unit: "",
+        must_be: "below",
+        verdict: if fs_now >= target { Verdict::Pass } else { Verdict::Fail },
+        detail: format!("crest {height_now:.2} m at the hold point, calibrated model and measured pore pressures"),
+    });
+    rules.push(Rule {
         name: "FS of the next lift",
         value: Some(fs_next),
         limit: target,
@@ -233,7 +242,7 @@ pub fn check(p: &Project, r: &Readings, lift_m: f64, on: Option<NaiveDate>) -> R
     });
     let decision = if rules.iter().any(|r| r.verdict == Verdict::Fail) { Decision::Hold } else { Decision::Release };
     let fs_fails = fs_next < target;
-    let trend_fails = rules.iter().any(|r| r.verdict == Verdict::Fail && r.name != "FS of the next lift");
+    let trend_fails = rules.iter().any(|r| r.verdict == Verdict::Fail && !r.name.starts_with("FS of"));
     let (earliest_release, release_note) = if !fs_fails {
         let note = if trend_fails {
             "the factor of safety is met; release when the failing readings rules clear on new readings".to_string()

@@ -296,13 +296,17 @@ pub(crate) fn earliest_safe_day(r: &Runner, st: &State, first: i64, lift: f64, e
     let (mut lo, mut f_lo) = (first, f(first, effort)?);
     let mut step = 14;
     let (mut hi, mut f_hi) = loop {
-        let day = r.next_workable(first + step)?;
+        let rest = step.min(MAX_REST_DAYS);
+        if first + rest > r.calendar.horizon() {
+            return Err(unreachable_height(r, st, lift));
+        }
+        let day = r.next_workable(first + rest)?;
         let v = f(day, effort)?;
         if v >= 0.0 {
             break (day, v);
         }
         (lo, f_lo) = (day, v);
-        if step > MAX_REST_DAYS {
+        if rest >= MAX_REST_DAYS {
             return Err(unreachable_height(r, st, lift));
         }
         step *= 2;
