@@ -11,6 +11,10 @@ use serde::Serialize;
 
 /// Fewest resampled points for a fit that is reported as reliable.
 pub const MIN_POINTS: usize = 6;
+/// Lowest degree of consolidation (settlement now over forecast final) at
+/// which the forecast is reported as reliable (Asaoka 1978: the method rests
+/// on the first term of the consolidation series, dominant beyond about 60%).
+pub const MIN_DEGREE: f64 = 0.6;
 /// Fewest actual readings in the fitted window for a reliable fit.
 pub const MIN_READINGS: usize = 4;
 
@@ -130,6 +134,15 @@ pub fn asaoka(t: &[f64], s: &[f64], dt: f64, drainage: Drainage) -> Asaoka {
     let mut notes = Vec::new();
     if pts.len() < MIN_POINTS {
         notes.push(format!("only {} resampled points (at least {MIN_POINTS} needed)", pts.len()));
+    }
+    if let Some(u) = out.degree
+        && u < MIN_DEGREE
+    {
+        notes.push(format!(
+            "settlement is only {:.0}% of the forecast final value; the construction needs the later, first-mode part of the record (U ≥ {:.0}%)",
+            100.0 * u,
+            100.0 * MIN_DEGREE
+        ));
     }
     if t.len() < MIN_READINGS {
         notes.push(format!("only {} readings since the last load change (at least {MIN_READINGS} needed)", t.len()));
