@@ -298,7 +298,7 @@ pub(crate) fn earliest_safe_day(r: &Runner, st: &State, first: i64, lift: f64, e
     let (mut hi, mut f_hi) = loop {
         let rest = step.min(MAX_REST_DAYS);
         if first + rest > r.calendar.horizon() {
-            return Err(unreachable_height(r, st, lift));
+            return Err(unreachable_height(r, st, lift, lo - first));
         }
         let day = r.next_workable(first + rest)?;
         let v = f(day, effort)?;
@@ -307,7 +307,7 @@ pub(crate) fn earliest_safe_day(r: &Runner, st: &State, first: i64, lift: f64, e
         }
         (lo, f_lo) = (day, v);
         if rest >= MAX_REST_DAYS {
-            return Err(unreachable_height(r, st, lift));
+            return Err(unreachable_height(r, st, lift, rest));
         }
         step *= 2;
     };
@@ -335,13 +335,16 @@ pub(crate) fn earliest_safe_day(r: &Runner, st: &State, first: i64, lift: f64, e
     Ok(hi)
 }
 
-fn unreachable_height(r: &Runner, st: &State, lift: f64) -> Error {
+/// The error for a lift that stays unsafe after resting `rested` days (the
+/// longest rest tried; shorter than 20 years when the calendar horizon
+/// ends first).
+fn unreachable_height(r: &Runner, st: &State, lift: f64, rested: i64) -> Error {
     let p = r.engine.project;
     Error::Computation(format!(
-        "cannot be built to {:.2} m with FS ≥ {:.2}: even after resting {} years at {:.2} m a {:.2} m lift stays below the target. Consider berms, reinforcement, closer drains or a lower target height.",
+        "cannot be built to {:.2} m with FS ≥ {:.2}: even after resting {:.1} years at {:.2} m a {:.2} m lift stays below the target. Consider berms, reinforcement, closer drains or a lower target height.",
         p.max_height_m(),
         p.criteria.fs_construction,
-        MAX_REST_DAYS / 365,
+        rested as f64 / crate::model::DAYS_PER_YEAR,
         st.height_m,
         lift
     ))
