@@ -11,6 +11,7 @@ pub mod audit;
 pub mod cli;
 pub mod consolidation;
 pub mod error;
+pub mod fuzzing;
 pub mod ground;
 pub mod input;
 pub mod load;

@@ -184,3 +184,16 @@ fn pore_pressure_jumps_with_each_lift_and_falls_in_rests_faster_with_drains() {
     let last = with.len() - 1;
     assert!(with[last].0 < 0.7 * without[last].0, "{:?} vs {:?}", with[last], without[last]);
 }
+
+#[test]
+fn an_extreme_site_ends_with_a_clear_answer() {
+    // 50 m of clay with su0 = 2 kPa, cv = 0.1 m²/year and no drains under
+    // a 15 m embankment (issue #9's extreme case): the planner must stop
+    // with "cannot be built" and the reason, not search for ever.
+    let p = load("tests/data/extreme.toml");
+    let e = Engine::new(&p);
+    let err = plan(&Runner::new(&e)).expect_err("not buildable");
+    let msg = err.to_string();
+    assert!(msg.contains("cannot be built to 15.00 m") && msg.contains("untouched ground"), "{msg}");
+    assert_eq!(err.exit_code(), 1);
+}

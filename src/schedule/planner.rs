@@ -294,6 +294,15 @@ pub(crate) fn earliest_safe_day(r: &Runner, st: &State, first: i64, lift: f64, e
     let target = r.engine.project.criteria.fs_construction;
     let f = |day: i64, effort: &mut Effort| -> Result<f64> { Ok(trial(r, st, day, lift, effort)? - target) };
     let (mut lo, mut f_lo) = (first, f(first, effort)?);
+    if st.height_m <= 1e-9 && r.engine.peak_excess(st) < 1e-6 {
+        let p = r.engine.project;
+        return Err(Error::Computation(format!(
+            "cannot be built to {:.2} m with FS ≥ {:.2}: even the thinnest lift ({lift:.2} m) on the untouched ground has FS {:.2}, and resting without load brings no strength gain. Consider berms, reinforcement, a lighter fill or ground improvement.",
+            p.max_height_m(),
+            target,
+            f_lo + target
+        )));
+    }
     let mut step = 14;
     let (mut hi, mut f_hi) = loop {
         let rest = step.min(MAX_REST_DAYS);
