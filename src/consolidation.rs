@@ -50,8 +50,11 @@ pub struct Element {
 
 /// Convergence tolerance of the storage iteration, kPa.
 const PICARD_TOL_KPA: f64 = 1e-3;
-/// Iteration limit of the storage iteration (the last iterate is kept).
-const PICARD_MAX: usize = 12;
+/// Iteration limit of the storage iteration (the last iterate is kept and
+/// the step counted as unconverged).
+const PICARD_MAX: usize = 40;
+/// Plain iterations before under-relaxation starts.
+const PICARD_UNDAMPED: usize = 2;
 
 /// A vertical column of the ground at offset x from the centreline.
 #[derive(Debug, Clone)]
@@ -179,7 +182,15 @@ impl Column {
 
     /// Apply new total stress increments (generating excess pore pressure by
     /// `rule`) and advance the state by `dt_days`.
-    pub fn step(&self, st: &mut ColumnState, new_load: &[crate::load::Stress], rule: PorePressureRule, dt_days: f64) {
+    /// Returns false when the storage iteration stopped at its limit
+    /// without converging (the last iterate is kept).
+    pub fn step(
+        &self,
+        st: &mut ColumnState,
+        new_load: &[crate::load::Stress],
+        rule: PorePressureRule,
+        dt_days: f64,
+    ) -> bool {
         let mut changed = false;
         for (i, new) in new_load.iter().enumerate() {
             let old = st.load[i];
@@ -197,13 +208,14 @@ impl Column {
         }
         let theta = if st.implicit_left > 0 { 1.0 } else { 0.5 };
         st.implicit_left = st.implicit_left.saturating_sub(1);
-        self.diffuse(st, dt_days, theta);
+        let converged = self.diffuse(st, dt_days, theta);
         for i in 0..self.nodes.len() {
             let s = self.sigma_eff(st, i);
             if s > st.smax[i] {
                 st.smax[i] = s;
             }
         }
+        converged
     }
 
     /// One θ-scheme step of the diffusion–sink equation. Conductivities are
@@ -212,21 +224,34 @@ impl Column {
     /// changes by less than `PICARD_TOL_KPA`, at most `PICARD_MAX` times,
     /// so that the result depends smoothly on the inputs even where σ'
     /// crosses σ'p within a step.
-    fn diffuse(&self, st: &mut ColumnState, dt: f64, theta: f64) {
+    /// Returns whether the iteration converged.
+    fn diffuse(&self, st: &mut ColumnState, dt: f64, theta: f64) -> bool {
         let ne = self.elements.len();
         let k: Vec<f64> = (0..ne).map(|e| self.conductivity(st, e)).collect();
         let mut u = self.solve_step(st, &k, dt, theta, None);
-        if self.mode == ConsolidationMode::StressDependent {
-            for _ in 0..PICARD_MAX {
-                let next = self.solve_step(st, &k, dt, theta, Some(&u));
+        let mut converged = self.mode != ConsolidationMode::StressDependent;
+        if !converged {
+            for it in 0..PICARD_MAX {
+                let mut next = self.solve_step(st, &k, dt, theta, Some(&u));
+                if it >= PICARD_UNDAMPED {
+                    // Under-relaxation stops the two-cycle that the kink of
+                    // the e–log σ' law at σ'p can cause at a node sitting on
+                    // σ'p (the secant mv jumps from Cr to Cc with the sign of
+                    // a vanishing change); the update then halves each time.
+                    for (n, o) in next.iter_mut().zip(&u) {
+                        *n = 0.5 * (*n + o);
+                    }
+                }
                 let change = next.iter().zip(&u).map(|(a, b)| (a - b).abs()).fold(0.0, f64::max);
                 u = next;
                 if change < PICARD_TOL_KPA {
+                    converged = true;
                     break;
                 }
             }
         }
         st.u.copy_from_slice(&u);
+        converged
     }
 
     /// Assemble and solve one θ-step from `st` with conductances K = k/γw per

@@ -26,6 +26,8 @@ pub struct Engine<'p> {
     table: Vec<OnceLock<Vec<Vec<Stress>>>>,
     /// Time steps taken so far (all columns advance together).
     steps: AtomicUsize,
+    /// Column steps whose storage iteration stopped at its limit.
+    unconverged: AtomicUsize,
 }
 
 /// The state of the ground and the fill at one moment.
@@ -54,12 +56,28 @@ impl<'p> Engine<'p> {
     pub fn new(project: &'p Project) -> Engine<'p> {
         let columns = column_offsets(project).iter().map(|c| Column::new(project, c.x_m)).collect();
         let table = (0..LEVELS).map(|_| OnceLock::new()).collect();
-        Engine { project, columns, table, steps: AtomicUsize::new(0) }
+        Engine { project, columns, table, steps: AtomicUsize::new(0), unconverged: AtomicUsize::new(0) }
     }
 
     /// Consolidation time steps taken so far by this engine.
     pub fn steps_taken(&self) -> usize {
         self.steps.load(Ordering::Relaxed)
+    }
+
+    /// Column steps so far whose storage iteration did not converge.
+    pub fn unconverged_steps(&self) -> usize {
+        self.unconverged.load(Ordering::Relaxed)
+    }
+
+    /// A warning when some storage iterations did not converge, else None.
+    pub fn convergence_warning(&self) -> Option<String> {
+        let n = self.unconverged_steps();
+        (n > 0).then(|| {
+            format!(
+                "the consolidation storage iteration stopped at its limit without converging in {n} column step(s) of {}; results near σ'p may be less accurate: try smaller time steps",
+                self.columns.len() * self.steps_taken()
+            )
+        })
     }
 
     /// Columns' names and offsets.
@@ -122,7 +140,9 @@ impl<'p> Engine<'p> {
         let mut buf = Vec::new();
         for (c, col) in self.columns.iter().enumerate() {
             self.loads(c, placed, gamma, &mut buf);
-            col.step(&mut st.cols[c], &buf, rule, dt_days);
+            if !col.step(&mut st.cols[c], &buf, rule, dt_days) {
+                self.unconverged.fetch_add(1, Ordering::Relaxed);
+            }
         }
         st.settlement_centre_m = self.columns[0].settlement(&st.cols[0]);
         self.steps.fetch_add(1, Ordering::Relaxed);

@@ -268,6 +268,9 @@ pub fn check(p: &Project, r: &Readings, lift_m: f64, on: Option<NaiveDate>) -> R
         }
     };
     let mut warnings = r.warnings.clone();
+    if let Some(message) = engine.convergence_warning() {
+        warnings.push(Warning { line: None, instrument: String::new(), message });
+    }
     if !cal.fit.within_range {
         warnings.push(Warning {
             line: None,

@@ -145,6 +145,7 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
         let mut rec = recorder(r, &depths, &mut series, &mut effort);
         r.rest_until(&mut st, end, &mut rec);
     }
+    warnings.extend(r.engine.convergence_warning());
     Ok(Assessment {
         mode: p.analysis.mode,
         fs_target: p.criteria.fs_construction,

@@ -490,6 +490,7 @@ fn totals(
         .unwrap_or((f64::INFINITY, 0));
     let fs_finish = r.stability(st, &mut effort)?.critical.fs;
     effort.consolidation_steps = r.engine.steps_taken();
+    warnings.extend(r.engine.convergence_warning());
     if fs_finish < p.criteria.fs_service {
         warnings
             .push(format!("FS at the finish {fs_finish:.3} is below the service target {:.2}", p.criteria.fs_service));
