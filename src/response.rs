@@ -188,17 +188,20 @@ impl<'p> Engine<'p> {
     /// each column and in offset between columns (symmetric about the
     /// centreline, constant beyond the outermost column).
     pub fn excess_at_point(&self, st: &State, x_m: f64, z_m: f64) -> f64 {
-        let xs: Vec<f64> = self.columns.iter().map(|c| c.x_m).collect();
-        let (j, w) = bracket(xs.len(), |k| xs[k], x_m.abs());
+        let (j, w) = self.column_bracket(x_m);
         self.excess_at(st, j, z_m) * (1.0 - w) + self.excess_at(st, j + 1, z_m) * w
     }
 
     /// Surface settlement at offset x, m (linear between columns).
     pub fn settlement_at(&self, st: &State, x_m: f64) -> f64 {
-        let xs: Vec<f64> = self.columns.iter().map(|c| c.x_m).collect();
-        let (j, w) = bracket(xs.len(), |k| xs[k], x_m.abs());
+        let (j, w) = self.column_bracket(x_m);
         let s = |c: usize| self.columns[c].settlement(&st.cols[c]);
         s(j) * (1.0 - w) + s(j + 1) * w
+    }
+
+    /// Columns either side of offset x and the weight of the outer one.
+    fn column_bracket(&self, x_m: f64) -> (usize, f64) {
+        bracket(self.columns.len(), |k| self.columns[k].x_m, x_m.abs())
     }
 
     /// Vertical total stress increment from the fill at offset x and depth

@@ -43,24 +43,14 @@ fn at(s: &str) -> NaiveDateTime {
 /// Synthetic readings of the demo site along the first two planned lifts.
 fn synthetic(multiplier: f64, until: &str, rise_kpa: f64) -> String {
     let p = load(DEMO);
-    let recipe = Recipe {
-        fill: vec![
-            (at("2027-04-05T07:00"), 0.0),
-            (at("2027-04-20T17:00"), 2.5),
-            (at("2027-05-05T07:00"), 2.5),
-            (at("2027-05-19T17:00"), 5.0),
-        ],
-        multiplier,
-        every_days: 3,
-        until: at(until),
-        seed: 11,
-        sd_kpa: 0.5,
-        sd_m: 0.002,
-        lateral_ratio_filling: 0.35,
-        lateral_ratio_resting: 0.1,
-        rise_kpa,
-        rise_days: 12.0,
-    };
+    let fill = vec![
+        (at("2027-04-05T07:00"), 0.0),
+        (at("2027-04-20T17:00"), 2.5),
+        (at("2027-05-05T07:00"), 2.5),
+        (at("2027-05-19T17:00"), 5.0),
+    ];
+    let recipe =
+        Recipe { sd_kpa: 0.5, sd_m: 0.002, rise_kpa, rise_days: 12.0, ..Recipe::new(fill, multiplier, at(until), 11) };
     readings_csv(&p, &recipe, "synthetic readings for a test")
 }
 

@@ -62,8 +62,39 @@ pub struct Rule {
     /// "above" (value must not exceed the limit) or "below".
     pub must_be: &'static str,
     pub verdict: Verdict,
+    /// "readings" (a trend in the field data) or "model" (a factor of
+    /// safety from the calibrated model).
+    pub basis: &'static str,
     /// Which instrument or what governs, in words.
     pub detail: String,
+}
+
+impl Rule {
+    /// A rule passed while `value` does not exceed `limit`.
+    fn at_most(name: &'static str, value: f64, limit: f64, unit: &'static str, detail: String) -> Rule {
+        let verdict = if value > limit { Verdict::Fail } else { Verdict::Pass };
+        Rule { name, value: Some(value), limit, unit, must_be: "above", verdict, basis: "readings", detail }
+    }
+
+    /// A rule passed while `value` is at least `limit`.
+    fn at_least(name: &'static str, value: f64, limit: f64, detail: String) -> Rule {
+        let verdict = if value >= limit { Verdict::Pass } else { Verdict::Fail };
+        Rule { name, value: Some(value), limit, unit: "", must_be: "below", verdict, basis: "model", detail }
+    }
+
+    /// A rule that could not be judged for lack of readings.
+    fn not_evaluated(name: &'static str, limit: f64, unit: &'static str, why: &str) -> Rule {
+        Rule {
+            name,
+            value: None,
+            limit,
+            unit,
+            must_be: "above",
+            verdict: Verdict::NotEvaluated,
+            basis: "readings",
+            detail: why.into(),
+        }
+    }
 }
 
 /// What each instrument shows at the hold point.
@@ -217,32 +248,26 @@ pub fn check(p: &Project, r: &Readings, lift_m: f64, on: Option<NaiveDate>) -> R
 
     let instruments = statuses(p, r, &cal, &engine);
     let mut rules = trend_rules(p, r, &instruments);
-    rules.push(Rule {
-        name: "FS of the section now",
-        value: Some(fs_now),
-        limit: target,
-        unit: "",
-        must_be: "below",
-        verdict: if fs_now >= target { Verdict::Pass } else { Verdict::Fail },
-        detail: format!("crest {height_now:.2} m at the hold point, calibrated model and measured pore pressures"),
-    });
-    rules.push(Rule {
-        name: "FS of the next lift",
-        value: Some(fs_next),
-        limit: target,
-        unit: "",
-        must_be: "below",
-        verdict: if fs_next >= target { Verdict::Pass } else { Verdict::Fail },
-        detail: format!(
+    rules.push(Rule::at_least(
+        "FS of the section now",
+        fs_now,
+        target,
+        format!("crest {height_now:.2} m at the hold point, calibrated model and measured pore pressures"),
+    ));
+    rules.push(Rule::at_least(
+        "FS of the next lift",
+        fs_next,
+        target,
+        format!(
             "{lift_m:.2} m lift to {:.2} m, calibrated model (cv, ch × {:.2}), pore pressures × {:.2}",
             height_now + lift_m,
             cal.fit.multiplier,
             cal.pore_pressure_factor
         ),
-    });
+    ));
     let decision = if rules.iter().any(|r| r.verdict == Verdict::Fail) { Decision::Hold } else { Decision::Release };
     let fs_fails = fs_next < target;
-    let trend_fails = rules.iter().any(|r| r.verdict == Verdict::Fail && !r.name.starts_with("FS of"));
+    let trend_fails = rules.iter().any(|r| r.verdict == Verdict::Fail && r.basis == "readings");
     let (earliest_release, release_note) = if !fs_fails {
         let note = if trend_fails {
             "the factor of safety is met; release when the failing readings rules clear on new readings".to_string()
@@ -402,16 +427,14 @@ fn trend_rules(p: &Project, r: &Readings, st: &[InstrumentStatus]) -> Vec<Rule> 
         }
     }
     rules.push(match rise {
-        Some((v, id)) => Rule {
-            name: "pore pressure rise under constant load",
-            value: Some(v),
-            limit: m.pore_rise_limit_kpa,
-            unit: "kPa",
-            must_be: "above",
-            verdict: if v > m.pore_rise_limit_kpa { Verdict::Fail } else { Verdict::Pass },
-            detail: format!("largest at {id}: latest reading over the lowest since the last lift ended"),
-        },
-        None => not_evaluated(
+        Some((v, id)) => Rule::at_most(
+            "pore pressure rise under constant load",
+            v,
+            m.pore_rise_limit_kpa,
+            "kPa",
+            format!("largest at {id}: latest reading over the lowest since the last lift ended"),
+        ),
+        None => Rule::not_evaluated(
             "pore pressure rise under constant load",
             m.pore_rise_limit_kpa,
             "kPa",
@@ -425,26 +448,20 @@ fn trend_rules(p: &Project, r: &Readings, st: &[InstrumentStatus]) -> Vec<Rule> 
             .filter_map(|s| s.rate_mm_per_day.map(|v| (v.abs(), s.id.clone())))
             .max_by(|a, b| a.0.total_cmp(&b.0));
         match best {
-            Some((v, id)) => Rule {
+            Some((v, id)) => Rule::at_most(
                 name,
-                value: Some(v),
+                v,
                 limit,
-                unit: "mm/day",
-                must_be: "above",
-                verdict: if v > limit { Verdict::Fail } else { Verdict::Pass },
-                detail: format!("largest at {id} over the last {:.0} days", m.rate_window_days),
-            },
-            None => not_evaluated(name, limit, "mm/day", "fewer than two readings in the rate window"),
+                "mm/day",
+                format!("largest at {id} over the last {:.0} days", m.rate_window_days),
+            ),
+            None => Rule::not_evaluated(name, limit, "mm/day", "fewer than two readings in the rate window"),
         }
     };
     rules.push(rate_rule(InstrumentKind::SettlementPlate, "settlement rate", m.settlement_rate_limit_mm_per_day));
     rules.push(rate_rule(InstrumentKind::LateralMarker, "lateral movement rate", m.lateral_rate_limit_mm_per_day));
     rules.push(ratio_rule(p, r));
     rules
-}
-
-fn not_evaluated(name: &'static str, limit: f64, unit: &'static str, why: &str) -> Rule {
-    Rule { name, value: None, limit, unit, must_be: "above", verdict: Verdict::NotEvaluated, detail: why.into() }
 }
 
 /// Lateral movement increment at each marker over the centreline settlement
@@ -460,7 +477,7 @@ fn ratio_rule(p: &Project, r: &Readings) -> Rule {
         .filter(|(_, i)| i.kind == InstrumentKind::SettlementPlate)
         .min_by(|a, b| a.1.offset_m.abs().total_cmp(&b.1.offset_m.abs()));
     let (Some(start), Some((kp, plate))) = (start, plate) else {
-        return not_evaluated(name, limit, "", "needs a lift in the fill record and a settlement plate");
+        return Rule::not_evaluated(name, limit, "", "needs a lift in the fill record and a settlement plate");
     };
     let increment = |k: usize| -> Option<f64> {
         let pts = series(r, k);
@@ -469,10 +486,15 @@ fn ratio_rule(p: &Project, r: &Readings) -> Rule {
         (now.0 > before.0).then_some(now.1 - before.1)
     };
     let Some(ds) = increment(kp) else {
-        return not_evaluated(name, limit, "", "no plate readings span the last lift");
+        return Rule::not_evaluated(name, limit, "", "no plate readings span the last lift");
     };
     if ds < 2.0 * p.monitoring.settlement_noise_m {
-        return not_evaluated(name, limit, "", "settlement since the last lift is within twice the reading noise");
+        return Rule::not_evaluated(
+            name,
+            limit,
+            "",
+            "settlement since the last lift is within twice the reading noise",
+        );
     }
     let best = p
         .instruments
@@ -482,16 +504,10 @@ fn ratio_rule(p: &Project, r: &Readings) -> Rule {
         .filter_map(|(k, i)| increment(k).map(|d| (d / ds, i.id.clone())))
         .max_by(|a, b| a.0.total_cmp(&b.0));
     match best {
-        Some((v, id)) => Rule {
-            name,
-            value: Some(v),
-            limit,
-            unit: "",
-            must_be: "above",
-            verdict: if v > limit { Verdict::Fail } else { Verdict::Pass },
-            detail: format!("{id} against {} since the last lift began", plate.id),
-        },
-        None => not_evaluated(name, limit, "", "no lateral-marker readings span the last lift"),
+        Some((v, id)) => {
+            Rule::at_most(name, v, limit, "", format!("{id} against {} since the last lift began", plate.id))
+        }
+        None => Rule::not_evaluated(name, limit, "", "no lateral-marker readings span the last lift"),
     }
 }
 

@@ -37,6 +37,27 @@ pub struct Recipe {
     pub rise_days: f64,
 }
 
+impl Recipe {
+    /// A recipe with the standard noise (1 kPa, 3 mm), lateral ratios of
+    /// 0.35 while filling and 0.1 while resting, and no added pore-pressure
+    /// rise.
+    pub fn new(fill: Vec<(NaiveDateTime, f64)>, multiplier: f64, until: NaiveDateTime, seed: u64) -> Recipe {
+        Recipe {
+            fill,
+            multiplier,
+            every_days: 3,
+            until,
+            seed,
+            sd_kpa: 1.0,
+            sd_m: 0.003,
+            lateral_ratio_filling: 0.35,
+            lateral_ratio_resting: 0.1,
+            rise_kpa: 0.0,
+            rise_days: 0.0,
+        }
+    }
+}
+
 /// A seeded normal generator.
 pub struct Noise(u64);
 

@@ -53,23 +53,18 @@ fn at(s: &str) -> NaiveDateTime {
 /// and noise, readings every 3 days to the hold point before lift 4.
 fn demo_readings(multiplier: f64, seed: u64, rise_kpa: f64) -> (crate::model::Project, String) {
     let p = crate::input::parse(crate::app::DEMO, "demo").expect("demo validates");
+    let fill = vec![
+        (at("2027-04-05T07:00"), 0.0),
+        (at("2027-04-20T17:00"), 2.5),
+        (at("2027-05-05T07:00"), 2.5),
+        (at("2027-05-19T17:00"), 5.0),
+    ];
     let recipe = Recipe {
-        fill: vec![
-            (at("2027-04-05T07:00"), 0.0),
-            (at("2027-04-20T17:00"), 2.5),
-            (at("2027-05-05T07:00"), 2.5),
-            (at("2027-05-19T17:00"), 5.0),
-        ],
-        multiplier,
-        every_days: 3,
-        until: at("2027-06-20T09:00"),
-        seed,
         sd_kpa: 1.5,
         sd_m: 0.005,
-        lateral_ratio_filling: 0.35,
-        lateral_ratio_resting: 0.1,
         rise_kpa,
         rise_days: 12.0,
+        ..Recipe::new(fill, multiplier, at("2027-06-20T09:00"), seed)
     };
     let text = readings_csv(&p, &recipe, "synthetic test readings");
     (p, text)
