@@ -36,6 +36,13 @@ pub fn run(cmd: &Command) -> Result<String> {
                 PlanOutputs { csv: csv.as_deref(), ics: ics.as_deref(), pdf: pdf.as_deref(), dir: out.as_deref() };
             plan(project.as_deref(), readings.as_deref(), &outs, *json)
         }
+        Command::Compare { project, vary, csv, pdf, json } => {
+            compare(project, vary, csv.as_deref(), pdf.as_deref(), *json)
+        }
+        Command::Risk { project, runs, seed, threads, pdf, json } => {
+            let opts = crate::risk::RiskOptions { runs: *runs, seed: *seed, threads: *threads };
+            risk(project, opts, pdf.as_deref(), *json)
+        }
         Command::Release { project, readings, lift, on, pdf, log, json } => {
             let files = ReleaseFiles { readings, pdf: pdf.as_deref(), log: log.as_deref() };
             release(project, &files, *lift, on.as_deref(), *json)
@@ -215,6 +222,81 @@ fn with_progress<T>(f: impl FnOnce(&mut dyn FnMut(f64)) -> T) -> T {
     let out = f(&mut |x| bar.set_position((100.0 * x).round() as u64));
     bar.finish_and_clear();
     out
+}
+
+/// Run `f` with a counting progress bar of `total` steps on standard error
+/// when it is a terminal; `f` calls the tick once per finished step (from
+/// any thread).
+fn with_counter<T>(total: usize, what: &str, f: impl FnOnce(&(dyn Fn() + Sync)) -> T) -> T {
+    use std::io::IsTerminal;
+    if !std::io::stderr().is_terminal() {
+        return f(&|| {});
+    }
+    let bar = indicatif::ProgressBar::new(total as u64);
+    bar.set_style(
+        indicatif::ProgressStyle::with_template(&format!("{what} {{bar:40}} {{pos}}/{{len}} [{{elapsed}}, {{eta}} left]"))
+            .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
+    );
+    bar.enable_steady_tick(std::time::Duration::from_millis(200));
+    let out = f(&|| bar.inc(1));
+    bar.finish_and_clear();
+    out
+}
+
+/// Read a project file as text and as an editable document.
+fn document(path: &Path) -> Result<(String, input::vary::Document)> {
+    let text = std::fs::read_to_string(path).map_err(|source| Error::Read { path: path.to_path_buf(), source })?;
+    let doc = input::vary::Document::parse(&text, &path.display().to_string())?;
+    Ok((text, doc))
+}
+
+fn compare(path: &Path, vary: &[String], csv: Option<&Path>, pdf: Option<&Path>, json: bool) -> Result<String> {
+    for out in [csv, pdf].into_iter().flatten() {
+        output::refuse_overwrite_of_inputs(out, &[path])?;
+    }
+    let (text, doc) = document(path)?;
+    let p = input::parse(&text, &doc.file)?;
+    let axes: Vec<crate::compare::Axis> = vary.iter().map(|v| crate::compare::Axis::parse(v)).collect::<Result<_>>()?;
+    let total = crate::compare::grid(&axes).len();
+    let c = with_counter(total, "planning variants", |tick| crate::compare::compare(&doc, &axes, tick))?;
+    let rep = report::CompareReport { project: &p, comparison: &c, source: doc.file.clone() };
+    if let Some(out) = csv {
+        output::write_atomic(out, report::csv::comparison(&c).as_bytes())?;
+    }
+    if let Some(out) = pdf {
+        output::write_atomic(out, &report::pdf::comparison(&rep, report::today())?)?;
+    }
+    if json { report::json::envelope("compare", &p, &doc.file, &c) } else { Ok(report::text::comparison(&rep)) }
+}
+
+fn risk(path: &Path, opts: crate::risk::RiskOptions, pdf: Option<&Path>, json: bool) -> Result<String> {
+    if let Some(out) = pdf {
+        output::refuse_overwrite_of_inputs(out, &[path])?;
+    }
+    if opts.threads == Some(0) {
+        return Err(Error::Usage("--threads must be at least 1".into()));
+    }
+    let (text, doc) = document(path)?;
+    let p = input::parse(&text, &doc.file)?;
+    if p.uncertainty.params.is_empty() {
+        return Err(Error::input(
+            &doc.file,
+            None,
+            "uncertain",
+            "has no [[uncertain]] entries; declare the uncertain parameters (name, keys, distribution, cov or low/high) to run risk".into(),
+        ));
+    }
+    let engine = Engine::new(&p);
+    let runner = Runner::new(&engine);
+    let plan = with_progress(|tick| planner::plan_with_progress(&runner, tick))?;
+    let started = std::time::Instant::now();
+    let result = with_counter(opts.runs, "realisations", |tick| crate::risk::run(&doc, &p, &plan, opts, tick))?;
+    let seconds = started.elapsed().as_secs_f64();
+    let rep = report::RiskReport { project: &p, risk: &result, source: doc.file.clone(), seconds };
+    if let Some(out) = pdf {
+        output::write_atomic(out, &report::pdf::risk(&rep, report::today())?)?;
+    }
+    if json { report::json::envelope("risk", &p, &doc.file, &result) } else { Ok(report::text::risk(&rep)) }
 }
 
 /// Where `plan` writes its files.

@@ -103,6 +103,54 @@ pub enum Command {
         #[arg(long)]
         json: bool,
     },
+    /// Compare design options: plan the project once for every combination
+    /// of the values given (several --vary multiply into a grid), sorted by
+    /// finish date.
+    #[command(
+        after_help = "Example:\n  fillpace compare examples/kestrel-fen.toml --vary drains.spacing_m=1.0,1.5,2.0 --vary embankment.surcharge_height_m=0,1"
+    )]
+    Compare {
+        /// Project file.
+        project: PathBuf,
+        /// A key path of the project file and the values to try, e.g.
+        /// drains.spacing_m=1.0,1.5,2.0 or ground.layers[1].cv_m2_per_year=1,2.
+        #[arg(long = "vary", value_name = "KEY=V1,V2,...", required = true)]
+        vary: Vec<String>,
+        /// Write the comparison table as CSV.
+        #[arg(long)]
+        csv: Option<PathBuf>,
+        /// Write a PDF page with the table and a duration chart.
+        #[arg(long)]
+        pdf: Option<PathBuf>,
+        /// Print JSON instead of tables.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Monte Carlo over the project's [[uncertain]] parameters: the chance
+    /// that the best-estimate timetable falls below FS 1.0 or the target,
+    /// and the spread of the finish date when each realisation is planned
+    /// afresh.
+    #[command(after_help = "Example:\n  fillpace risk examples/kestrel-fen.toml --runs 500 --seed 7 --pdf risk.pdf")]
+    Risk {
+        /// Project file with [[uncertain]] entries.
+        project: PathBuf,
+        /// Number of realisations.
+        #[arg(long, default_value_t = 200)]
+        runs: usize,
+        /// Seed of the random streams (same seed, same answer).
+        #[arg(long, default_value_t = 1)]
+        seed: u64,
+        /// Worker threads (default: one per core); the answer does not
+        /// depend on it.
+        #[arg(long)]
+        threads: Option<usize>,
+        /// Write the PDF pages (finish-date histogram, FS per stage).
+        #[arg(long)]
+        pdf: Option<PathBuf>,
+        /// Print JSON instead of tables.
+        #[arg(long)]
+        json: bool,
+    },
     /// Hold-point check: may the next lift be placed? Interprets the
     /// readings, calibrates the model, decides RELEASE or HOLD, writes a PDF
     /// certificate and appends the decision to the audit log.

@@ -9,6 +9,7 @@
 pub mod app;
 pub mod audit;
 pub mod cli;
+pub mod compare;
 pub mod consolidation;
 pub mod error;
 pub mod fuzzing;
@@ -18,8 +19,10 @@ pub mod load;
 pub mod model;
 pub mod monitoring;
 pub mod output;
+pub mod random;
 pub mod report;
 pub mod response;
+pub mod risk;
 pub mod schedule;
 pub mod stability;
 

@@ -29,6 +29,52 @@ pub struct Project {
     pub instruments: Vec<Instrument>,
     /// Tolerances and alarm limits of the release check.
     pub monitoring: MonitoringRules,
+    /// Uncertain parameters for Monte Carlo (may be empty).
+    pub uncertainty: Uncertainty,
+}
+
+/// Declared uncertainty: factors with their distributions, and correlations
+/// between them.
+#[derive(Debug, Clone, Default, Serialize)]
+pub struct Uncertainty {
+    pub params: Vec<Uncertain>,
+    pub correlations: Vec<Correlation>,
+}
+
+/// One uncertain quantity: a factor that multiplies the file's values at
+/// each of its keys (so several keys move together, e.g. su0 at the top and
+/// bottom of a layer).
+#[derive(Debug, Clone, Serialize)]
+pub struct Uncertain {
+    pub name: String,
+    /// Key paths in the project file.
+    pub keys: Vec<String>,
+    pub distribution: Distribution,
+}
+
+/// Distribution of a factor. Lognormal and normal have mean 1 and the
+/// stated coefficient of variation; the normal is truncated below at
+/// `NORMAL_FLOOR` (a factor must stay positive); uniform runs low–high.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "distribution", rename_all = "kebab-case")]
+pub enum Distribution {
+    Lognormal { cov: f64 },
+    Normal { cov: f64 },
+    Uniform { low: f64, high: f64 },
+}
+
+/// Lowest factor a truncated normal can take.
+pub const NORMAL_FLOOR: f64 = 0.05;
+
+/// Correlation coefficient between the underlying standard normals of two
+/// factors (a Gaussian copula; for two lognormals, the correlation of their
+/// logarithms).
+#[derive(Debug, Clone, Serialize)]
+pub struct Correlation {
+    /// Indices into `Uncertainty::params`.
+    pub a: usize,
+    pub b: usize,
+    pub coefficient: f64,
 }
 
 /// Title-block information.

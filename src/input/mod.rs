@@ -6,6 +6,7 @@
 pub mod raw;
 pub mod spans;
 mod validate;
+pub mod vary;
 
 use crate::error::{Error, InputIssue, Result};
 use crate::model::Project;
@@ -21,23 +22,34 @@ pub fn load(path: &Path) -> Result<Project> {
 
 /// Validate project text; `file` is the name used in messages.
 pub fn parse(text: &str, file: &str) -> Result<Project> {
-    let table: toml::Table = text.parse().map_err(|e: toml::de::Error| {
+    let table = toml_table(text, file)?;
+    validate_table(table, file, &LineMap::build(text))
+}
+
+/// The TOML syntax layer: text → table, a syntax error naming its line.
+fn toml_table(text: &str, file: &str) -> Result<toml::Table> {
+    text.parse().map_err(|e: toml::de::Error| {
         let line = e.span().map(|s| spans::line_in(text, s.start));
         Error::input(file, line, "", format!("not valid TOML: {}", e.message()))
-    })?;
-    let lines = LineMap::build(text);
+    })
+}
+
+/// Types, ranges and cross-field checks of a parsed table; `lines` maps
+/// key paths to lines of the file (empty for a changed document).
+fn validate_table(table: toml::Table, file: &str, lines: &LineMap) -> Result<Project> {
+    let doc = vary::Document { file: file.to_string(), table };
     let mut unknown = Vec::new();
     let mut on_unknown = |p: serde_ignored::Path<'_>| unknown.push(ignored_path(&p));
-    let de = serde_ignored::Deserializer::new(toml::Value::Table(table), &mut on_unknown);
+    let de = serde_ignored::Deserializer::new(toml::Value::Table(doc.table().clone()), &mut on_unknown);
     let typed: std::result::Result<RawProject, _> = serde_path_to_error::deserialize(de);
-    let mut issues: Vec<InputIssue> = unknown.iter().map(|p| unknown_key_issue(p, &lines)).collect();
+    let mut issues: Vec<InputIssue> = unknown.iter().map(|p| unknown_key_issue(p, lines)).collect();
     match typed {
         Err(e) => {
             let path = error_path(e.path());
             let (key, message) = describe_serde(&path, &e.into_inner().to_string());
             issues.push(InputIssue { line: lines.line(&key), key, message });
         }
-        Ok(raw) if issues.is_empty() => match validate::project(&raw, &lines) {
+        Ok(raw) if issues.is_empty() => match validate::project(&raw, lines, &doc) {
             Ok(p) => return Ok(p),
             Err(mut more) => issues.append(&mut more),
         },
@@ -106,6 +118,8 @@ fn known_fields(parent: &str) -> &'static [&'static str] {
         "sequence[]" => field_names::<RawLift>(),
         "instrument[]" => field_names::<RawInstrument>(),
         "monitoring" => field_names::<RawMonitoring>(),
+        "uncertain[]" => field_names::<RawUncertain>(),
+        "correlation[]" => field_names::<RawCorrelation>(),
         _ => &[],
     }
 }

@@ -21,6 +21,10 @@ pub struct RawProject {
     #[serde(default)]
     pub instrument: Vec<RawInstrument>,
     pub monitoring: Option<RawMonitoring>,
+    #[serde(default)]
+    pub uncertain: Vec<RawUncertain>,
+    #[serde(default)]
+    pub correlation: Vec<RawCorrelation>,
 }
 
 #[derive(Debug, Deserialize)]
@@ -181,6 +185,25 @@ pub struct RawMonitoring {
     pub asaoka_interval_days: Option<f64>,
     pub piezometer_sd_kpa: Option<f64>,
     pub settlement_sd_m: Option<f64>,
+}
+
+#[derive(Debug, Deserialize)]
+pub struct RawUncertain {
+    pub name: String,
+    /// Key paths whose file values are multiplied by the sampled factor.
+    pub keys: Vec<String>,
+    /// "lognormal", "normal" or "uniform".
+    pub distribution: String,
+    pub cov: Option<f64>,
+    pub low: Option<f64>,
+    pub high: Option<f64>,
+}
+
+#[derive(Debug, Deserialize)]
+pub struct RawCorrelation {
+    /// Names of two `[[uncertain]]` entries.
+    pub between: Vec<String>,
+    pub coefficient: f64,
 }
 
 /// Field names of a struct, read from its `Deserialize` impl, so that "did

@@ -10,6 +10,7 @@ use super::readings::{FillPoint, HEADER, day_of};
 use super::replay::replay;
 use crate::model::{FILL_ID, InstrumentKind, Project};
 use crate::response::Engine;
+use crate::random::Noise;
 use chrono::{Duration, NaiveDateTime, NaiveTime};
 
 /// How to make the readings.
@@ -55,34 +56,6 @@ impl Recipe {
             rise_kpa: 0.0,
             rise_days: 0.0,
         }
-    }
-}
-
-/// A seeded normal generator.
-pub struct Noise(u64);
-
-impl Noise {
-    pub fn new(seed: u64) -> Noise {
-        Noise(seed)
-    }
-
-    fn next_u64(&mut self) -> u64 {
-        self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
-        let mut z = self.0;
-        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
-        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
-        z ^ (z >> 31)
-    }
-
-    /// Uniform in (0, 1).
-    fn uniform(&mut self) -> f64 {
-        ((self.next_u64() >> 11) as f64 + 0.5) / (1u64 << 53) as f64
-    }
-
-    /// Standard normal (Box–Muller).
-    pub fn normal(&mut self) -> f64 {
-        let (a, b) = (self.uniform(), self.uniform());
-        (-2.0 * a.ln()).sqrt() * (std::f64::consts::TAU * b).cos()
     }
 }
 

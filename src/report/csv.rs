@@ -83,3 +83,26 @@ pub fn series(a: &Assessment) -> String {
     }
     out
 }
+
+/// The design-option table as CSV, sorted as printed.
+pub fn comparison(c: &crate::compare::Comparison) -> String {
+    let mut out = String::from("variant,settings,lifts,finish,duration_days,min_fs,final_settlement_m,residual_settlement_m,fill_volume_m3_per_m,drain_length_m_per_m,not_buildable\n");
+    for v in &c.variants {
+        let o = v.outcome.as_ref();
+        out.push_str(&format!(
+            "{},{},{},{},{},{},{},{},{},{},{}\n",
+            v.number,
+            field(&v.label),
+            opt(o.map(|o| o.lifts)),
+            opt(o.map(|o| o.finish)),
+            opt(o.map(|o| o.duration_days)),
+            opt(o.map(|o| format!("{:.3}", o.min_fs))),
+            opt(o.map(|o| format!("{:.4}", o.final_settlement_m))),
+            opt(o.map(|o| format!("{:.4}", o.residual_settlement_m))),
+            opt(o.map(|o| format!("{:.2}", o.fill_volume_m3_per_m))),
+            opt(o.map(|o| format!("{:.1}", o.drain_length_m_per_m))),
+            field(v.reason.as_deref().unwrap_or("")),
+        ));
+    }
+    out
+}

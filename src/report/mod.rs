@@ -37,6 +37,101 @@ pub struct PlanReport<'a> {
     pub source_sha256: String,
 }
 
+/// A comparison of design options with its project.
+pub struct CompareReport<'a> {
+    pub project: &'a Project,
+    pub comparison: &'a crate::compare::Comparison,
+    pub source: String,
+}
+
+/// A Monte Carlo result with its project and run time.
+pub struct RiskReport<'a> {
+    pub project: &'a Project,
+    pub risk: &'a crate::risk::RiskResult,
+    pub source: String,
+    /// Wall time of the realisations, s (not part of the JSON output).
+    pub seconds: f64,
+}
+
+/// Column headings of the design-option table (terminal and PDF).
+pub const COMPARE_COLUMNS: [&str; 10] = [
+    "#",
+    "variant",
+    "lifts",
+    "finish",
+    "days",
+    "min FS",
+    "final settl. m",
+    "residual m",
+    "fill m³/m",
+    "drains m/m",
+];
+
+/// One variant as the cells of `COMPARE_COLUMNS`.
+pub fn compare_cells(v: &crate::compare::Variant) -> Vec<String> {
+    let f = fixed;
+    match &v.outcome {
+        Some(o) => vec![
+            v.number.to_string(),
+            v.label.clone(),
+            o.lifts.to_string(),
+            o.finish.to_string(),
+            o.duration_days.to_string(),
+            f(o.min_fs, 2),
+            f(o.final_settlement_m, 3),
+            f(o.residual_settlement_m, 3),
+            f(o.fill_volume_m3_per_m, 1),
+            f(o.drain_length_m_per_m, 0),
+        ],
+        None => {
+            let mut cells = vec![v.number.to_string(), v.label.clone(), "-".into(), "cannot be built".into()];
+            cells.resize(COMPARE_COLUMNS.len(), "-".into());
+            cells
+        }
+    }
+}
+
+/// Column headings of the per-stage risk table (terminal and PDF).
+pub const RISK_STAGE_COLUMNS: [&str; 10] =
+    ["#", "stage", "start", "height m", "FS best", "FS P10", "P50", "P90", "P(FS<1)", "P(FS<target)"];
+
+/// One stage of the risk result as the cells of `RISK_STAGE_COLUMNS`.
+pub fn risk_stage_cells(s: &crate::risk::StageRisk) -> Vec<String> {
+    let f = fixed;
+    vec![
+        s.number.to_string(),
+        s.kind.label().into(),
+        s.start.to_string(),
+        f(s.height_after_m, 2),
+        f(s.fs_best_estimate, 2),
+        f(s.fs.p10, 2),
+        f(s.fs.p50, 2),
+        f(s.fs.p90, 2),
+        f(s.below_one.probability, 3),
+        f(s.below_target.probability, 3),
+    ]
+}
+
+/// "0.012 (12 of 1000, s.e. 0.003)", or the upper bound when none occurred
+/// in `n` realisations.
+pub fn describe_estimate(e: &crate::risk::Estimate, n: usize) -> String {
+    if e.count == 0 {
+        format!("0 observed (95% upper bound {:.4})", e.upper_95)
+    } else {
+        format!("{:.3} ({} of {n}, s.e. {:.3})", e.probability, e.count, e.standard_error)
+    }
+}
+
+/// "lognormal, CoV 0.40" and the like.
+pub fn describe_distribution(d: crate::model::Distribution) -> String {
+    use crate::model::Distribution as D;
+    match d {
+        D::Lognormal { cov } => format!("lognormal, CoV {cov:.2}"),
+        D::Normal { cov } => format!("normal, CoV {cov:.2}"),
+        D::Uniform { low, high } => format!("uniform {low:.2}–{high:.2}"),
+    }
+}
+
 /// A release check together with its project and the files it wrote.
 #[derive(serde::Serialize)]
 pub struct ReleaseReport<'a> {

@@ -453,3 +453,87 @@ pub fn release(rep: &ReleaseReport) -> String {
 pub fn log_verified(v: &crate::audit::Verified) -> String {
     format!("{}: {} entries, hash chain intact (last entry sha256 {}).\n", v.file, v.entries, v.last_sha256)
 }
+
+/// `fillpace compare`.
+pub fn comparison(r: &super::CompareReport) -> String {
+    let c = r.comparison;
+    let mut out = header(r.project, "Design options");
+    out.push_str(&format!(
+        "{} variants of {} (varying {}), each planned to FS {:.2}; sorted by finish date.\n\n",
+        c.variants.len(),
+        r.source,
+        c.keys.join(", "),
+        r.project.criteria.fs_construction
+    ));
+    let mut t = Table::new(&super::COMPARE_COLUMNS);
+    for v in &c.variants {
+        t.row(super::compare_cells(v));
+    }
+    out.push_str(&t.render());
+    for v in c.variants.iter().filter(|v| v.outcome.is_none()) {
+        out.push_str(&format!("\nvariant {} ({}) cannot be built: {}\n", v.number, v.label, v.reason.as_deref().unwrap_or("")));
+    }
+    out.push_str(&cautions_block());
+    out
+}
+
+/// `fillpace risk`.
+pub fn risk(r: &super::RiskReport) -> String {
+    let k = r.risk;
+    let mut out = header(r.project, "Risk of the timetable");
+    out.push_str(&format!(
+        "{} realisations of {} (seed {}), {:.1} s ({:.1} realisations/s).\n\n",
+        k.runs,
+        r.source,
+        k.seed,
+        r.seconds,
+        k.runs as f64 / r.seconds.max(1e-9)
+    ));
+    let mut t = Table::new(&["parameter", "distribution", "factor P10", "P50", "P90", "keys"]);
+    for p in &k.parameters {
+        t.row(vec![
+            p.name.clone(),
+            super::describe_distribution(p.distribution),
+            f(p.factor.p10, 2),
+            f(p.factor.p50, 2),
+            f(p.factor.p90, 2),
+            p.keys.join(", "),
+        ]);
+    }
+    out.push_str(&t.render());
+    out.push_str(&format!(
+        "\n(a) The best-estimate timetable (finish {}, lowest FS {:.2}) with the realised ground:\n",
+        k.best_estimate_finish, k.best_estimate_min_fs
+    ));
+    out.push_str(&format!(
+        "    P(FS < 1.0 at some stage) = {}\n    P(FS < {:.2} at some stage) = {}\n    lowest FS P10 {:.2}, P50 {:.2}, P90 {:.2}\n",
+        super::describe_estimate(&k.below_one, k.runs),
+        k.fs_target,
+        super::describe_estimate(&k.below_target, k.runs),
+        k.lowest_fs.p10,
+        k.lowest_fs.p50,
+        k.lowest_fs.p90
+    ));
+    if let Some(g) = k.governing.first() {
+        out.push_str(&format!(
+            "    stage {} governs most often ({} of {} realisations)\n\n",
+            g.stage, g.count, k.runs
+        ));
+    }
+    let mut t = Table::new(&super::RISK_STAGE_COLUMNS);
+    for s in &k.stages {
+        t.row(super::risk_stage_cells(s));
+    }
+    out.push_str(&t.render());
+    out.push_str("\n(b) Each realisation planned afresh:\n");
+    match (&k.finish, &k.duration_days) {
+        (Some(d), Some(n)) => out.push_str(&format!(
+            "    finish P10 {} ({:.0} days), P50 {} ({:.0} days), P90 {} ({:.0} days); best estimate {} ({} days)\n",
+            d.p10, n.p10, d.p50, n.p50, d.p90, n.p90, k.best_estimate_finish, k.best_estimate_duration_days
+        )),
+        _ => out.push_str("    no realisation could be built\n"),
+    }
+    out.push_str(&format!("    cannot be built: {}\n", super::describe_estimate(&k.not_buildable, k.runs)));
+    out.push_str(&cautions_block());
+    out
+}

@@ -12,7 +12,7 @@ pub mod record;
 use crate::error::{Error, Result};
 use crate::response::{Engine, State};
 use crate::stability::Section;
-use crate::stability::search::{SearchResult, search};
+use crate::stability::search::{BandResult, SearchResult, search, search_from};
 use calendar::Calendar;
 
 /// Drives an engine on a calendar.
@@ -22,6 +22,12 @@ pub struct Runner<'e, 'p> {
     rate_m_per_day: f64,
     place_dt: f64,
     rest_dt: f64,
+    /// Seed circles by crest height (m): when set, stability is found by
+    /// `search_from` the seeds of the nearest height instead of the grid.
+    seeds: Vec<(f64, Vec<BandResult>)>,
+    /// Whether plans record the data of the report's figures (time series,
+    /// profiles, the governing section); off for Monte Carlo realisations.
+    pub figures: bool,
 }
 
 /// Counters for the benchmark report.
@@ -42,7 +48,16 @@ impl<'e, 'p> Runner<'e, 'p> {
             rate_m_per_day: p.construction.placement_rate_m_per_day,
             place_dt: p.analysis.placement_step_days,
             rest_dt: p.analysis.rest_step_days,
+            seeds: Vec::new(),
+            figures: true,
         }
+    }
+
+    /// A runner for one Monte Carlo realisation: slip-circle searches start
+    /// from `seeds` (band circles by crest height, m) rather than from the
+    /// full grid, and plans record no figures.
+    pub fn for_realisation(engine: &'e Engine<'p>, seeds: Vec<(f64, Vec<BandResult>)>) -> Self {
+        Runner { seeds, figures: false, ..Runner::new(engine) }
     }
 
     /// Let the ground consolidate with no change of height until day `day`.
@@ -103,6 +118,10 @@ impl<'e, 'p> Runner<'e, 'p> {
         effort.stability_searches += 1;
         let field = self.engine.field(st);
         let section = Section::new(self.engine.project, st.height_m, &field);
-        search(&section)
+        let nearest = self.seeds.iter().min_by(|a, b| (a.0 - st.height_m).abs().total_cmp(&(b.0 - st.height_m).abs()));
+        match nearest {
+            Some((_, seeds)) => search_from(&section, seeds),
+            None => search(&section),
+        }
     }
 }

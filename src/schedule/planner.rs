@@ -145,7 +145,7 @@ pub fn plan_from(r: &Runner, start: State, earliest: i64, progress: &mut dyn FnM
     while st.height_m < top - 1e-6 {
         let (start, lift) = next_lift(r, &st, earliest, &mut effort)?;
         advance_to(r, &mut stages, &mut st, start, &mut fig, &mut effort)?;
-        let (a, b) = r.place(&mut st, lift, &mut |s| fig.record(r.engine, &r.calendar, s))?;
+        let (a, b) = r.place(&mut st, lift, &mut |s| fig.record_if(r, s))?;
         let crit = r.stability(&st, &mut effort)?;
         stages.push(stage(r, stages.len() + 1, StageKind::Lift, a, b, lift, &st, crit));
         earliest = b + 1 + p.construction.min_rest_days as i64;
@@ -156,12 +156,14 @@ pub fn plan_from(r: &Runner, start: State, earliest: i64, progress: &mut dyn FnM
         let start = removal_day(r, &st, earliest, &mut warnings)?;
         advance_to(r, &mut stages, &mut st, start, &mut fig, &mut effort)?;
         let change = -p.embankment.surcharge_height_m;
-        let (a, b) = r.place(&mut st, change, &mut |s| fig.record(r.engine, &r.calendar, s))?;
+        let (a, b) = r.place(&mut st, change, &mut |s| fig.record_if(r, s))?;
         let crit = r.stability(&st, &mut effort)?;
         stages.push(stage(r, stages.len() + 1, StageKind::SurchargeRemoval, a, b, change, &st, crit));
     }
     fig.profile(r.engine, &st, format!("end {}", stages.last().map_or(p.info.start_date, |s| s.end)));
-    fig.governing = governing(r, &start, &stages, &mut effort)?;
+    if r.figures {
+        fig.governing = governing(r, &start, &stages, &mut effort)?;
+    }
     totals(r, stages, &st, effort, warnings, fig)
 }
 
@@ -178,7 +180,7 @@ fn advance_to(
     if let Some(prev) = stages.last_mut() {
         close_rest(r, prev, st, start, effort)?;
     }
-    r.rest_until(st, start, &mut |s| fig.record(r.engine, &r.calendar, s));
+    r.rest_until(st, start, &mut |s| fig.record_if(r, s));
     if let Some(prev) = stages.last() {
         fig.profile(r.engine, st, format!("release after stage {} ({})", prev.number, r.calendar.date(start)));
     }

@@ -74,8 +74,14 @@ pub fn probes(e: &Engine) -> Vec<Probe> {
 }
 
 impl Figures {
-    /// Append a row for each new whole day.
-    pub fn record(&mut self, e: &Engine, cal: &super::calendar::Calendar, st: &State) {
+    /// Append a row for each new whole day, when the runner keeps figures.
+    pub fn record_if(&mut self, r: &super::Runner, st: &State) {
+        if r.figures {
+            self.record(r.engine, &r.calendar, st);
+        }
+    }
+
+    fn record(&mut self, e: &Engine, cal: &super::calendar::Calendar, st: &State) {
         let day = st.day.round();
         if (st.day - day).abs() > 1e-6 {
             return;

@@ -136,6 +136,34 @@ pub fn search(s: &Section) -> Result<SearchResult> {
     Ok(SearchResult { critical, bands: refined, circles_tried: count.tried, circles_rejected: count.rejected })
 }
 
+/// Search started from the band circles of an earlier search (`seeds`, for
+/// example those of the same stage under best-estimate parameters) instead
+/// of the grid: from each seed still analysable, a pattern search that
+/// starts at the final step, doubles it after every improving move (up to
+/// 16 final steps) and halves it when none improves. A seed that is already
+/// a minimum at the final step costs one pass and comes back unchanged, so
+/// the same section gives exactly the earlier answer. Falls back to the full
+/// search when no seed can be analysed. Single-threaded (it is run many at
+/// a time).
+pub fn search_from(s: &Section, seeds: &[BandResult]) -> Result<SearchResult> {
+    let bands = bands(s);
+    let all = directions().collect::<Vec<_>>();
+    let mut count = Counter { tried: 0, rejected: 0 };
+    let mut refined = Vec::new();
+    for seed in seeds {
+        let Some(band) = bands.iter().find(|b| b.name == seed.band) else { continue };
+        let Some(start) = count.eval(s, seed.circle.circle) else { continue };
+        let yt = start.circle.yc_m - start.circle.r_m;
+        let grow = Stride::GrowTo(16.0 * MIN_STEP_M);
+        let (circle, _) = pattern(s, &mut count, (start, yt), band, MIN_STEP_M, MIN_STEP_M, &all, grow);
+        refined.push(BandResult { band: band.name.clone(), circle });
+    }
+    let Some(critical) = refined.iter().map(|b| &b.circle).min_by(|a, b| a.fs.total_cmp(&b.fs)).cloned() else {
+        return search(s);
+    };
+    Ok(SearchResult { critical, bands: refined, circles_tried: count.tried, circles_rejected: count.rejected })
+}
+
 fn better(a: &Candidate, b: &Candidate) -> bool {
     a.0.fs < b.0.fs || (a.0.fs == b.0.fs && a.2 < b.2)
 }
@@ -231,6 +259,16 @@ fn tangent_levels(s: &Section, h: f64) -> Vec<f64> {
     t
 }
 
+/// How the pattern search changes its step after an improving move.
+#[derive(Clone, Copy)]
+enum Stride {
+    /// Keep the step (a refinement from a coarse start).
+    Keep,
+    /// Double it, up to this many metres (a walk from a seed circle whose
+    /// minimum may have moved some way).
+    GrowTo(f64),
+}
+
 /// Pattern search in (xc, yc, tangent elevation), tangent kept in its band:
 /// each pass tries the moves of `dirs` at the current step, moves to the
 /// best improvement, and halves the step when none improves, down to
@@ -244,6 +282,7 @@ fn pattern(
     mut step: f64,
     min_step: f64,
     dirs: &[[f64; 3]],
+    stride: Stride,
 ) -> (CircleResult, f64) {
     let (mut best, mut yt) = start;
     while step >= min_step {
@@ -263,9 +302,13 @@ fn pattern(
                 }
             }
         }
-        match improved {
-            Some(better) => (best, yt) = better,
-            None => step *= 0.5,
+        match (improved, stride) {
+            (Some(better), Stride::Keep) => (best, yt) = better,
+            (Some(better), Stride::GrowTo(cap)) => {
+                (best, yt) = better;
+                step = (2.0 * step).min(cap);
+            }
+            (None, _) => step *= 0.5,
         }
     }
     (best, yt)
@@ -279,9 +322,9 @@ fn refine(s: &Section, count: &mut Counter, starts: Vec<Candidate>, band: &Band,
     let all = directions().collect::<Vec<_>>();
     let coarse = starts
         .into_iter()
-        .map(|(r, yt, _, _)| pattern(s, count, (r, yt), band, step0, 8.0 * MIN_STEP_M, &all))
+        .map(|(r, yt, _, _)| pattern(s, count, (r, yt), band, step0, 8.0 * MIN_STEP_M, &all, Stride::Keep))
         .min_by(|a, b| a.0.fs.total_cmp(&b.0.fs))?;
-    Some(pattern(s, count, coarse, band, 4.0 * MIN_STEP_M, MIN_STEP_M, &all).0)
+    Some(pattern(s, count, coarse, band, 4.0 * MIN_STEP_M, MIN_STEP_M, &all, Stride::Keep).0)
 }
 
 /// The 26 unit moves of a 3 × 3 × 3 stencil.

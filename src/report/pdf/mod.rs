@@ -9,9 +9,10 @@ mod canvas;
 mod certificate;
 mod chart;
 mod figures;
+mod options;
 mod pages;
 
-use super::{Exporter, PlanReport, ReleaseReport};
+use super::{CompareReport, Exporter, PlanReport, ReleaseReport, RiskReport};
 use crate::error::{Error, Result};
 use canvas::{Canvas, Fonts, PAGE_H, PAGE_W};
 use pages::Ctx;
@@ -101,6 +102,25 @@ pub fn certificate(r: &ReleaseReport, date: chrono::NaiveDate) -> Result<Vec<u8>
         let heading = if i == 0 { "Hold-point release certificate" } else { "Readings against the model" };
         pages::frame(c, &title, heading, i + 1, 2);
         if i == 0 { certificate::decision_page(c, r) } else { certificate::readings_page(c, r) }
+    })
+}
+
+/// The design-option comparison (one page).
+pub fn comparison(r: &CompareReport, date: chrono::NaiveDate) -> Result<Vec<u8>> {
+    let title = pages::Title { info: &r.project.info, source: &r.source, date, document: "fillpace design options" };
+    document(&format!("{} — design options", r.project.info.title), 1, |c, _| {
+        pages::frame(c, &title, "Design options compared", 1, 1);
+        options::comparison_page(c, r);
+    })
+}
+
+/// The Monte Carlo pages: summary and table, then the charts.
+pub fn risk(r: &RiskReport, date: chrono::NaiveDate) -> Result<Vec<u8>> {
+    let title = pages::Title { info: &r.project.info, source: &r.source, date, document: "fillpace timetable risk" };
+    document(&format!("{} — timetable risk", r.project.info.title), 2, |c, i| {
+        let heading = if i == 0 { "Risk of the timetable" } else { "Finish dates and FS distribution" };
+        pages::frame(c, &title, heading, i + 1, 2);
+        if i == 0 { options::risk_summary(c, r) } else { options::risk_charts(c, r) }
     })
 }
 

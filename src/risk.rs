@@ -1,0 +1,340 @@
+//! Monte Carlo over the uncertain parameters declared in the project file
+//! (`[[uncertain]]`, `[[correlation]]`): for each realisation, (a) the
+//! best-estimate timetable is checked with the realised ground (lowest FS,
+//! whether any stage falls below 1.0 or the target) and (b) a fresh plan is
+//! made (its finish date). Realisations run in parallel (rayon); each draws
+//! from its own random stream fixed by (seed, index), and results are
+//! gathered in index order, so the answer depends on the seed only, never
+//! on the number of threads.
+//!
+//! Slip circles in the realisations are found by `search_from` the band
+//! circles of the best-estimate plan at the nearest crest height, not by the
+//! full grid: uncertain soil parameters move the critical circle little, and
+//! this is what makes a thousand fresh plans affordable. With every factor
+//! at 1 the checked timetable reproduces the best-estimate plan exactly.
+
+use crate::error::{Error, Result};
+use crate::input::vary::Document;
+use crate::model::{Distribution, Project};
+use crate::random::{self, Noise};
+use crate::response::Engine;
+use crate::schedule::planner::{self, Plan, StageKind};
+use crate::schedule::{Effort, Runner};
+use crate::stability::search::BandResult;
+use chrono::{Duration, NaiveDate};
+use rayon::prelude::*;
+use serde::Serialize;
+
+/// Most realisations one run may ask for.
+pub const MAX_RUNS: usize = 100_000;
+
+/// How to run the Monte Carlo.
+#[derive(Debug, Clone, Copy)]
+pub struct RiskOptions {
+    /// Number of realisations.
+    pub runs: usize,
+    /// Master seed of the random streams.
+    pub seed: u64,
+    /// Worker threads; None = one per core.
+    pub threads: Option<usize>,
+}
+
+/// One realisation.
+#[derive(Debug, Clone, Serialize)]
+pub struct Realisation {
+    /// 0-based index (its random stream).
+    pub index: usize,
+    /// Sampled factor of each uncertain parameter, in declaration order.
+    pub factors: Vec<f64>,
+    /// FS at the end of each stage of the best-estimate timetable.
+    pub stage_fs: Vec<f64>,
+    /// Lowest of `stage_fs` and its stage number (1-based).
+    pub lowest_fs: f64,
+    pub governing_stage: usize,
+    /// The fresh plan's finish and duration (calendar days), None when it
+    /// cannot be built.
+    pub finish: Option<NaiveDate>,
+    pub duration_days: Option<i64>,
+    /// Why the fresh plan could not be built, when it could not.
+    pub not_buildable: Option<String>,
+}
+
+/// A probability estimated from the realisations.
+#[derive(Debug, Clone, Serialize)]
+pub struct Estimate {
+    /// Realisations in which the event happened.
+    pub count: usize,
+    /// count / runs.
+    pub probability: f64,
+    /// Binomial standard error √(p(1 − p)/n).
+    pub standard_error: f64,
+    /// One-sided 95% upper bound (Wilson 1927 score interval, z = 1.645);
+    /// about 2.7/n when the count is zero.
+    pub upper_95: f64,
+}
+
+impl Estimate {
+    fn of(count: usize, n: usize) -> Estimate {
+        let nf = n.max(1) as f64;
+        let p = count as f64 / nf;
+        let z: f64 = 1.645;
+        let z2 = z * z;
+        let upper = (p + z2 / (2.0 * nf) + z * (p * (1.0 - p) / nf + z2 / (4.0 * nf * nf)).sqrt()) / (1.0 + z2 / nf);
+        Estimate { count, probability: p, standard_error: (p * (1.0 - p) / nf).sqrt(), upper_95: upper.min(1.0) }
+    }
+}
+
+/// P10, P50 and P90 of a quantity.
+#[derive(Debug, Clone, Copy, Serialize)]
+pub struct Spread {
+    pub p10: f64,
+    pub p50: f64,
+    pub p90: f64,
+}
+
+impl Spread {
+    /// Percentiles of a non-empty sample.
+    fn of(v: &[f64]) -> Spread {
+        Spread { p10: random::percentile(v, 10.0), p50: random::percentile(v, 50.0), p90: random::percentile(v, 90.0) }
+    }
+}
+
+/// The FS distribution of one stage of the best-estimate timetable.
+#[derive(Debug, Clone, Serialize)]
+pub struct StageRisk {
+    pub number: usize,
+    pub kind: StageKind,
+    pub start: NaiveDate,
+    pub height_after_m: f64,
+    /// FS of the best-estimate plan at this stage.
+    pub fs_best_estimate: f64,
+    pub fs: Spread,
+    pub below_one: Estimate,
+    pub below_target: Estimate,
+    /// Lognormal reliability index β = mean(ln FS)/sd(ln FS) and the implied
+    /// P(FS < 1) = Φ(−β) (FS taken as lognormal; Duncan 2000); None when
+    /// the FS does not vary.
+    pub beta_lognormal: Option<f64>,
+    pub p_below_one_lognormal: Option<f64>,
+}
+
+/// How often a stage governs (has the lowest FS).
+#[derive(Debug, Clone, Serialize)]
+pub struct Governing {
+    pub stage: usize,
+    pub count: usize,
+    pub fraction: f64,
+}
+
+/// An uncertain parameter and the spread of its sampled factor.
+#[derive(Debug, Clone, Serialize)]
+pub struct ParameterSummary {
+    pub name: String,
+    pub keys: Vec<String>,
+    #[serde(flatten)]
+    pub distribution: Distribution,
+    pub factor: Spread,
+}
+
+/// The whole Monte Carlo answer.
+#[derive(Debug, Clone, Serialize)]
+pub struct RiskResult {
+    pub runs: usize,
+    pub seed: u64,
+    pub parameters: Vec<ParameterSummary>,
+    pub fs_target: f64,
+    /// The best-estimate plan: finish, duration, lowest FS and its stage.
+    pub best_estimate_finish: NaiveDate,
+    pub best_estimate_duration_days: i64,
+    pub best_estimate_min_fs: f64,
+    /// (a) The best-estimate timetable with the realised ground.
+    pub below_one: Estimate,
+    pub below_target: Estimate,
+    pub lowest_fs: Spread,
+    pub governing: Vec<Governing>,
+    pub stages: Vec<StageRisk>,
+    /// (b) Fresh plans: finish date and duration percentiles over the
+    /// buildable realisations, and the share that cannot be built.
+    pub finish: Option<DateSpread>,
+    pub duration_days: Option<Spread>,
+    pub not_buildable: Estimate,
+    pub realisations: Vec<Realisation>,
+}
+
+/// Finish-date percentiles (durations rounded to whole days).
+#[derive(Debug, Clone, Serialize)]
+pub struct DateSpread {
+    pub p10: NaiveDate,
+    pub p50: NaiveDate,
+    pub p90: NaiveDate,
+}
+
+/// Band circles of each stage of `plan` by crest height: the seeds of the
+/// realisations' slip-circle searches.
+pub fn seeds(plan: &Plan) -> Vec<(f64, Vec<BandResult>)> {
+    plan.stages.iter().filter_map(|s| s.critical.as_ref().map(|c| (s.height_after_m, c.bands.clone()))).collect()
+}
+
+/// Run the Monte Carlo for the project in `doc` (already validated into
+/// `base`) around its best-estimate `plan`; `tick` is called after each
+/// realisation.
+pub fn run(doc: &Document, base: &Project, plan: &Plan, opts: RiskOptions, tick: &(dyn Fn() + Sync)) -> Result<RiskResult> {
+    let u = &base.uncertainty;
+    if u.params.is_empty() {
+        return Err(Error::input(
+            &doc.file,
+            None,
+            "uncertain",
+            "has no [[uncertain]] entries; declare the uncertain parameters (name, keys, distribution, cov or low/high) to run risk".into(),
+        ));
+    }
+    if !(1..=MAX_RUNS).contains(&opts.runs) {
+        return Err(Error::Usage(format!("--runs {} must be between 1 and {MAX_RUNS}", opts.runs)));
+    }
+    let l = random::correlation_factor(u)
+        .ok_or_else(|| Error::Computation("the correlation matrix is not positive definite".into()))?;
+    let seeds = seeds(plan);
+    let work = || -> Result<Vec<Realisation>> {
+        (0..opts.runs)
+            .into_par_iter()
+            .map(|i| {
+                let r = realise(doc, base, &l, plan, &seeds, i, opts.seed);
+                tick();
+                r
+            })
+            .collect()
+    };
+    let all = match opts.threads {
+        None => work()?,
+        Some(n) => rayon::ThreadPoolBuilder::new()
+            .num_threads(n)
+            .build()
+            .map_err(|e| Error::Computation(format!("cannot start {n} worker threads: {e}")))?
+            .install(work)?,
+    };
+    Ok(summarise(base, plan, opts, all))
+}
+
+/// Draw realisation `index`, check the timetable and plan afresh.
+fn realise(
+    doc: &Document,
+    base: &Project,
+    l: &nalgebra::DMatrix<f64>,
+    plan: &Plan,
+    seeds: &[(f64, Vec<BandResult>)],
+    index: usize,
+    seed: u64,
+) -> Result<Realisation> {
+    let u = &base.uncertainty;
+    let factors = random::draw(u, l, &mut Noise::stream(seed, index as u64));
+    let mut d = doc.clone();
+    for (param, f) in u.params.iter().zip(&factors) {
+        for k in &param.keys {
+            d.scale(k, *f)?;
+        }
+    }
+    let named: Vec<String> = u.params.iter().zip(&factors).map(|(p, f)| format!("{} × {f:.3}", p.name)).collect();
+    let p = d.project(&format!("{} in realisation {index} ({})", doc.file, named.join(", ")))?;
+    let engine = Engine::new(&p);
+    let r = Runner::for_realisation(&engine, seeds.to_vec());
+    let mut effort = Effort::default();
+    let mut st = engine.initial_state();
+    let mut stage_fs = Vec::with_capacity(plan.stages.len());
+    for s in &plan.stages {
+        r.rest_until(&mut st, r.calendar.day_of(s.start), &mut |_| {});
+        r.place(&mut st, s.thickness_m, &mut |_| {})?;
+        stage_fs.push(r.stability(&st, &mut effort)?.critical.fs);
+    }
+    let (governing_stage, lowest_fs) = plan
+        .stages
+        .iter()
+        .zip(&stage_fs)
+        .filter(|(s, _)| s.kind == StageKind::Lift)
+        .map(|(s, fs)| (s.number, *fs))
+        .min_by(|a, b| a.1.total_cmp(&b.1))
+        .unwrap_or((0, f64::INFINITY));
+    let (finish, duration_days, not_buildable) = match planner::plan(&r) {
+        Ok(fresh) => (Some(fresh.finish), Some(fresh.duration_days), None),
+        Err(Error::Computation(why)) => (None, None, Some(why)),
+        Err(e) => return Err(e),
+    };
+    Ok(Realisation { index, factors, stage_fs, lowest_fs, governing_stage, finish, duration_days, not_buildable })
+}
+
+fn summarise(base: &Project, plan: &Plan, opts: RiskOptions, all: Vec<Realisation>) -> RiskResult {
+    let n = all.len();
+    let target = base.criteria.fs_construction;
+    let lowest: Vec<f64> = all.iter().map(|r| r.lowest_fs).collect();
+    let stages = plan
+        .stages
+        .iter()
+        .enumerate()
+        .map(|(k, s)| {
+            let fs: Vec<f64> = all.iter().map(|r| r.stage_fs[k]).collect();
+            let ln: Vec<f64> = fs.iter().map(|f| f.ln()).collect();
+            let mean = ln.iter().sum::<f64>() / n as f64;
+            let sd = (ln.iter().map(|x| (x - mean).powi(2)).sum::<f64>() / (n.max(2) - 1) as f64).sqrt();
+            let beta = (sd > 1e-12).then(|| mean / sd);
+            StageRisk {
+                number: s.number,
+                kind: s.kind,
+                start: s.start,
+                height_after_m: s.height_after_m,
+                fs_best_estimate: s.fs_end,
+                fs: Spread::of(&fs),
+                below_one: Estimate::of(fs.iter().filter(|f| **f < 1.0).count(), n),
+                below_target: Estimate::of(fs.iter().filter(|f| **f < target).count(), n),
+                beta_lognormal: beta,
+                p_below_one_lognormal: beta.map(|b| random::normal_cdf(-b)),
+            }
+        })
+        .collect();
+    let mut governing: Vec<Governing> = Vec::new();
+    for r in &all {
+        match governing.iter_mut().find(|g| g.stage == r.governing_stage) {
+            Some(g) => g.count += 1,
+            None => governing.push(Governing { stage: r.governing_stage, count: 1, fraction: 0.0 }),
+        }
+    }
+    for g in &mut governing {
+        g.fraction = g.count as f64 / n as f64;
+    }
+    governing.sort_by(|a, b| b.count.cmp(&a.count).then(a.stage.cmp(&b.stage)));
+    let durations: Vec<f64> = all.iter().filter_map(|r| r.duration_days.map(|d| d as f64)).collect();
+    let duration_days = (!durations.is_empty()).then(|| Spread::of(&durations));
+    let start = base.info.start_date;
+    let date = |d: f64| start + Duration::days(d.round() as i64 - 1);
+    let u = &base.uncertainty;
+    let parameters = u
+        .params
+        .iter()
+        .enumerate()
+        .map(|(k, p)| {
+            let f: Vec<f64> = all.iter().map(|r| r.factors[k]).collect();
+            ParameterSummary {
+                name: p.name.clone(),
+                keys: p.keys.clone(),
+                distribution: p.distribution,
+                factor: Spread::of(&f),
+            }
+        })
+        .collect();
+    RiskResult {
+        runs: n,
+        seed: opts.seed,
+        parameters,
+        fs_target: target,
+        best_estimate_finish: plan.finish,
+        best_estimate_duration_days: plan.duration_days,
+        best_estimate_min_fs: plan.min_fs,
+        below_one: Estimate::of(lowest.iter().filter(|f| **f < 1.0).count(), n),
+        below_target: Estimate::of(lowest.iter().filter(|f| **f < target).count(), n),
+        lowest_fs: Spread::of(&lowest),
+        governing,
+        stages,
+        finish: duration_days.map(|s| DateSpread { p10: date(s.p10), p50: date(s.p50), p90: date(s.p90) }),
+        duration_days,
+        not_buildable: Estimate::of(all.iter().filter(|r| r.not_buildable.is_some()).count(), n),
+        realisations: all,
+    }
+}
