@@ -234,8 +234,10 @@ fn with_counter<T>(total: usize, what: &str, f: impl FnOnce(&(dyn Fn() + Sync)) 
     }
     let bar = indicatif::ProgressBar::new(total as u64);
     bar.set_style(
-        indicatif::ProgressStyle::with_template(&format!("{what} {{bar:40}} {{pos}}/{{len}} [{{elapsed}}, {{eta}} left]"))
-            .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
+        indicatif::ProgressStyle::with_template(&format!(
+            "{what} {{bar:40}} {{pos}}/{{len}} [{{elapsed}}, {{eta}} left]"
+        ))
+        .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
     );
     bar.enable_steady_tick(std::time::Duration::from_millis(200));
     let out = f(&|| bar.inc(1));

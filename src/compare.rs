@@ -175,7 +175,9 @@ fn outcome(p: &Project, plan: &Plan) -> Outcome {
         min_fs: plan.min_fs,
         final_settlement_m: plan.final_settlement_m,
         residual_settlement_m: plan.residual_settlement_m,
-        fill_volume_m3_per_m: plan.volume_design_m3_per_m + plan.volume_makeup_m3_per_m + plan.volume_surcharge_m3_per_m,
+        fill_volume_m3_per_m: plan.volume_design_m3_per_m
+            + plan.volume_makeup_m3_per_m
+            + plan.volume_surcharge_m3_per_m,
         drain_length_m_per_m: drain_length_per_m(p),
     }
 }

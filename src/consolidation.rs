@@ -121,6 +121,15 @@ impl Column {
         self.nodes[i].sigma_v0_eff_kpa + st.load[i].sz - st.u[i]
     }
 
+    /// Dissipate every excess pore pressure at once (the long-term state
+    /// under the present load).
+    pub fn consolidate_fully(&self, st: &mut ColumnState) {
+        st.u.iter_mut().for_each(|u| *u = 0.0);
+        for i in 0..self.nodes.len() {
+            st.smax[i] = st.smax[i].max(self.sigma_eff(st, i));
+        }
+    }
+
     /// Current preconsolidation pressure at node i (its own layer), kPa.
     pub fn sigma_p(&self, st: &ColumnState, i: usize) -> f64 {
         self.nodes[i].sigma_p0_kpa.max(st.smax[i])

@@ -151,6 +151,17 @@ impl<'p> Engine<'p> {
         st.placed_m = placed;
     }
 
+    /// The state once the present load has fully consolidated (no excess
+    /// pore pressure left; the fill is not made up for the extra settlement).
+    pub fn consolidated(&self, st: &State) -> State {
+        let mut s = st.clone();
+        for (col, cs) in self.columns.iter().zip(&mut s.cols) {
+            col.consolidate_fully(cs);
+        }
+        s.settlement_centre_m = self.columns[0].settlement(&s.cols[0]);
+        s
+    }
+
     /// Centreline settlement when the current load has fully consolidated, m.
     pub fn final_settlement_centre(&self, st: &State) -> f64 {
         self.columns[0].final_settlement(&st.cols[0])

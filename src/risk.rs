@@ -178,7 +178,13 @@ pub fn seeds(plan: &Plan) -> Vec<(f64, Vec<BandResult>)> {
 /// Run the Monte Carlo for the project in `doc` (already validated into
 /// `base`) around its best-estimate `plan`; `tick` is called after each
 /// realisation.
-pub fn run(doc: &Document, base: &Project, plan: &Plan, opts: RiskOptions, tick: &(dyn Fn() + Sync)) -> Result<RiskResult> {
+pub fn run(
+    doc: &Document,
+    base: &Project,
+    plan: &Plan,
+    opts: RiskOptions,
+    tick: &(dyn Fn() + Sync),
+) -> Result<RiskResult> {
     let u = &base.uncertainty;
     if u.params.is_empty() {
         return Err(Error::input(

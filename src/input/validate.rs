@@ -746,13 +746,21 @@ fn monitoring(c: &mut Check, r: Option<&RawMonitoring>) -> MonitoringRules {
     }
 }
 
-fn uncertainty(c: &mut Check, raw: &[RawUncertain], corr: &[RawCorrelation], doc: &super::vary::Document) -> Uncertainty {
+fn uncertainty(
+    c: &mut Check,
+    raw: &[RawUncertain],
+    corr: &[RawCorrelation],
+    doc: &super::vary::Document,
+) -> Uncertainty {
     let mut params = Vec::new();
     let mut all_keys: Vec<(String, String)> = Vec::new();
     for (i, u) in raw.iter().enumerate() {
         let k = |f: &str| format!("uncertain[{i}].{f}");
         if u.name.trim().is_empty() || raw[..i].iter().any(|o| o.name == u.name) {
-            c.bad(&k("name"), format!("= \"{}\" must be a non-empty name used by no other [[uncertain]] entry", u.name));
+            c.bad(
+                &k("name"),
+                format!("= \"{}\" must be a non-empty name used by no other [[uncertain]] entry", u.name),
+            );
         }
         if u.keys.is_empty() {
             c.bad(&k("keys"), "is empty; list the key paths this factor multiplies".into());
@@ -778,33 +786,34 @@ fn uncertainty(c: &mut Check, raw: &[RawUncertain], corr: &[RawCorrelation], doc
                 }
             }
         };
-        let distribution = match c.choice(&k("distribution"), Some(&u.distribution), &["lognormal", "normal", "uniform"]) {
-            "lognormal" => {
-                no_range(c);
-                Distribution::Lognormal { cov: cov(c, 2.0) }
-            }
-            "normal" => {
-                no_range(c);
-                Distribution::Normal { cov: cov(c, 0.5) }
-            }
-            _ => {
-                if u.cov.is_some() {
-                    c.bad(&k("cov"), "does not apply with distribution = \"uniform\"; give low and high".into());
+        let distribution =
+            match c.choice(&k("distribution"), Some(&u.distribution), &["lognormal", "normal", "uniform"]) {
+                "lognormal" => {
+                    no_range(c);
+                    Distribution::Lognormal { cov: cov(c, 2.0) }
                 }
-                let mut end = |f: &str, v: Option<f64>| match v {
-                    Some(x) => c.num(&k(f), x, Low::Excl(0.0), 10.0),
-                    None => {
-                        c.bad(&k(f), "is missing; distribution = \"uniform\" needs low and high (factors)".into());
-                        1.0
+                "normal" => {
+                    no_range(c);
+                    Distribution::Normal { cov: cov(c, 0.5) }
+                }
+                _ => {
+                    if u.cov.is_some() {
+                        c.bad(&k("cov"), "does not apply with distribution = \"uniform\"; give low and high".into());
                     }
-                };
-                let (low, high) = (end("low", u.low), end("high", u.high));
-                if low >= high {
-                    c.bad(&k("high"), format!("= {high} must be greater than low = {low}"));
+                    let mut end = |f: &str, v: Option<f64>| match v {
+                        Some(x) => c.num(&k(f), x, Low::Excl(0.0), 10.0),
+                        None => {
+                            c.bad(&k(f), "is missing; distribution = \"uniform\" needs low and high (factors)".into());
+                            1.0
+                        }
+                    };
+                    let (low, high) = (end("low", u.low), end("high", u.high));
+                    if low >= high {
+                        c.bad(&k("high"), format!("= {high} must be greater than low = {low}"));
+                    }
+                    Distribution::Uniform { low, high }
                 }
-                Distribution::Uniform { low, high }
-            }
-        };
+            };
         params.push(Uncertain { name: u.name.clone(), keys: u.keys.clone(), distribution });
     }
     c.issues.extend(doc.check_numeric_keys(&all_keys, c.lines));
@@ -817,7 +826,10 @@ fn uncertainty(c: &mut Check, raw: &[RawUncertain], corr: &[RawCorrelation], doc
                 (Some(a), Some(b)) => Some((a, b)),
                 _ => {
                     let names: Vec<&str> = raw.iter().map(|u| u.name.as_str()).collect();
-                    c.bad(&k("between"), format!("names an unknown [[uncertain]] entry; the names are: {}", names.join(", ")));
+                    c.bad(
+                        &k("between"),
+                        format!("names an unknown [[uncertain]] entry; the names are: {}", names.join(", ")),
+                    );
                     None
                 }
             },
@@ -836,7 +848,11 @@ fn uncertainty(c: &mut Check, raw: &[RawUncertain], corr: &[RawCorrelation], doc
     }
     let u = Uncertainty { params, correlations };
     if c.issues.is_empty() && crate::random::correlation_factor(&u).is_none() {
-        c.bad("correlation", "the coefficients together are not a valid correlation matrix (not positive definite); weaken some of them".into());
+        c.bad(
+            "correlation",
+            "the coefficients together are not a valid correlation matrix (not positive definite); weaken some of them"
+                .into(),
+        );
     }
     u
 }

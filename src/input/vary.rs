@@ -84,14 +84,16 @@ impl Document {
     /// file, or a key the table at its parent allows (a berm width that is
     /// not written yet, say).
     fn settable(&self, path: &str) -> bool {
-        if self.get(path).is_some_and(|v| !v.is_table() && !v.is_array()) {
-            return true;
+        match self.get(path) {
+            Some(v) => return !v.is_table() && !v.is_array(),
+            None if path.ends_with(']') => return false,
+            None => {}
         }
         let Some((parent, last)) = path.rsplit_once('.') else {
             return false;
         };
         let parent_exists = self.get(parent).is_some_and(toml::Value::is_table);
-        parent_exists && !last.contains('[') && super::known_fields(parent).contains(&last)
+        parent_exists && super::known_fields(parent).contains(&last)
     }
 
     /// Set `path` to `value`.

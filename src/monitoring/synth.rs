@@ -9,8 +9,8 @@
 use super::readings::{FillPoint, HEADER, day_of};
 use super::replay::replay;
 use crate::model::{FILL_ID, InstrumentKind, Project};
-use crate::response::Engine;
 use crate::random::Noise;
+use crate::response::Engine;
 use chrono::{Duration, NaiveDateTime, NaiveTime};
 
 /// How to make the readings.

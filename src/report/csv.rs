@@ -86,7 +86,9 @@ pub fn series(a: &Assessment) -> String {
 
 /// The design-option table as CSV, sorted as printed.
 pub fn comparison(c: &crate::compare::Comparison) -> String {
-    let mut out = String::from("variant,settings,lifts,finish,duration_days,min_fs,final_settlement_m,residual_settlement_m,fill_volume_m3_per_m,drain_length_m_per_m,not_buildable\n");
+    let mut out = String::from(
+        "variant,settings,lifts,finish,duration_days,min_fs,final_settlement_m,residual_settlement_m,fill_volume_m3_per_m,drain_length_m_per_m,not_buildable\n",
+    );
     for v in &c.variants {
         let o = v.outcome.as_ref();
         out.push_str(&format!(

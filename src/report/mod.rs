@@ -54,18 +54,8 @@ pub struct RiskReport<'a> {
 }
 
 /// Column headings of the design-option table (terminal and PDF).
-pub const COMPARE_COLUMNS: [&str; 10] = [
-    "#",
-    "variant",
-    "lifts",
-    "finish",
-    "days",
-    "min FS",
-    "final settl. m",
-    "residual m",
-    "fill m³/m",
-    "drains m/m",
-];
+pub const COMPARE_COLUMNS: [&str; 10] =
+    ["#", "variant", "lifts", "finish", "days", "min FS", "final settl. m", "residual m", "fill m³/m", "drains m/m"];
 
 /// One variant as the cells of `COMPARE_COLUMNS`.
 pub fn compare_cells(v: &crate::compare::Variant) -> Vec<String> {

@@ -471,7 +471,12 @@ pub fn comparison(r: &super::CompareReport) -> String {
     }
     out.push_str(&t.render());
     for v in c.variants.iter().filter(|v| v.outcome.is_none()) {
-        out.push_str(&format!("\nvariant {} ({}) cannot be built: {}\n", v.number, v.label, v.reason.as_deref().unwrap_or("")));
+        out.push_str(&format!(
+            "\nvariant {} ({}) cannot be built: {}\n",
+            v.number,
+            v.label,
+            v.reason.as_deref().unwrap_or("")
+        ));
     }
     out.push_str(&cautions_block());
     out
@@ -515,10 +520,7 @@ pub fn risk(r: &super::RiskReport) -> String {
         k.lowest_fs.p90
     ));
     if let Some(g) = k.governing.first() {
-        out.push_str(&format!(
-            "    stage {} governs most often ({} of {} realisations)\n\n",
-            g.stage, g.count, k.runs
-        ));
+        out.push_str(&format!("    stage {} governs most often ({} of {} realisations)\n\n", g.stage, g.count, k.runs));
     }
     let mut t = Table::new(&super::RISK_STAGE_COLUMNS);
     for s in &k.stages {

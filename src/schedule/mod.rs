@@ -30,6 +30,36 @@ pub struct Runner<'e, 'p> {
     pub figures: bool,
 }
 
+/// The states of one rest from a starting state, kept at the rest-grid
+/// points reached so far: a trial that rests to any day continues from the
+/// latest of them instead of from the start (the planner's searches try
+/// many rests from the same state). Exact: `rest_until` steps on the grid.
+pub struct RestCache {
+    points: std::cell::RefCell<Vec<State>>,
+}
+
+impl RestCache {
+    pub fn new(start: &State) -> RestCache {
+        RestCache { points: std::cell::RefCell::new(vec![start.clone()]) }
+    }
+
+    /// The state after resting from the start until `day` (not before the
+    /// start's own day).
+    pub fn at(&self, r: &Runner, day: i64) -> State {
+        let mut points = self.points.borrow_mut();
+        let until = day as f64;
+        let k = points.partition_point(|s| s.day <= until + 1e-9).max(1) - 1;
+        let mut s = points[k].clone();
+        let grid = r.grid_at_or_before(until);
+        if grid > s.day + 1e-9 {
+            r.rest_to(&mut s, grid, &mut |_| {});
+            points.insert(k + 1, s.clone());
+        }
+        r.rest_to(&mut s, until, &mut |_| {});
+        s
+    }
+}
+
 /// Counters for the benchmark report.
 #[derive(Debug, Clone, Copy, Default, serde::Serialize)]
 pub struct Effort {
@@ -61,13 +91,32 @@ impl<'e, 'p> Runner<'e, 'p> {
     }
 
     /// Let the ground consolidate with no change of height until day `day`.
+    /// Rest steps end on a fixed grid of multiples of the rest step (and at
+    /// `day`), so a rest continued from any grid point reached earlier gives
+    /// exactly the state of one uninterrupted rest.
     pub fn rest_until(&self, st: &mut State, day: i64, rec: &mut dyn FnMut(&State)) {
+        self.rest_to(st, day as f64, rec);
+    }
+
+    fn rest_to(&self, st: &mut State, until: f64, rec: &mut dyn FnMut(&State)) {
         let h = st.height_m;
-        while st.day < day as f64 - 1e-9 {
-            let dt = self.rest_dt.min(day as f64 - st.day);
-            self.engine.advance(st, dt, h);
+        while st.day < until - 1e-9 {
+            let next_grid = self.grid_after(st.day);
+            let end = next_grid.min(until);
+            self.engine.advance(st, end - st.day, h);
+            st.day = end;
             rec(st);
         }
+    }
+
+    /// The first rest-grid point after day `t`.
+    fn grid_after(&self, t: f64) -> f64 {
+        ((t + 1e-9) / self.rest_dt).floor() * self.rest_dt + self.rest_dt
+    }
+
+    /// The last rest-grid point at or before day `t`.
+    fn grid_at_or_before(&self, t: f64) -> f64 {
+        ((t + 1e-9) / self.rest_dt).floor() * self.rest_dt
     }
 
     /// Raise (or lower, for a negative `change_m`) the crest by `change_m`

@@ -9,7 +9,7 @@
 //! criterion is met and then removes the surcharge.
 
 use super::record::{self, Figures, Governing};
-use super::{Effort, Runner};
+use super::{Effort, RestCache, Runner};
 use crate::error::{Error, Result};
 use crate::response::State;
 use crate::stability::search::SearchResult;
@@ -233,10 +233,10 @@ fn lift_candidates(r: &Runner, remaining: f64) -> Vec<f64> {
     out
 }
 
-/// FS at the end of placing `lift` starting on or after `start`.
-fn trial(r: &Runner, st: &State, start: i64, lift: f64, effort: &mut Effort) -> Result<f64> {
-    let mut s = st.clone();
-    r.rest_until(&mut s, start, &mut |_| {});
+/// FS at the end of placing `lift` starting on or after `start`, resting
+/// from the state of `rest` until then.
+fn trial(r: &Runner, rest: &RestCache, start: i64, lift: f64, effort: &mut Effort) -> Result<f64> {
+    let mut s = rest.at(r, start);
     r.place(&mut s, lift, &mut |_| {})?;
     Ok(r.stability(&s, effort)?.critical.fs)
 }
@@ -247,8 +247,9 @@ fn find_next(r: &Runner, st: &State, earliest: i64, cands: &[f64], effort: &mut 
     let target = r.engine.project.criteria.fs_construction;
     let last = cands.len() - 1;
     let first = r.next_workable(earliest.max(st.day.ceil() as i64))?;
+    let rest = RestCache::new(st);
     let safe = |i: usize, day: i64, effort: &mut Effort| -> Result<bool> {
-        Ok(trial(r, st, day, cands[i], effort)? >= target)
+        Ok(trial(r, &rest, day, cands[i], effort)? >= target)
     };
     if safe(last, first, effort)? {
         // Lift-limited: the thickest safe candidate on the first day.
@@ -259,7 +260,7 @@ fn find_next(r: &Runner, st: &State, earliest: i64, cands: &[f64], effort: &mut 
     }
     // Rest-limited: on the day the thinnest lift first becomes safe a
     // thicker one rarely is; try one increment up before bisecting.
-    let start = earliest_safe_day(r, st, first, cands[last], effort)?;
+    let start = safe_day_from(r, st, &rest, first, cands[last], effort)?;
     if last == 0 || !safe(last - 1, start, effort)? {
         return Ok((start, cands[last]));
     }
@@ -293,8 +294,13 @@ fn thickest_safe(
 /// position on FS − target, switching to bisection whenever the same end of
 /// the bracket is kept twice running (so it cannot stall).
 pub(crate) fn earliest_safe_day(r: &Runner, st: &State, first: i64, lift: f64, effort: &mut Effort) -> Result<i64> {
+    safe_day_from(r, st, &RestCache::new(st), first, lift, effort)
+}
+
+/// `earliest_safe_day` with the rests from `st` shared through `rest`.
+fn safe_day_from(r: &Runner, st: &State, rest: &RestCache, first: i64, lift: f64, effort: &mut Effort) -> Result<i64> {
     let target = r.engine.project.criteria.fs_construction;
-    let f = |day: i64, effort: &mut Effort| -> Result<f64> { Ok(trial(r, st, day, lift, effort)? - target) };
+    let f = |day: i64, effort: &mut Effort| -> Result<f64> { Ok(trial(r, rest, day, lift, effort)? - target) };
     let (mut lo, mut f_lo) = (first, f(first, effort)?);
     if st.height_m <= 1e-9 && r.engine.peak_excess(st) < 1e-6 {
         let p = r.engine.project;
@@ -320,6 +326,9 @@ pub(crate) fn earliest_safe_day(r: &Runner, st: &State, first: i64, lift: f64, e
         if rest >= MAX_REST_DAYS {
             return Err(unreachable_height(r, st, lift, rest));
         }
+        if rest == LONG_REST_DAYS {
+            never_safe(r, st, lift, effort)?;
+        }
         step *= 2;
     };
     let mut side: i32 = 0;
@@ -344,6 +353,31 @@ pub(crate) fn earliest_safe_day(r: &Runner, st: &State, first: i64, lift: f64, e
         }
     }
     Ok(hi)
+}
+
+/// Rest after which the planner asks whether any rest at all would do,
+/// days (a point of the doubling 14, 28, ...).
+const LONG_REST_DAYS: i64 = 448;
+
+/// Fail at once when `lift` would be unsafe even on the fully consolidated
+/// ground under the present height (every excess pore pressure dissipated,
+/// so the strength cannot grow further by resting): the rest search would
+/// otherwise simulate twenty years to find that out.
+fn never_safe(r: &Runner, st: &State, lift: f64, effort: &mut Effort) -> Result<()> {
+    let mut s = r.engine.consolidated(st);
+    r.place(&mut s, lift, &mut |_| {})?;
+    let fs = r.stability(&s, effort)?.critical.fs;
+    let p = r.engine.project;
+    if fs >= p.criteria.fs_construction {
+        return Ok(());
+    }
+    Err(Error::Computation(format!(
+        "cannot be built to {:.2} m with FS ≥ {:.2}: a {:.2} m lift on {:.2} m of fill has FS {fs:.2} even with the clay fully consolidated under the fill already placed, so no rest is long enough. Consider berms, reinforcement, closer drains or a lower target height.",
+        p.max_height_m(),
+        p.criteria.fs_construction,
+        lift,
+        st.height_m
+    )))
 }
 
 /// The error for a lift that stays unsafe after resting `rested` days (the

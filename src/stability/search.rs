@@ -150,12 +150,15 @@ pub fn search_from(s: &Section, seeds: &[BandResult]) -> Result<SearchResult> {
     let all = directions().collect::<Vec<_>>();
     let mut count = Counter { tried: 0, rejected: 0 };
     let mut refined = Vec::new();
+    let axes = axis_directions();
     for seed in seeds {
         let Some(band) = bands.iter().find(|b| b.name == seed.band) else { continue };
         let Some(start) = count.eval(s, seed.circle.circle) else { continue };
         let yt = start.circle.yc_m - start.circle.r_m;
+        // Walk along the axes (cheap), then confirm with all 26 moves.
         let grow = Stride::GrowTo(16.0 * MIN_STEP_M);
-        let (circle, _) = pattern(s, &mut count, (start, yt), band, MIN_STEP_M, MIN_STEP_M, &all, grow);
+        let walked = pattern(s, &mut count, (start, yt), band, MIN_STEP_M, MIN_STEP_M, &axes, grow);
+        let (circle, _) = pattern(s, &mut count, walked, band, MIN_STEP_M, MIN_STEP_M, &all, Stride::Keep);
         refined.push(BandResult { band: band.name.clone(), circle });
     }
     let Some(critical) = refined.iter().map(|b| &b.circle).min_by(|a, b| a.fs.total_cmp(&b.fs)).cloned() else {
@@ -325,6 +328,11 @@ fn refine(s: &Section, count: &mut Counter, starts: Vec<Candidate>, band: &Band,
         .map(|(r, yt, _, _)| pattern(s, count, (r, yt), band, step0, 8.0 * MIN_STEP_M, &all, Stride::Keep))
         .min_by(|a, b| a.0.fs.total_cmp(&b.0.fs))?;
     Some(pattern(s, count, coarse, band, 4.0 * MIN_STEP_M, MIN_STEP_M, &all, Stride::Keep).0)
+}
+
+/// The 6 unit moves along the axes (xc, yc, tangent).
+fn axis_directions() -> Vec<[f64; 3]> {
+    directions().filter(|d| d.iter().map(|v| v.abs()).sum::<f64>() == 1.0).collect()
 }
 
 /// The 26 unit moves of a 3 × 3 × 3 stencil.

@@ -179,10 +179,7 @@ pub fn risk_charts(c: &mut Canvas, r: &RiskReport) {
     let start = r.project.info.start_date;
     let days: Vec<f64> = k.realisations.iter().filter_map(|x| x.duration_days.map(|d| d as f64 - 1.0)).collect();
     let (w, h) = (0.5 * (PAGE_W - 2.0 * MARGIN) - 22.0, 110.0);
-    if let (Some(lo), Some(hi)) = (
-        days.iter().copied().reduce(f64::min),
-        days.iter().copied().reduce(f64::max),
-    ) {
+    if let (Some(lo), Some(hi)) = (days.iter().copied().reduce(f64::min), days.iter().copied().reduce(f64::max)) {
         let bins = 20usize;
         let width = ((hi - lo) / bins as f64).max(7.0);
         let mut counts = vec![0usize; bins + 1];

@@ -1,0 +1,138 @@
+//! Design options and uncertainty on real files: `compare` plans every
+//! variant of the grid, `risk` checks the timetable against realisations of
+//! the declared uncertain parameters. Checks against closed forms and
+//! against the deterministic plan.
+
+mod common;
+use common::*;
+use predicates::prelude::*;
+
+const PHI0: &str = "tests/data/phi0-single-lift.toml";
+
+fn risk_json(project: &std::path::Path, args: &[&str]) -> Vec<u8> {
+    let out = fillpace().arg("risk").arg(project).args(args).arg("--json").output().unwrap();
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    out.stdout
+}
+
+#[test]
+fn lognormal_su_gives_the_closed_form_probability_of_failure() {
+    // φ = 0 clay, strengthless fill, no strength gain: every circle's FS is
+    // proportional to su0, so FS = X·F1 with X the lognormal factor (mean 1,
+    // CoV v) and P(FS < 1) = P(X < 1/F1) = Φ((ln(1/F1) − μ)/σ), σ² = ln(1 + v²),
+    // μ = −σ²/2 (general statistics: the lognormal distribution function).
+    let runs = 4000;
+    let r = json_result(&risk_json(&root(PHI0), &["--runs", &runs.to_string(), "--seed", "11"]));
+    let f1 = r["stages"][0]["fs_best_estimate"].as_f64().unwrap();
+    let s2 = (1.0f64 + 0.3 * 0.3).ln();
+    let z = ((1.0 / f1).ln() + 0.5 * s2) / s2.sqrt();
+    let closed = fillpace::random::normal_cdf(z);
+    let mc = r["below_one"]["probability"].as_f64().unwrap();
+    // Monte Carlo standard error √(p(1 − p)/n); 3 standard errors.
+    let se = (closed * (1.0 - closed) / runs as f64).sqrt();
+    assert!((mc - closed).abs() < 3.0 * se, "Monte Carlo {mc} against closed form {closed} (s.e. {se})");
+    // And each realisation's FS is the factor times the best estimate: the
+    // seeded circle search finds the same critical circle.
+    for x in r["realisations"].as_array().unwrap() {
+        let factor = x["factors"][0].as_f64().unwrap();
+        let fs = x["stage_fs"][0].as_f64().unwrap();
+        assert!((fs - factor * f1).abs() < 1e-6 * fs, "FS {fs} against {factor} × {f1}");
+    }
+}
+
+#[test]
+fn same_seed_same_bytes_and_threads_do_not_matter() {
+    let p = root(PHI0);
+    let a = risk_json(&p, &["--runs", "60", "--seed", "5", "--threads", "1"]);
+    let b = risk_json(&p, &["--runs", "60", "--seed", "5", "--threads", "2"]);
+    let c = risk_json(&p, &["--runs", "60", "--seed", "5", "--threads", "2"]);
+    let d = risk_json(&p, &["--runs", "60", "--seed", "6", "--threads", "2"]);
+    assert_eq!(a, b, "one and two threads differ");
+    assert_eq!(b, c, "the same seed gave different output");
+    assert_ne!(c, d, "a different seed gave the same output");
+}
+
+#[test]
+fn zero_cov_reproduces_the_deterministic_plan() {
+    let dir = tempfile::tempdir().unwrap();
+    let text = std::fs::read_to_string(root(DEMO)).unwrap();
+    let zero: String = text
+        .lines()
+        .map(|l| if l.starts_with("cov = ") { "cov = 0.0".to_string() } else { l.to_string() })
+        .collect::<Vec<_>>()
+        .join("\n");
+    assert!(zero.contains("cov = 0.0"));
+    let path = dir.path().join("zero-cov.toml");
+    std::fs::write(&path, zero).unwrap();
+    let out = fillpace().arg("plan").arg(&path).arg("--json").output().unwrap();
+    assert!(out.status.success());
+    let plan = json_result(&out.stdout);
+    let r = json_result(&risk_json(&path, &["--runs", "2"]));
+    let stages = plan["stages"].as_array().unwrap();
+    for x in r["realisations"].as_array().unwrap() {
+        assert!(x["factors"].as_array().unwrap().iter().all(|f| f.as_f64() == Some(1.0)));
+        for (s, fs) in stages.iter().zip(x["stage_fs"].as_array().unwrap()) {
+            assert_eq!(s["fs_end"].as_f64(), fs.as_f64(), "stage {}", s["number"]);
+        }
+        assert_eq!(x["finish"], plan["finish"]);
+        assert_eq!(x["duration_days"], plan["duration_days"]);
+    }
+    assert_eq!(r["below_one"]["count"], 0);
+    assert_eq!(r["lowest_fs"]["p50"], plan["min_fs"]);
+}
+
+#[test]
+fn risk_without_uncertain_parameters_is_refused() {
+    fillpace()
+        .args(["risk", "tests/data/minimal.toml", "--runs", "5"])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("[[uncertain]]"));
+    fillpace().args(["risk", PHI0, "--runs", "0"]).assert().code(2).stderr(predicate::str::contains("--runs"));
+}
+
+#[test]
+fn compare_plans_every_variant_sorted_by_finish() {
+    let dir = tempfile::tempdir().unwrap();
+    let (csv, pdf) = (dir.path().join("options.csv"), dir.path().join("options.pdf"));
+    let out = fillpace()
+        .args(["compare", DEMO, "--vary", "drains.spacing_m=2.5,1.2", "--json", "--csv"])
+        .arg(&csv)
+        .arg("--pdf")
+        .arg(&pdf)
+        .output()
+        .unwrap();
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let r = json_result(&out.stdout);
+    let v = r["variants"].as_array().unwrap();
+    assert_eq!(v.len(), 2);
+    // Closer drains consolidate faster (Hansbo 1981: the radial time factor
+    // scales with 1/de²), so the 1.2 m variant finishes first.
+    assert_eq!(v[0]["settings"][0]["value"], "1.2");
+    assert!(v[0]["outcome"]["finish"].as_str().unwrap() < v[1]["outcome"]["finish"].as_str().unwrap());
+    let d = |k: usize| v[k]["outcome"]["drain_length_m_per_m"].as_f64().unwrap();
+    // Drain length goes as 1/s²: (2.5/1.2)² = 4.34.
+    assert!((d(0) / d(1) - (2.5f64 / 1.2).powi(2)).abs() < 1e-9);
+    let text = std::fs::read_to_string(&csv).unwrap();
+    assert_eq!(text.lines().count(), 3);
+    assert!(text.starts_with("variant,settings,lifts,finish"));
+    assert!(std::fs::read(&pdf).unwrap().starts_with(b"%PDF"));
+}
+
+#[test]
+fn compare_names_the_nearest_keys_for_an_unknown_one() {
+    let dir = tempfile::tempdir().unwrap();
+    let csv = dir.path().join("x.csv");
+    fillpace()
+        .args(["compare", DEMO, "--vary", "drains.spaceing_m=1,2", "--csv"])
+        .arg(&csv)
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("drains.spacing_m"));
+    assert!(!csv.exists());
+    fillpace()
+        .args(["compare", DEMO, "--vary", "drains.spacing_m=0.01"])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("drains.spacing_m"));
+}
