@@ -44,6 +44,9 @@ pub struct Element {
     pub clay: Option<ClayProps>,
     /// σ'p0 at the two ends for this element's layer, kPa.
     pub sp0: [f64; 2],
+    /// log10 of σ'v0 and of σ'p0 at the two ends.
+    log_s0: [f64; 2],
+    log_sp0: [f64; 2],
     /// Constant mv for linear mode, 1/kPa (layer reference value).
     pub mv_lin: f64,
 }
@@ -82,6 +85,17 @@ pub struct ColumnState {
     implicit_left: u8,
 }
 
+/// A trial solution of a step and the strains at the step's start, for the
+/// secant storage.
+#[derive(Clone, Copy)]
+struct Trial<'a> {
+    u: &'a [f64],
+    /// Strain at each element's (top, bottom) end at the start of the step.
+    eps_old: &'a [[f64; 2]],
+    /// log10 σ'max at each node at the start of the step.
+    log_smax: &'a [f64],
+}
+
 impl Column {
     /// Build a column at offset `x_m` on the project's grid.
     pub fn new(project: &Project, x_m: f64) -> Column {
@@ -98,6 +112,8 @@ impl Column {
                 h_m: w[1].z_m - w[0].z_m,
                 clay: m.clay,
                 sp0: [a.sigma_p0_kpa, b.sigma_p0_kpa],
+                log_s0: [a.sigma_v0_eff_kpa.log10(), b.sigma_v0_eff_kpa.log10()],
+                log_sp0: [a.sigma_p0_kpa.log10(), b.sigma_p0_kpa.log10()],
                 mv_lin,
             });
         }
@@ -164,7 +180,7 @@ impl Column {
     /// law, so that the step conserves volume exactly (the modified Picard
     /// scheme of Celia, Bouloutas & Zarba 1990); without it, the tangent at
     /// the start of the step.
-    fn storage(&self, st: &ColumnState, e: usize, end: usize, u_new: Option<&[f64]>) -> f64 {
+    fn storage(&self, st: &ColumnState, e: usize, end: usize, u_new: Option<Trial>) -> f64 {
         let el = &self.elements[e];
         let Some(c) = el.clay else { return 0.0 };
         let i = e + end;
@@ -173,20 +189,30 @@ impl Column {
             (ConsolidationMode::StressDependent, None) => {
                 ground::mv_tangent(&c, self.sigma_eff(st, i), el.sp0[end].max(st.smax[i]))
             }
-            (ConsolidationMode::StressDependent, Some(u)) => {
+            (ConsolidationMode::StressDependent, Some(t)) => {
                 let s_old = self.sigma_eff(st, i);
-                let s_new = s_old + st.u[i] - u[i];
+                let s_new = s_old + st.u[i] - t.u[i];
                 let sp = el.sp0[end].max(st.smax[i]);
                 if (s_new - s_old).abs() < 1e-6 {
                     ground::mv_tangent(&c, s_old, sp)
                 } else {
-                    let s0 = self.nodes[i].sigma_v0_eff_kpa;
-                    let eps = |s: f64, smax: f64| ground::strain(&c, s0, el.sp0[end], smax.max(s), s);
-                    (eps(s_new, st.smax[i].max(s_new)) - eps(s_old, st.smax[i])) / (s_new - s_old)
+                    let l_s = s_new.max(1e-3).log10();
+                    let l_smax = if s_new > st.smax[i] { s_new.log10() } else { t.log_smax[i] };
+                    let eps_new = ground::strain_log10(&c, el.log_s0[end], el.log_sp0[end], l_smax, l_s);
+                    (eps_new - t.eps_old[e][end]) / (s_new - s_old)
                 }
             }
         };
         0.5 * el.h_m * mv
+    }
+
+    /// Strain at end `end` of element e for σ' = `s` (log10 `l_s`) after a
+    /// largest stress with log10 `l_smax` ≥ `l_s` (the e–log σ' law with
+    /// that element's σ'p0).
+    fn strain_at(&self, e: usize, end: usize, l_smax: f64, l_s: f64) -> f64 {
+        let el = &self.elements[e];
+        let Some(c) = el.clay else { return 0.0 };
+        ground::strain_log10(&c, el.log_s0[end], el.log_sp0[end], l_smax, l_s)
     }
 
     /// Apply new total stress increments (generating excess pore pressure by
@@ -240,9 +266,16 @@ impl Column {
         let mut u = self.solve_step(st, &k, dt, theta, None);
         let mut converged = self.mode != ConsolidationMode::StressDependent;
         if !converged {
+            // Strains at the start of the step and log10 σ'max, the same in
+            // every pass.
+            let log_smax: Vec<f64> = st.smax.iter().map(|s| s.log10()).collect();
+            let log_s: Vec<f64> = (0..=ne).map(|i| self.sigma_eff(st, i).max(1e-3).log10()).collect();
+            let eps_old: Vec<[f64; 2]> = (0..ne)
+                .map(|e| [0, 1].map(|end| self.strain_at(e, end, log_smax[e + end].max(log_s[e + end]), log_s[e + end])))
+                .collect();
             let (mut omega, mut prev): (f64, f64) = (1.0, f64::INFINITY);
             for it in 0..PICARD_MAX {
-                let next = self.solve_step(st, &k, dt, theta, Some(&u));
+                let next = self.solve_step(st, &k, dt, theta, Some(Trial { u: &u, eps_old: &eps_old, log_smax: &log_smax }));
                 let residual = next.iter().zip(&u).map(|(a, b)| (a - b).abs()).fold(0.0, f64::max);
                 if residual < PICARD_TOL_KPA {
                     u = next;
@@ -268,7 +301,7 @@ impl Column {
 
     /// Assemble and solve one θ-step from `st` with conductances K = k/γw per
     /// element and the storage of `storage(…, trial)`; returns the new u.
-    fn solve_step(&self, st: &ColumnState, k: &[f64], dt: f64, theta: f64, trial: Option<&[f64]>) -> Vec<f64> {
+    fn solve_step(&self, st: &ColumnState, k: &[f64], dt: f64, theta: f64, trial: Option<Trial>) -> Vec<f64> {
         let n = self.nodes.len();
         let ne = self.elements.len();
         let (mut a, mut b, mut c, mut d) = (vec![0.0; n], vec![0.0; n], vec![0.0; n], vec![0.0; n]);

@@ -129,9 +129,16 @@ pub fn su_now(node: &Node, sigma_v_eff: f64, sigma_p: f64) -> f64 {
 /// recompression with Cr up to σ'p0, virgin compression with Cc beyond, and
 /// swelling with Cr from the largest stress σ'max back to σ'.
 pub fn strain(clay: &ClayProps, s0: f64, sp0: f64, smax: f64, s: f64) -> f64 {
-    let recompression = clay.cr * (smax.min(sp0) / s0).max(1.0).log10();
-    let virgin = clay.cc * (smax.max(sp0) / sp0).log10();
-    let swell = clay.cr * (smax / s.max(1e-3)).log10();
+    strain_log10(clay, s0.log10(), sp0.log10(), smax.log10(), s.max(1e-3).log10())
+}
+
+/// `strain` from the base-10 logarithms of σ'v0, σ'p0, σ'max and σ' (σ'
+/// at least 1e-3 kPa): the consolidation column keeps the constant ones, so
+/// that each evaluation costs at most two logarithms.
+pub fn strain_log10(clay: &ClayProps, l_s0: f64, l_sp0: f64, l_smax: f64, l_s: f64) -> f64 {
+    let recompression = clay.cr * (l_smax.min(l_sp0) - l_s0).max(0.0);
+    let virgin = clay.cc * (l_smax - l_sp0).max(0.0);
+    let swell = clay.cr * (l_smax - l_s);
     (recompression + virgin - swell) / (1.0 + clay.e0)
 }
 

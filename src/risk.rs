@@ -169,10 +169,13 @@ pub struct DateSpread {
     pub p90: NaiveDate,
 }
 
-/// Band circles of each stage of `plan` by crest height: the seeds of the
-/// realisations' slip-circle searches.
+/// Band circles of each stage of `plan` with its crest height: the seeds of
+/// the realisations' slip-circle searches (one entry per stage, in order).
 pub fn seeds(plan: &Plan) -> Vec<(f64, Vec<BandResult>)> {
-    plan.stages.iter().filter_map(|s| s.critical.as_ref().map(|c| (s.height_after_m, c.bands.clone()))).collect()
+    plan.stages
+        .iter()
+        .map(|s| (s.height_after_m, s.critical.as_ref().map_or_else(Vec::new, |c| c.bands.clone())))
+        .collect()
 }
 
 /// Run the Monte Carlo for the project in `doc` (already validated into
@@ -246,10 +249,10 @@ fn realise(
     let mut effort = Effort::default();
     let mut st = engine.initial_state();
     let mut stage_fs = Vec::with_capacity(plan.stages.len());
-    for s in &plan.stages {
+    for (s, (_, bands)) in plan.stages.iter().zip(seeds) {
         r.rest_until(&mut st, r.calendar.day_of(s.start), &mut |_| {});
         r.place(&mut st, s.thickness_m, &mut |_| {})?;
-        stage_fs.push(r.stability(&st, &mut effort)?.critical.fs);
+        stage_fs.push(r.stability_from(&st, bands, &mut effort)?.critical.fs);
     }
     let (governing_stage, lowest_fs) = plan
         .stages

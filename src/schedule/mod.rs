@@ -25,22 +25,40 @@ pub struct Runner<'e, 'p> {
     /// Seed circles by crest height (m): when set, stability is found by
     /// `search_from` the seeds of the nearest height instead of the grid.
     seeds: Vec<(f64, Vec<BandResult>)>,
-    /// Whether plans record the data of the report's figures (time series,
-    /// profiles, the governing section); off for Monte Carlo realisations.
-    pub figures: bool,
+    /// Results of the latest searches by crest height (m), the second start
+    /// of each band in seeded searches: trials at one height from one state
+    /// differ little from each other.
+    recent: std::cell::RefCell<Vec<(f64, Vec<BandResult>)>>,
+    /// Whether plans record report detail (the figures' time series and
+    /// profiles, the governing section, the FS at each release); off for
+    /// Monte Carlo realisations, which need the timetable only.
+    pub detail: bool,
 }
 
 /// The states of one rest from a starting state, kept at the rest-grid
 /// points reached so far: a trial that rests to any day continues from the
 /// latest of them instead of from the start (the planner's searches try
 /// many rests from the same state). Exact: `rest_until` steps on the grid.
+/// It also remembers the FS of every trial made, so none is made twice.
 pub struct RestCache {
     points: std::cell::RefCell<Vec<State>>,
+    /// FS of the trials already made from this rest: (start day, lift m, FS).
+    trials: std::cell::RefCell<Vec<(i64, f64, f64)>>,
 }
 
 impl RestCache {
     pub fn new(start: &State) -> RestCache {
-        RestCache { points: std::cell::RefCell::new(vec![start.clone()]) }
+        RestCache { points: std::cell::RefCell::new(vec![start.clone()]), trials: Default::default() }
+    }
+
+    /// The FS of a lift of `lift_m` started on `day`, if already tried.
+    pub fn known(&self, day: i64, lift_m: f64) -> Option<f64> {
+        self.trials.borrow().iter().find(|t| t.0 == day && t.1 == lift_m).map(|t| t.2)
+    }
+
+    /// Record the FS of a trial.
+    pub fn remember(&self, day: i64, lift_m: f64, fs: f64) {
+        self.trials.borrow_mut().push((day, lift_m, fs));
     }
 
     /// The state after resting from the start until `day` (not before the
@@ -79,7 +97,8 @@ impl<'e, 'p> Runner<'e, 'p> {
             place_dt: p.analysis.placement_step_days,
             rest_dt: p.analysis.rest_step_days,
             seeds: Vec::new(),
-            figures: true,
+            recent: Default::default(),
+            detail: true,
         }
     }
 
@@ -87,7 +106,7 @@ impl<'e, 'p> Runner<'e, 'p> {
     /// from `seeds` (band circles by crest height, m) rather than from the
     /// full grid, and plans record no figures.
     pub fn for_realisation(engine: &'e Engine<'p>, seeds: Vec<(f64, Vec<BandResult>)>) -> Self {
-        Runner { seeds, figures: false, ..Runner::new(engine) }
+        Runner { seeds, detail: false, ..Runner::new(engine) }
     }
 
     /// Let the ground consolidate with no change of height until day `day`.
@@ -167,10 +186,24 @@ impl<'e, 'p> Runner<'e, 'p> {
         effort.stability_searches += 1;
         let field = self.engine.field(st);
         let section = Section::new(self.engine.project, st.height_m, &field);
-        let nearest = self.seeds.iter().min_by(|a, b| (a.0 - st.height_m).abs().total_cmp(&(b.0 - st.height_m).abs()));
-        match nearest {
-            Some((_, seeds)) => search_from(&section, seeds),
-            None => search(&section),
+        let h = st.height_m;
+        let nearest = self.seeds.iter().min_by(|a, b| (a.0 - h).abs().total_cmp(&(b.0 - h).abs()));
+        let Some((_, seeds)) = nearest else { return search(&section) };
+        let mut recent = self.recent.borrow_mut();
+        let at = recent.iter().position(|r| (r.0 - h).abs() < 1e-9);
+        let found = search_from(&section, seeds, at.map_or(&[][..], |k| &recent[k].1))?;
+        match at {
+            Some(k) => recent[k].1.clone_from(&found.bands),
+            None => recent.push((h, found.bands.clone())),
         }
+        Ok(found)
+    }
+
+    /// Critical slip circle searched from the given band circles only (the
+    /// same stage of an earlier plan, say).
+    pub fn stability_from(&self, st: &State, seeds: &[BandResult], effort: &mut Effort) -> Result<SearchResult> {
+        effort.stability_searches += 1;
+        let field = self.engine.field(st);
+        search_from(&Section::new(self.engine.project, st.height_m, &field), seeds, &[])
     }
 }

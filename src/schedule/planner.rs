@@ -142,9 +142,11 @@ pub fn plan_from(r: &Runner, start: State, earliest: i64, progress: &mut dyn FnM
     fig.profile(r.engine, &st, "start".into());
     let top = p.max_height_m();
     let mut earliest = earliest;
+    let mut last_rest = 0;
     while st.height_m < top - 1e-6 {
-        let (start, lift) = next_lift(r, &st, earliest, &mut effort)?;
-        advance_to(r, &mut stages, &mut st, start, &mut fig, &mut effort)?;
+        let (start, lift, rested) = next_lift(r, &st, earliest, last_rest, &mut effort)?;
+        last_rest = start - earliest;
+        advance_to(r, &mut stages, &mut st, start, Some(rested), &mut fig, &mut effort)?;
         let (a, b) = r.place(&mut st, lift, &mut |s| fig.record_if(r, s))?;
         let crit = r.stability(&st, &mut effort)?;
         stages.push(stage(r, stages.len() + 1, StageKind::Lift, a, b, lift, &st, crit));
@@ -154,34 +156,39 @@ pub fn plan_from(r: &Runner, start: State, earliest: i64, progress: &mut dyn FnM
     let mut warnings = Vec::new();
     if p.embankment.surcharge_height_m > 0.0 {
         let start = removal_day(r, &st, earliest, &mut warnings)?;
-        advance_to(r, &mut stages, &mut st, start, &mut fig, &mut effort)?;
+        advance_to(r, &mut stages, &mut st, start, None, &mut fig, &mut effort)?;
         let change = -p.embankment.surcharge_height_m;
         let (a, b) = r.place(&mut st, change, &mut |s| fig.record_if(r, s))?;
         let crit = r.stability(&st, &mut effort)?;
         stages.push(stage(r, stages.len() + 1, StageKind::SurchargeRemoval, a, b, change, &st, crit));
     }
     fig.profile(r.engine, &st, format!("end {}", stages.last().map_or(p.info.start_date, |s| s.end)));
-    if r.figures {
+    if r.detail {
         fig.governing = governing(r, &start, &stages, &mut effort)?;
     }
     totals(r, stages, &st, effort, warnings, fig)
 }
 
 /// Rest until `start`, recording the days, and close the previous stage's
-/// rest (release date, FS and strength profile at release).
+/// rest (release date, FS and strength profile at release). `rested` is
+/// the state at `start` when the lift search already reached it; it is
+/// taken as it is when no figures are recorded (it is exactly the state
+/// the rest would give: rests step on a fixed grid).
 fn advance_to(
     r: &Runner,
     stages: &mut [Stage],
     st: &mut State,
     start: i64,
+    rested: Option<State>,
     fig: &mut Figures,
     effort: &mut Effort,
 ) -> Result<()> {
+    match rested {
+        Some(s) if !r.detail => *st = s,
+        _ => r.rest_until(st, start, &mut |s| fig.record_if(r, s)),
+    }
     if let Some(prev) = stages.last_mut() {
         close_rest(r, prev, st, start, effort)?;
-    }
-    r.rest_until(st, start, &mut |s| fig.record_if(r, s));
-    if let Some(prev) = stages.last() {
         fig.profile(r.engine, st, format!("release after stage {} ({})", prev.number, r.calendar.date(start)));
     }
     Ok(())
@@ -204,10 +211,20 @@ fn governing(r: &Runner, start: &State, stages: &[Stage], effort: &mut Effort) -
 }
 
 /// The next lift from state `st`: its start day (on or after `earliest`)
-/// and its crest-height increment, m.
-pub fn next_lift(r: &Runner, st: &State, earliest: i64, effort: &mut Effort) -> Result<(i64, f64)> {
+/// and its crest-height increment, m. `last_rest` (days beyond the earliest
+/// start that the previous lift waited) is where the rest search starts
+/// looking: rests grow gradually from lift to lift.
+fn next_lift(
+    r: &Runner,
+    st: &State,
+    earliest: i64,
+    last_rest: i64,
+    effort: &mut Effort,
+) -> Result<(i64, f64, State)> {
     let candidates = lift_candidates(r, r.engine.project.max_height_m() - st.height_m);
-    find_next(r, st, earliest, &candidates, effort)
+    let rest = RestCache::new(st);
+    let (start, lift) = find_next(r, st, &rest, earliest, last_rest, &candidates, effort)?;
+    Ok((start, lift, rest.at(r, start)))
 }
 
 /// Lift thicknesses to try, thickest first: from min(max lift, remaining)
@@ -236,20 +253,32 @@ fn lift_candidates(r: &Runner, remaining: f64) -> Vec<f64> {
 /// FS at the end of placing `lift` starting on or after `start`, resting
 /// from the state of `rest` until then.
 fn trial(r: &Runner, rest: &RestCache, start: i64, lift: f64, effort: &mut Effort) -> Result<f64> {
+    if let Some(fs) = rest.known(start, lift) {
+        return Ok(fs);
+    }
     let mut s = rest.at(r, start);
     r.place(&mut s, lift, &mut |_| {})?;
-    Ok(r.stability(&s, effort)?.critical.fs)
+    let fs = r.stability(&s, effort)?.critical.fs;
+    rest.remember(start, lift, fs);
+    Ok(fs)
 }
 
 /// Start day and thickness of the next lift: the earliest day on which the
 /// thinnest candidate is safe, then the thickest candidate safe that day.
-fn find_next(r: &Runner, st: &State, earliest: i64, cands: &[f64], effort: &mut Effort) -> Result<(i64, f64)> {
+fn find_next(
+    r: &Runner,
+    st: &State,
+    rest: &RestCache,
+    earliest: i64,
+    last_rest: i64,
+    cands: &[f64],
+    effort: &mut Effort,
+) -> Result<(i64, f64)> {
     let target = r.engine.project.criteria.fs_construction;
     let last = cands.len() - 1;
     let first = r.next_workable(earliest.max(st.day.ceil() as i64))?;
-    let rest = RestCache::new(st);
     let safe = |i: usize, day: i64, effort: &mut Effort| -> Result<bool> {
-        Ok(trial(r, &rest, day, cands[i], effort)? >= target)
+        Ok(trial(r, rest, day, cands[i], effort)? >= target)
     };
     if safe(last, first, effort)? {
         // Lift-limited: the thickest safe candidate on the first day.
@@ -260,7 +289,7 @@ fn find_next(r: &Runner, st: &State, earliest: i64, cands: &[f64], effort: &mut 
     }
     // Rest-limited: on the day the thinnest lift first becomes safe a
     // thicker one rarely is; try one increment up before bisecting.
-    let start = safe_day_from(r, st, &rest, first, cands[last], effort)?;
+    let start = safe_day_from(r, st, rest, first, cands[last], last_rest, effort)?;
     if last == 0 || !safe(last - 1, start, effort)? {
         return Ok((start, cands[last]));
     }
@@ -294,11 +323,20 @@ fn thickest_safe(
 /// position on FS − target, switching to bisection whenever the same end of
 /// the bracket is kept twice running (so it cannot stall).
 pub(crate) fn earliest_safe_day(r: &Runner, st: &State, first: i64, lift: f64, effort: &mut Effort) -> Result<i64> {
-    safe_day_from(r, st, &RestCache::new(st), first, lift, effort)
+    safe_day_from(r, st, &RestCache::new(st), first, lift, 0, effort)
 }
 
-/// `earliest_safe_day` with the rests from `st` shared through `rest`.
-fn safe_day_from(r: &Runner, st: &State, rest: &RestCache, first: i64, lift: f64, effort: &mut Effort) -> Result<i64> {
+/// `earliest_safe_day` with the rests from `st` shared through `rest`, the
+/// bracket grown from a first rest of `guess` days (at least 14).
+fn safe_day_from(
+    r: &Runner,
+    st: &State,
+    rest: &RestCache,
+    first: i64,
+    lift: f64,
+    guess: i64,
+    effort: &mut Effort,
+) -> Result<i64> {
     let target = r.engine.project.criteria.fs_construction;
     let f = |day: i64, effort: &mut Effort| -> Result<f64> { Ok(trial(r, rest, day, lift, effort)? - target) };
     let (mut lo, mut f_lo) = (first, f(first, effort)?);
@@ -311,7 +349,8 @@ fn safe_day_from(r: &Runner, st: &State, rest: &RestCache, first: i64, lift: f64
             f_lo + target
         )));
     }
-    let mut step = 14;
+    let mut step = guess.max(14);
+    let mut asked_if_ever = false;
     let (mut hi, mut f_hi) = loop {
         let rest = step.min(MAX_REST_DAYS);
         if first + rest > r.calendar.horizon() {
@@ -326,8 +365,9 @@ fn safe_day_from(r: &Runner, st: &State, rest: &RestCache, first: i64, lift: f64
         if rest >= MAX_REST_DAYS {
             return Err(unreachable_height(r, st, lift, rest));
         }
-        if rest == LONG_REST_DAYS {
+        if rest >= LONG_REST_DAYS && !asked_if_ever {
             never_safe(r, st, lift, effort)?;
+            asked_if_ever = true;
         }
         step *= 2;
     };
@@ -356,7 +396,7 @@ fn safe_day_from(r: &Runner, st: &State, rest: &RestCache, first: i64, lift: f64
 }
 
 /// Rest after which the planner asks whether any rest at all would do,
-/// days (a point of the doubling 14, 28, ...).
+/// days.
 const LONG_REST_DAYS: i64 = 448;
 
 /// Fail at once when `lift` would be unsafe even on the fully consolidated
@@ -395,14 +435,13 @@ fn unreachable_height(r: &Runner, st: &State, lift: f64, rested: i64) -> Error {
     ))
 }
 
-/// Record the rest after a stage: release date and FS at release.
-fn close_rest(r: &Runner, prev: &mut Stage, st: &State, start: i64, effort: &mut Effort) -> Result<()> {
-    let mut s = st.clone();
-    r.rest_until(&mut s, start, &mut |_| {});
+/// Record the rest after a stage from the state `s` at its end (day
+/// `start`): release date, FS, degree and settlement at release.
+fn close_rest(r: &Runner, prev: &mut Stage, s: &State, start: i64, effort: &mut Effort) -> Result<()> {
     prev.rest_days = start - r.calendar.day_of(prev.end) - 1;
     prev.release = Some(r.calendar.date(start));
-    prev.fs_release = Some(r.stability(&s, effort)?.critical.fs);
-    prev.degree_centre = r.engine.degree_centre(&s);
+    prev.fs_release = if r.detail { Some(r.stability(s, effort)?.critical.fs) } else { None };
+    prev.degree_centre = r.engine.degree_centre(s);
     prev.settlement_centre_m = s.settlement_centre_m;
     Ok(())
 }

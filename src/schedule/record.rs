@@ -74,9 +74,9 @@ pub fn probes(e: &Engine) -> Vec<Probe> {
 }
 
 impl Figures {
-    /// Append a row for each new whole day, when the runner keeps figures.
+    /// Append a row for each new whole day, when the runner keeps detail.
     pub fn record_if(&mut self, r: &super::Runner, st: &State) {
-        if r.figures {
+        if r.detail {
             self.record(r.engine, &r.calendar, st);
         }
     }

@@ -83,6 +83,19 @@ pub enum Reject {
 impl Section<'_> {
     /// Analyse one circle.
     pub fn analyse(&self, c: Circle) -> Result<CircleResult, Reject> {
+        let mut r = self.analyse_unnamed(c)?;
+        self.name_band(&mut r);
+        Ok(r)
+    }
+
+    /// Fill in `band`, the material at the circle's lowest point (left
+    /// empty by the searches' trial evaluations, where it is not needed).
+    pub fn name_band(&self, r: &mut CircleResult) {
+        r.band = self.band_at(r.circle.xc_m, (r.circle.yc_m - r.circle.r_m).max(self.base_y));
+    }
+
+    /// `analyse` without naming the band.
+    pub(crate) fn analyse_unnamed(&self, c: Circle) -> Result<CircleResult, Reject> {
         if c.yc_m - c.r_m < self.base_y - 1e-6 {
             return Err(Reject::IntoBase);
         }
@@ -112,20 +125,22 @@ impl Section<'_> {
             driving_knm_per_m: drive * c.r_m,
             resisting_knm_per_m: fs * drive * c.r_m,
             depth_m: -y_low,
-            band: self.band_at(c.xc_m, y_low.max(self.base_y)),
+            band: String::new(),
             slices: f.slices.len(),
         })
     }
 
     /// Entry and exit x of the lower arc with the ground surface.
     fn ends(&self, c: Circle) -> Option<(f64, f64)> {
-        let mut xs: Vec<f64> = Vec::new();
+        let (mut n, mut lo, mut hi) = (0, f64::INFINITY, f64::NEG_INFINITY);
         for w in self.surface.windows(2) {
-            segment_hits(w[0], w[1], c, &mut xs);
+            for x in segment_hits(w[0], w[1], c).into_iter().flatten() {
+                n += 1;
+                lo = lo.min(x);
+                hi = hi.max(x);
+            }
         }
-        let lo = xs.iter().copied().fold(f64::INFINITY, f64::min);
-        let hi = xs.iter().copied().fold(f64::NEG_INFINITY, f64::max);
-        (xs.len() >= 2 && hi - lo > 1e-3).then_some((lo, hi))
+        (n >= 2 && hi - lo > 1e-3).then_some((lo, hi))
     }
 
     /// Slice boundaries between entry and exit, with breaks at every profile
@@ -309,28 +324,23 @@ struct SliceData {
     u: f64,
 }
 
-/// x of the points where segment p–q meets the circle's lower half.
-fn segment_hits(p: (f64, f64), q: (f64, f64), c: Circle, out: &mut Vec<f64>) {
+/// x of the points (at most two) where segment p–q meets the circle's
+/// lower half.
+fn segment_hits(p: (f64, f64), q: (f64, f64), c: Circle) -> [Option<f64>; 2] {
     let (dx, dy) = (q.0 - p.0, q.1 - p.1);
     let (fx, fy) = (p.0 - c.xc_m, p.1 - c.yc_m);
     let a = dx * dx + dy * dy;
     if a < 1e-18 {
-        return;
+        return [None, None];
     }
     let b = 2.0 * (fx * dx + fy * dy);
     let cc = fx * fx + fy * fy - c.r_m * c.r_m;
     let disc = b * b - 4.0 * a * cc;
     if disc < 0.0 {
-        return;
+        return [None, None];
     }
-    for s in [(-b - disc.sqrt()) / (2.0 * a), (-b + disc.sqrt()) / (2.0 * a)] {
-        if (0.0..=1.0).contains(&s) {
-            let y = p.1 + s * dy;
-            if y <= c.yc_m {
-                out.push(p.0 + s * dx);
-            }
-        }
-    }
+    [(-b - disc.sqrt()) / (2.0 * a), (-b + disc.sqrt()) / (2.0 * a)]
+        .map(|s| ((0.0..=1.0).contains(&s) && p.1 + s * dy <= c.yc_m).then(|| p.0 + s * dx))
 }
 
 #[cfg(test)]

@@ -53,7 +53,7 @@ struct Counter {
 impl Counter {
     fn eval(&mut self, s: &Section, c: Circle) -> Option<CircleResult> {
         self.tried += 1;
-        match s.analyse(c) {
+        match s.analyse_unnamed(c) {
             Ok(r) if r.fs.is_finite() && r.fs > 0.0 => Some(r),
             Ok(_) | Err(Reject::SmallMAlpha | Reject::NoConvergence | Reject::NoDrivingMoment) => {
                 self.rejected += 1;
@@ -113,8 +113,10 @@ pub fn search(s: &Section) -> Result<SearchResult> {
             .map(|(b, band)| {
                 scope.spawn(move || {
                     let mut c = Counter { tried: 0, rejected: 0 };
-                    let r =
-                        refine(s, &mut c, b, band, step0).map(|circle| BandResult { band: band.name.clone(), circle });
+                    let r = refine(s, &mut c, b, band, step0).map(|mut circle| {
+                        s.name_band(&mut circle);
+                        BandResult { band: band.name.clone(), circle }
+                    });
                     (r, c)
                 })
             })
@@ -138,14 +140,15 @@ pub fn search(s: &Section) -> Result<SearchResult> {
 
 /// Search started from the band circles of an earlier search (`seeds`, for
 /// example those of the same stage under best-estimate parameters) instead
-/// of the grid: from each seed still analysable, a pattern search that
+/// of the grid: from each seed still analysable (or from the circle of the
+/// same band in `alternates`, a recent search nearby, when that is lower), a pattern search that
 /// starts at the final step, doubles it after every improving move (up to
 /// 16 final steps) and halves it when none improves. A seed that is already
 /// a minimum at the final step costs one pass and comes back unchanged, so
 /// the same section gives exactly the earlier answer. Falls back to the full
 /// search when no seed can be analysed. Single-threaded (it is run many at
 /// a time).
-pub fn search_from(s: &Section, seeds: &[BandResult]) -> Result<SearchResult> {
+pub fn search_from(s: &Section, seeds: &[BandResult], alternates: &[BandResult]) -> Result<SearchResult> {
     let bands = bands(s);
     let all = directions().collect::<Vec<_>>();
     let mut count = Counter { tried: 0, rejected: 0 };
@@ -153,12 +156,18 @@ pub fn search_from(s: &Section, seeds: &[BandResult]) -> Result<SearchResult> {
     let axes = axis_directions();
     for seed in seeds {
         let Some(band) = bands.iter().find(|b| b.name == seed.band) else { continue };
-        let Some(start) = count.eval(s, seed.circle.circle) else { continue };
+        let other = alternates.iter().find(|a| a.band == seed.band).and_then(|a| count.eval(s, a.circle.circle));
+        let start = match (count.eval(s, seed.circle.circle), other) {
+            (Some(a), Some(b)) => Some(if b.fs < a.fs { b } else { a }),
+            (a, b) => a.or(b),
+        };
+        let Some(start) = start else { continue };
         let yt = start.circle.yc_m - start.circle.r_m;
         // Walk along the axes (cheap), then confirm with all 26 moves.
         let grow = Stride::GrowTo(16.0 * MIN_STEP_M);
         let walked = pattern(s, &mut count, (start, yt), band, MIN_STEP_M, MIN_STEP_M, &axes, grow);
-        let (circle, _) = pattern(s, &mut count, walked, band, MIN_STEP_M, MIN_STEP_M, &all, Stride::Keep);
+        let (mut circle, _) = pattern(s, &mut count, walked, band, MIN_STEP_M, MIN_STEP_M, &all, Stride::Keep);
+        s.name_band(&mut circle);
         refined.push(BandResult { band: band.name.clone(), circle });
     }
     let Some(critical) = refined.iter().map(|b| &b.circle).min_by(|a, b| a.fs.total_cmp(&b.fs)).cloned() else {
