@@ -94,6 +94,8 @@ struct Trial<'a> {
     eps_old: &'a [[f64; 2]],
     /// log10 σ'max at each node at the start of the step.
     log_smax: &'a [f64],
+    /// log10 σ' of the trial at each node (at least 1e-3 kPa).
+    log_s: &'a [f64],
 }
 
 impl Column {
@@ -196,8 +198,8 @@ impl Column {
                 if (s_new - s_old).abs() < 1e-6 {
                     ground::mv_tangent(&c, s_old, sp)
                 } else {
-                    let l_s = s_new.max(1e-3).log10();
-                    let l_smax = if s_new > st.smax[i] { s_new.log10() } else { t.log_smax[i] };
+                    let l_s = t.log_s[i];
+                    let l_smax = if s_new > st.smax[i] { l_s } else { t.log_smax[i] };
                     let eps_new = ground::strain_log10(&c, el.log_s0[end], el.log_sp0[end], l_smax, l_s);
                     (eps_new - t.eps_old[e][end]) / (s_new - s_old)
                 }
@@ -269,13 +271,23 @@ impl Column {
             // Strains at the start of the step and log10 σ'max, the same in
             // every pass.
             let log_smax: Vec<f64> = st.smax.iter().map(|s| s.log10()).collect();
+            let mut log_new = vec![0.0; ne + 1];
             let log_s: Vec<f64> = (0..=ne).map(|i| self.sigma_eff(st, i).max(1e-3).log10()).collect();
             let eps_old: Vec<[f64; 2]> = (0..ne)
-                .map(|e| [0, 1].map(|end| self.strain_at(e, end, log_smax[e + end].max(log_s[e + end]), log_s[e + end])))
+                .map(|e| {
+                    [0, 1].map(|end| self.strain_at(e, end, log_smax[e + end].max(log_s[e + end]), log_s[e + end]))
+                })
                 .collect();
             let (mut omega, mut prev): (f64, f64) = (1.0, f64::INFINITY);
             for it in 0..PICARD_MAX {
-                let next = self.solve_step(st, &k, dt, theta, Some(Trial { u: &u, eps_old: &eps_old, log_smax: &log_smax }));
+                // log10 σ' of the trial at each node, shared by both
+                // elements that meet there.
+                for (i, l) in log_new.iter_mut().enumerate() {
+                    let s_old = self.sigma_eff(st, i);
+                    *l = (s_old + st.u[i] - u[i]).max(1e-3).log10();
+                }
+                let trial = Trial { u: &u, eps_old: &eps_old, log_smax: &log_smax, log_s: &log_new };
+                let next = self.solve_step(st, &k, dt, theta, Some(trial));
                 let residual = next.iter().zip(&u).map(|(a, b)| (a - b).abs()).fold(0.0, f64::max);
                 if residual < PICARD_TOL_KPA {
                     u = next;

@@ -144,7 +144,7 @@ pub fn plan_from(r: &Runner, start: State, earliest: i64, progress: &mut dyn FnM
     let mut earliest = earliest;
     let mut last_rest = 0;
     while st.height_m < top - 1e-6 {
-        let (start, lift, rested) = next_lift(r, &st, earliest, last_rest, &mut effort)?;
+        let (start, lift, rested) = next_lift_after(r, &st, earliest, last_rest, &mut effort)?;
         last_rest = start - earliest;
         advance_to(r, &mut stages, &mut st, start, Some(rested), &mut fig, &mut effort)?;
         let (a, b) = r.place(&mut st, lift, &mut |s| fig.record_if(r, s))?;
@@ -211,10 +211,15 @@ fn governing(r: &Runner, start: &State, stages: &[Stage], effort: &mut Effort) -
 }
 
 /// The next lift from state `st`: its start day (on or after `earliest`)
-/// and its crest-height increment, m. `last_rest` (days beyond the earliest
-/// start that the previous lift waited) is where the rest search starts
-/// looking: rests grow gradually from lift to lift.
-fn next_lift(
+/// and its crest-height increment, m.
+pub fn next_lift(r: &Runner, st: &State, earliest: i64, effort: &mut Effort) -> Result<(i64, f64)> {
+    next_lift_after(r, st, earliest, 0, effort).map(|(day, lift, _)| (day, lift))
+}
+
+/// `next_lift` with `last_rest` (days beyond the earliest start that the
+/// previous lift waited) as the rest search's first guess, since rests grow
+/// gradually from lift to lift; also returns the state on the start day.
+fn next_lift_after(
     r: &Runner,
     st: &State,
     earliest: i64,
@@ -352,20 +357,24 @@ fn safe_day_from(
     let mut step = guess.max(14);
     let mut asked_if_ever = false;
     let (mut hi, mut f_hi) = loop {
-        let rest = step.min(MAX_REST_DAYS);
-        if first + rest > r.calendar.horizon() {
+        // The longest rest tried is 20 years, or up to the last workable
+        // day of the calendar when that comes first.
+        let last_day = (first..=r.calendar.horizon()).rev().find(|d| r.calendar.workable(*d));
+        let Some(day) = (match r.calendar.next_workable(first + step.min(MAX_REST_DAYS)) {
+            Some(d) if d <= r.calendar.horizon() => Some(d),
+            _ => last_day.filter(|d| *d > lo),
+        }) else {
             return Err(unreachable_height(r, st, lift, lo - first));
-        }
-        let day = r.next_workable(first + rest)?;
+        };
         let v = f(day, effort)?;
         if v >= 0.0 {
             break (day, v);
         }
         (lo, f_lo) = (day, v);
-        if rest >= MAX_REST_DAYS {
-            return Err(unreachable_height(r, st, lift, rest));
+        if day - first >= MAX_REST_DAYS || Some(day) == last_day {
+            return Err(unreachable_height(r, st, lift, day - first));
         }
-        if rest >= LONG_REST_DAYS && !asked_if_ever {
+        if day - first >= LONG_REST_DAYS && !asked_if_ever {
             never_safe(r, st, lift, effort)?;
             asked_if_ever = true;
         }
@@ -468,7 +477,7 @@ fn removal_day(r: &Runner, st: &State, earliest: i64, warnings: &mut Vec<String>
         }
         if day > r.calendar.day_of(p.info.start_date) + MAX_REST_DAYS {
             return Err(Error::Computation(
-                "the surcharge removal criterion is not met within 20 years; relax it or add drains".into(),
+                "cannot be finished: the surcharge removal criterion is not met within 20 years of the project start; relax it or add drains".into(),
             ));
         }
         day = r.next_workable(day + 7)?;

@@ -13,6 +13,9 @@ const NY: usize = 12;
 const NT: usize = 14;
 /// Pattern search stops when the step falls below this, m.
 const MIN_STEP_M: f64 = 0.02;
+/// Seeded search: bands whose walked FS is within this fraction of the
+/// lowest get the full 26-move refinement.
+const REFINE_MARGIN: f64 = 0.03;
 /// Grid circles per band from which refinement starts.
 const STARTS: usize = 3;
 
@@ -152,8 +155,8 @@ pub fn search_from(s: &Section, seeds: &[BandResult], alternates: &[BandResult])
     let bands = bands(s);
     let all = directions().collect::<Vec<_>>();
     let mut count = Counter { tried: 0, rejected: 0 };
-    let mut refined = Vec::new();
     let axes = axis_directions();
+    let mut walked: Vec<(&Band, (CircleResult, f64))> = Vec::new();
     for seed in seeds {
         let Some(band) = bands.iter().find(|b| b.name == seed.band) else { continue };
         let other = alternates.iter().find(|a| a.band == seed.band).and_then(|a| count.eval(s, a.circle.circle));
@@ -163,10 +166,19 @@ pub fn search_from(s: &Section, seeds: &[BandResult], alternates: &[BandResult])
         };
         let Some(start) = start else { continue };
         let yt = start.circle.yc_m - start.circle.r_m;
-        // Walk along the axes (cheap), then confirm with all 26 moves.
         let grow = Stride::GrowTo(16.0 * MIN_STEP_M);
-        let walked = pattern(s, &mut count, (start, yt), band, MIN_STEP_M, MIN_STEP_M, &axes, grow);
-        let (mut circle, _) = pattern(s, &mut count, walked, band, MIN_STEP_M, MIN_STEP_M, &all, Stride::Keep);
+        walked.push((band, pattern(s, &mut count, (start, yt), band, MIN_STEP_M, MIN_STEP_M, &axes, grow)));
+    }
+    // The 26-move check only where it can matter: bands within
+    // `REFINE_MARGIN` of the lowest walked FS.
+    let lowest = walked.iter().map(|w| w.1.0.fs).fold(f64::INFINITY, f64::min);
+    let mut refined = Vec::new();
+    for (band, w) in walked {
+        let (mut circle, _) = if w.0.fs <= lowest * (1.0 + REFINE_MARGIN) {
+            pattern(s, &mut count, w, band, MIN_STEP_M, MIN_STEP_M, &all, Stride::Keep)
+        } else {
+            w
+        };
         s.name_band(&mut circle);
         refined.push(BandResult { band: band.name.clone(), circle });
     }
