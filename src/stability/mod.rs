@@ -340,7 +340,7 @@ fn segment_hits(p: (f64, f64), q: (f64, f64), c: Circle) -> [Option<f64>; 2] {
         return [None, None];
     }
     [(-b - disc.sqrt()) / (2.0 * a), (-b + disc.sqrt()) / (2.0 * a)]
-        .map(|s| ((0.0..=1.0).contains(&s) && p.1 + s * dy <= c.yc_m).then(|| p.0 + s * dx))
+        .map(|s| ((0.0..=1.0).contains(&s) && p.1 + s * dy <= c.yc_m).then_some(p.0 + s * dx))
 }
 
 #[cfg(test)]
