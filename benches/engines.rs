@@ -85,7 +85,7 @@ fn main() {
     let mut rate = Vec::new();
     for threads in [1, cores] {
         let opts = fillpace::risk::RiskOptions { runs, seed: 1, threads: Some(threads) };
-        let (t, _) = time(1, || fillpace::risk::run(&doc, &p, &plan, opts, &|| {}).unwrap());
+        let (t, _) = time(1, || fillpace::risk::run(&doc, &p, &plan, opts, None, &|| {}).unwrap());
         rate.push(runs as f64 / t.as_secs_f64());
         println!(
             "risk      {runs} realisations on {threads} thread(s): {:.1} s, {:.2} realisations/s",

@@ -39,9 +39,9 @@ pub fn run(cmd: &Command) -> Result<String> {
         Command::Compare { project, vary, csv, pdf, json } => {
             compare(project, vary, csv.as_deref(), pdf.as_deref(), *json)
         }
-        Command::Risk { project, runs, seed, threads, pdf, json } => {
+        Command::Risk { project, runs, seed, threads, max_failure_probability, pdf, json } => {
             let opts = crate::risk::RiskOptions { runs: *runs, seed: *seed, threads: *threads };
-            risk(project, opts, pdf.as_deref(), *json)
+            risk(project, opts, *max_failure_probability, pdf.as_deref(), *json)
         }
         Command::Release { project, readings, lift, on, pdf, log, json } => {
             let files = ReleaseFiles { readings, pdf: pdf.as_deref(), log: log.as_deref() };
@@ -271,7 +271,13 @@ fn compare(path: &Path, vary: &[String], csv: Option<&Path>, pdf: Option<&Path>,
     if json { report::json::envelope("compare", &p, &doc.file, &c) } else { Ok(report::text::comparison(&rep)) }
 }
 
-fn risk(path: &Path, opts: crate::risk::RiskOptions, pdf: Option<&Path>, json: bool) -> Result<String> {
+fn risk(
+    path: &Path,
+    opts: crate::risk::RiskOptions,
+    max_failure_probability: Option<f64>,
+    pdf: Option<&Path>,
+    json: bool,
+) -> Result<String> {
     if let Some(out) = pdf {
         output::refuse_overwrite_of_inputs(out, &[path])?;
     }
@@ -280,19 +286,23 @@ fn risk(path: &Path, opts: crate::risk::RiskOptions, pdf: Option<&Path>, json: b
     }
     let (text, doc) = document(path)?;
     let p = input::parse(&text, &doc.file)?;
-    if p.uncertainty.params.is_empty() {
-        return Err(Error::input(
-            &doc.file,
-            None,
-            "uncertain",
-            "has no [[uncertain]] entries; declare the uncertain parameters (name, keys, distribution, cov or low/high) to run risk".into(),
-        ));
-    }
-    let engine = Engine::new(&p);
-    let runner = Runner::new(&engine);
-    let plan = with_progress(|tick| planner::plan_with_progress(&runner, tick))?;
+    crate::risk::check_request(&doc, &p, opts)?;
     let started = std::time::Instant::now();
-    let result = with_counter(opts.runs, "realisations", |tick| crate::risk::run(&doc, &p, &plan, opts, tick))?;
+    let (doc, p, plan, reliability) = match max_failure_probability {
+        Some(pf) => {
+            let (d, q, plan, rel) = with_counter(opts.runs * 10, "reliability search, realisations", |tick| {
+                crate::risk::reliability_target(&doc, &p, pf, opts, tick)
+            })?;
+            (d, q, plan, Some(rel))
+        }
+        None => {
+            let engine = Engine::new(&p);
+            let plan = with_progress(|tick| planner::plan_with_progress(&Runner::new(&engine), tick))?;
+            (doc, p, plan, None)
+        }
+    };
+    let result =
+        with_counter(opts.runs, "realisations", |tick| crate::risk::run(&doc, &p, &plan, opts, reliability, tick))?;
     let seconds = started.elapsed().as_secs_f64();
     let rep = report::RiskReport { project: &p, risk: &result, source: doc.file.clone(), seconds };
     if let Some(out) = pdf {

@@ -144,6 +144,11 @@ pub enum Command {
         /// depend on it.
         #[arg(long)]
         threads: Option<usize>,
+        /// Plan to a probability instead of the file's FS target: the
+        /// lowest FS target whose timetable keeps the estimated P(FS < 1)
+        /// at every stage at or below this (e.g. 0.001).
+        #[arg(long, value_name = "P")]
+        max_failure_probability: Option<f64>,
         /// Write the PDF pages (finish-date histogram, FS per stage).
         #[arg(long)]
         pdf: Option<PathBuf>,

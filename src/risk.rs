@@ -158,6 +158,8 @@ pub struct RiskResult {
     pub finish: Option<DateSpread>,
     pub duration_days: Option<Spread>,
     pub not_buildable: Estimate,
+    /// The reliability-based target search, when asked for.
+    pub reliability: Option<Reliability>,
     pub realisations: Vec<Realisation>,
 }
 
@@ -179,17 +181,26 @@ pub fn seeds(plan: &Plan) -> Vec<(f64, Vec<BandResult>)> {
 }
 
 /// Run the Monte Carlo for the project in `doc` (already validated into
-/// `base`) around its best-estimate `plan`; `tick` is called after each
-/// realisation.
+/// `base`) around its best-estimate `plan`; `reliability` is the search
+/// that chose the plan's target, when there was one; `tick` is called
+/// after each realisation.
 pub fn run(
     doc: &Document,
     base: &Project,
     plan: &Plan,
     opts: RiskOptions,
+    reliability: Option<Reliability>,
     tick: &(dyn Fn() + Sync),
 ) -> Result<RiskResult> {
-    let u = &base.uncertainty;
-    if u.params.is_empty() {
+    check_request(doc, base, opts)?;
+    let all = realisations(doc, base, plan, opts, true, tick)?;
+    Ok(summarise(base, plan, opts, all, reliability))
+}
+
+/// The project must declare uncertain parameters, and the number of runs
+/// must be sensible.
+pub fn check_request(doc: &Document, base: &Project, opts: RiskOptions) -> Result<()> {
+    if base.uncertainty.params.is_empty() {
         return Err(Error::input(
             &doc.file,
             None,
@@ -200,31 +211,170 @@ pub fn run(
     if !(1..=MAX_RUNS).contains(&opts.runs) {
         return Err(Error::Usage(format!("--runs {} must be between 1 and {MAX_RUNS}", opts.runs)));
     }
-    let l = random::correlation_factor(u)
+    Ok(())
+}
+
+/// All realisations around `plan`, in index order, on `opts.threads`.
+fn realisations(
+    doc: &Document,
+    base: &Project,
+    plan: &Plan,
+    opts: RiskOptions,
+    afresh: bool,
+    tick: &(dyn Fn() + Sync),
+) -> Result<Vec<Realisation>> {
+    let l = random::correlation_factor(&base.uncertainty)
         .ok_or_else(|| Error::Computation("the correlation matrix is not positive definite".into()))?;
     let seeds = seeds(plan);
     let work = || -> Result<Vec<Realisation>> {
         (0..opts.runs)
             .into_par_iter()
             .map(|i| {
-                let r = realise(doc, base, &l, plan, &seeds, i, opts.seed);
+                let r = realise(doc, base, &l, plan, &seeds, i, opts.seed, afresh);
                 tick();
                 r
             })
             .collect()
     };
-    let all = match opts.threads {
-        None => work()?,
+    match opts.threads {
+        None => work(),
         Some(n) => rayon::ThreadPoolBuilder::new()
             .num_threads(n)
             .build()
             .map_err(|e| Error::Computation(format!("cannot start {n} worker threads: {e}")))?
-            .install(work)?,
-    };
-    Ok(summarise(base, plan, opts, all))
+            .install(work),
+    }
 }
 
-/// Draw realisation `index`, check the timetable and plan afresh.
+/// One FS target tried by the reliability-based search.
+#[derive(Debug, Clone, Serialize)]
+pub struct TargetTrial {
+    pub fs_target: f64,
+    /// Finish of the timetable planned to this target (None: cannot be built).
+    pub finish: Option<NaiveDate>,
+    /// Highest estimated P(FS < 1) over the stages, and that stage.
+    pub p_below_one: Option<f64>,
+    pub worst_stage: Option<usize>,
+    pub meets: bool,
+}
+
+/// The reliability-based target: the lowest FS target (to 0.01) whose
+/// best-estimate timetable keeps the estimated P(FS < 1) at every stage at
+/// or below `max_failure_probability`.
+#[derive(Debug, Clone, Serialize)]
+pub struct Reliability {
+    pub max_failure_probability: f64,
+    pub fs_target: f64,
+    pub trials: Vec<TargetTrial>,
+}
+
+/// Highest FS target the search will try (the largest the project file
+/// allows).
+const TARGET_MAX: f64 = 3.0;
+
+/// Find the reliability-based FS target and return the project planned to
+/// it (document, project, plan) with the search record. Each target tried
+/// is planned in full, then checked by `opts.runs` realisations (the same
+/// streams every time, so the estimates move smoothly with the target).
+/// A stage's P(FS < 1) is the lognormal estimate Φ(−β) where the FS varies
+/// (small probabilities cannot be counted from a few hundred runs), else
+/// the counted share.
+pub fn reliability_target(
+    doc: &Document,
+    base: &Project,
+    max_failure_probability: f64,
+    opts: RiskOptions,
+    tick: &(dyn Fn() + Sync),
+) -> Result<(Document, Project, Plan, Reliability)> {
+    if !(max_failure_probability > 0.0 && max_failure_probability < 0.5) {
+        return Err(Error::Usage(format!(
+            "--max-failure-probability {max_failure_probability} must be between 0 and 0.5 (e.g. 0.001)"
+        )));
+    }
+    check_request(doc, base, opts)?;
+    let mut trials: Vec<TargetTrial> = Vec::new();
+    let mut found: Option<(Document, Project, Plan)>;
+    let try_target = |t: f64, trials: &mut Vec<TargetTrial>| -> Result<Option<(Document, Project, Plan)>> {
+        let mut d = doc.clone();
+        d.set("criteria.fs_construction", toml::Value::Float(t))?;
+        let p = d.project(&format!("{} with criteria.fs_construction = {t:.2}", doc.file))?;
+        let engine = Engine::new(&p);
+        let plan = match planner::plan(&Runner::new(&engine)) {
+            Ok(plan) => plan,
+            Err(Error::Computation(_)) => {
+                trials.push(TargetTrial { fs_target: t, finish: None, p_below_one: None, worst_stage: None, meets: false });
+                return Ok(None);
+            }
+            Err(e) => return Err(e),
+        };
+        let all = realisations(&d, &p, &plan, opts, false, tick)?;
+        let risk = summarise(&p, &plan, opts, all, None);
+        let (worst_stage, pf) = risk
+            .stages
+            .iter()
+            .map(|s| (s.number, s.p_below_one_lognormal.unwrap_or(s.below_one.probability)))
+            .max_by(|a, b| a.1.total_cmp(&b.1))
+            .unwrap_or((0, 0.0));
+        let meets = pf <= max_failure_probability;
+        trials.push(TargetTrial {
+            fs_target: t,
+            finish: Some(plan.finish),
+            p_below_one: Some(pf),
+            worst_stage: Some(worst_stage),
+            meets,
+        });
+        Ok(meets.then_some((d, p, plan)))
+    };
+    // A target "fails" when its timetable can be built but some stage's
+    // P(FS < 1) exceeds the limit; higher targets lower the probability
+    // and eventually cannot be built. Bracket the lowest target that does
+    // not fail (1.0, then upwards in steps of 0.25), then bisect to 0.01.
+    let fails = |t: &TargetTrial| t.finish.is_some() && !t.meets;
+    let mut lo = 1.0;
+    found = try_target(lo, &mut trials)?;
+    let mut hi = lo;
+    while trials.last().is_some_and(fails) && hi < TARGET_MAX - 1e-9 {
+        (lo, hi) = (hi, (hi + 0.25).min(TARGET_MAX));
+        found = try_target(hi, &mut trials)?;
+    }
+    let at_hi = |trials: &[TargetTrial], hi: f64| trials.iter().find(|t| (t.fs_target - hi).abs() < 1e-9).cloned();
+    if hi > lo && at_hi(&trials, hi).is_some_and(|t| !fails(&t)) {
+        while hi - lo > 0.01 + 1e-9 {
+            let mid = ((lo + hi) / 2.0 * 100.0).round() / 100.0;
+            if mid <= lo + 1e-9 || mid >= hi - 1e-9 {
+                break;
+            }
+            let ok = try_target(mid, &mut trials)?;
+            if trials.last().is_some_and(fails) {
+                lo = mid;
+            } else {
+                hi = mid;
+                found = ok;
+            }
+        }
+    }
+    let meets_at_hi = at_hi(&trials, hi).is_some_and(|t| t.meets);
+    if !meets_at_hi || found.is_none() {
+        return Err(Error::Computation(format!(
+            "no FS target up to {TARGET_MAX:.2} gives a timetable that can be built with P(FS < 1) ≤ {max_failure_probability} at every stage; the uncertainty is too large for this design (targets tried — {})",
+            trials
+                .iter()
+                .map(|t| match t.p_below_one {
+                    Some(p) => format!("FS {:.2}: P(FS < 1) up to {p:.1e} at stage {}", t.fs_target, t.worst_stage.unwrap_or(0)),
+                    None => format!("FS {:.2}: cannot be built", t.fs_target),
+                })
+                .collect::<Vec<_>>()
+                .join("; ")
+        )));
+    }
+    let (d, p, plan) = found.ok_or_else(|| Error::Computation("the reliability-based search found no target".into()))?;
+    let rel = Reliability { max_failure_probability, fs_target: p.criteria.fs_construction, trials };
+    Ok((d, p, plan, rel))
+}
+
+/// Draw realisation `index`, check the timetable and (when `afresh`) plan
+/// afresh.
+#[allow(clippy::too_many_arguments)]
 fn realise(
     doc: &Document,
     base: &Project,
@@ -233,6 +383,7 @@ fn realise(
     seeds: &[(f64, Vec<BandResult>)],
     index: usize,
     seed: u64,
+    afresh: bool,
 ) -> Result<Realisation> {
     let u = &base.uncertainty;
     let factors = random::draw(u, l, &mut Noise::stream(seed, index as u64));
@@ -262,15 +413,22 @@ fn realise(
         .map(|(s, fs)| (s.number, *fs))
         .min_by(|a, b| a.1.total_cmp(&b.1))
         .unwrap_or((0, f64::INFINITY));
-    let (finish, duration_days, not_buildable) = match planner::plan(&r) {
-        Ok(fresh) => (Some(fresh.finish), Some(fresh.duration_days), None),
-        Err(Error::Computation(why)) => (None, None, Some(why)),
-        Err(e) => return Err(e),
+    let (finish, duration_days, not_buildable) = match afresh.then(|| planner::plan(&r)) {
+        None => (None, None, None),
+        Some(Ok(fresh)) => (Some(fresh.finish), Some(fresh.duration_days), None),
+        Some(Err(Error::Computation(why))) => (None, None, Some(why)),
+        Some(Err(e)) => return Err(e),
     };
     Ok(Realisation { index, factors, stage_fs, lowest_fs, governing_stage, finish, duration_days, not_buildable })
 }
 
-fn summarise(base: &Project, plan: &Plan, opts: RiskOptions, all: Vec<Realisation>) -> RiskResult {
+fn summarise(
+    base: &Project,
+    plan: &Plan,
+    opts: RiskOptions,
+    all: Vec<Realisation>,
+    reliability: Option<Reliability>,
+) -> RiskResult {
     let n = all.len();
     let target = base.criteria.fs_construction;
     let lowest: Vec<f64> = all.iter().map(|r| r.lowest_fs).collect();
@@ -344,6 +502,7 @@ fn summarise(base: &Project, plan: &Plan, opts: RiskOptions, all: Vec<Realisatio
         finish: duration_days.map(|s| DateSpread { p10: date(s.p10), p50: date(s.p50), p90: date(s.p90) }),
         duration_days,
         not_buildable: Estimate::of(all.iter().filter(|r| r.not_buildable.is_some()).count(), n),
+        reliability,
         realisations: all,
     }
 }

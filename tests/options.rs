@@ -136,3 +136,27 @@ fn compare_names_the_nearest_keys_for_an_unknown_one() {
         .code(2)
         .stderr(predicate::str::contains("drains.spacing_m"));
 }
+
+#[test]
+fn reliability_target_is_the_lowest_that_meets_the_probability() {
+    let out = fillpace()
+        .args(["risk", DEMO, "--runs", "30", "--max-failure-probability", "0.05", "--json"])
+        .output()
+        .unwrap();
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let r = json_result(&out.stdout);
+    let rel = &r["reliability"];
+    let t = rel["fs_target"].as_f64().unwrap();
+    assert_eq!(r["fs_target"].as_f64(), Some(t), "the result is for the plan at the chosen target");
+    let trials = rel["trials"].as_array().unwrap();
+    let at = |x: f64| trials.iter().find(|k| (k["fs_target"].as_f64().unwrap() - x).abs() < 1e-9);
+    assert_eq!(at(t).unwrap()["meets"], true);
+    if t > 1.0 + 1e-9 {
+        assert_eq!(at(t - 0.01).expect("the target 0.01 lower was tried")["meets"], false);
+    }
+    // The final run uses the same random streams: every stage meets the limit.
+    for s in r["stages"].as_array().unwrap() {
+        let p = s["p_below_one_lognormal"].as_f64().or(s["below_one"]["probability"].as_f64()).unwrap();
+        assert!(p <= 0.05, "stage {} P(FS < 1) = {p}", s["number"]);
+    }
+}

@@ -536,6 +536,23 @@ pub fn risk(r: &super::RiskReport) -> String {
         _ => out.push_str("    no realisation could be built\n"),
     }
     out.push_str(&format!("    cannot be built: {}\n", super::describe_estimate(&k.not_buildable, k.runs)));
+    if let Some(rel) = &k.reliability {
+        out.push_str(&format!(
+            "\nReliability-based target: FS {:.2} is the lowest target whose timetable keeps the estimated P(FS < 1) ≤ {} at every stage (lognormal fit to {} realisations per target). Targets tried:\n",
+            rel.fs_target, rel.max_failure_probability, k.runs
+        ));
+        let mut t = Table::new(&["FS target", "finish", "worst stage", "P(FS<1)", "meets"]);
+        for x in &rel.trials {
+            t.row(vec![
+                f(x.fs_target, 2),
+                x.finish.map_or("cannot be built".into(), |d| d.to_string()),
+                x.worst_stage.map_or("-".into(), |s| s.to_string()),
+                x.p_below_one.map_or("-".into(), |p| format!("{p:.2e}")),
+                if x.meets { "yes".into() } else { "no".into() },
+            ]);
+        }
+        out.push_str(&t.render());
+    }
     out.push_str(&cautions_block());
     out
 }
