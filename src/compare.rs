@@ -100,9 +100,12 @@ pub fn grid(axes: &[Axis]) -> Vec<Settings> {
     out
 }
 
-/// The document with one variant's settings applied.
+/// The document with one variant's settings applied. The proposed
+/// `[[sequence]]` plays no part in planning and is left out, so that a
+/// variant of height or surcharge does not conflict with it.
 pub fn apply(doc: &Document, settings: &Settings) -> Result<Document> {
     let mut d = doc.clone();
+    d.remove("sequence");
     for (k, v) in settings {
         d.set(k, value_from_text(v))?;
     }

@@ -117,6 +117,11 @@ impl Document {
         Ok(())
     }
 
+    /// Remove a top-level key (a table or array of tables) if present.
+    pub fn remove(&mut self, key: &str) {
+        self.table.remove(key);
+    }
+
     /// Multiply the number at `path` by `factor`.
     pub fn scale(&mut self, path: &str, factor: f64) -> Result<()> {
         let v = self.number(path).ok_or_else(|| self.unknown_key(path))?;

@@ -81,6 +81,9 @@ pub fn compare_cells(v: &crate::compare::Variant) -> Vec<String> {
     }
 }
 
+/// The caution that comes first with every Monte Carlo result.
+pub const RISK_CAUTION: &str = "The probabilities are conditional on the declared distributions and on the model: they leave out model error, spatial variability within a layer and construction events, and they are estimates from a finite number of realisations. They inform the choice of rests; they do not replace the factor of safety, the monitoring or the judgement required by the local code.";
+
 /// Column headings of the per-stage risk table (terminal and PDF).
 pub const RISK_STAGE_COLUMNS: [&str; 10] =
     ["#", "stage", "start", "height m", "FS best", "FS P10", "P50", "P90", "P(FS<1)", "P(FS<target)"];

@@ -553,6 +553,7 @@ pub fn risk(r: &super::RiskReport) -> String {
         }
         out.push_str(&t.render());
     }
+    out.push_str(&format!("\nNOTE: {}\n", wrap(super::RISK_CAUTION, 76, "  ")));
     out.push_str(&cautions_block());
     out
 }

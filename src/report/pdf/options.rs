@@ -4,7 +4,7 @@
 
 use super::canvas::{Canvas, Dash, Marker, PAGE_W};
 use super::chart::{Axis, Chart, Series, XAxis};
-use super::pages::{CONTENT_TOP, MARGIN, table};
+use super::pages::{BLOCK_TOP, CONTENT_TOP, MARGIN, table};
 use crate::report::fixed as f;
 use crate::report::{CompareReport, RiskReport};
 
@@ -64,7 +64,9 @@ pub fn comparison_page(c: &mut Canvas, r: &CompareReport) {
         return;
     }
     let pad = if x1 > x0 { 0.05 * (x1 - x0) } else { 1.0 };
-    let h = (190.0 - (y + 12.0)).clamp(40.0, 80.0);
+    // Room for the legend (two rows) above the title block.
+    let h = (BLOCK_TOP - (y + 10.0) - 24.0).clamp(30.0, 80.0);
+    cautions(c, MARGIN + 190.0, y + 8.0, PAGE_W - 2.0 * MARGIN - 190.0, None);
     Chart {
         x: MARGIN + 14.0,
         y: y + 10.0,
@@ -169,7 +171,18 @@ pub fn risk_summary(c: &mut Canvas, r: &RiskReport) {
         .map(|(i, (h, w))| (*h, w, i != 1 && i != 2))
         .collect();
     let rows: Vec<Vec<String>> = k.stages.iter().map(crate::report::risk_stage_cells).collect();
-    table(c, MARGIN, y + 3.0, &cols, &rows, 7.0);
+    let y = table(c, MARGIN, y + 3.0, &cols, &rows, 7.0);
+    cautions(c, MARGIN, y + 4.0, PAGE_W - 2.0 * MARGIN, Some(crate::report::RISK_CAUTION));
+}
+
+/// The caution notes in small type at (x, y), width w mm, with an extra
+/// note first when given.
+fn cautions(c: &mut Canvas, x: f32, y: f32, w: f32, extra: Option<&str>) {
+    c.text(x, y, 8.0, true, "CAUTIONS");
+    let mut y = y + 4.0;
+    for note in extra.map(str::to_string).into_iter().chain(crate::report::cautions()) {
+        y = c.paragraph(x, y, w, 6.8, &format!("• {note}")) + 0.5;
+    }
 }
 
 /// Page 2 of the Monte Carlo: histogram of the fresh plans' finish dates
