@@ -302,7 +302,13 @@ pub fn reliability_target(
         let plan = match planner::plan(&Runner::new(&engine)) {
             Ok(plan) => plan,
             Err(Error::Computation(_)) => {
-                trials.push(TargetTrial { fs_target: t, finish: None, p_below_one: None, worst_stage: None, meets: false });
+                trials.push(TargetTrial {
+                    fs_target: t,
+                    finish: None,
+                    p_below_one: None,
+                    worst_stage: None,
+                    meets: false,
+                });
                 return Ok(None);
             }
             Err(e) => return Err(e),
@@ -360,14 +366,19 @@ pub fn reliability_target(
             trials
                 .iter()
                 .map(|t| match t.p_below_one {
-                    Some(p) => format!("FS {:.2}: P(FS < 1) up to {p:.1e} at stage {}", t.fs_target, t.worst_stage.unwrap_or(0)),
+                    Some(p) => format!(
+                        "FS {:.2}: P(FS < 1) up to {p:.1e} at stage {}",
+                        t.fs_target,
+                        t.worst_stage.unwrap_or(0)
+                    ),
                     None => format!("FS {:.2}: cannot be built", t.fs_target),
                 })
                 .collect::<Vec<_>>()
                 .join("; ")
         )));
     }
-    let (d, p, plan) = found.ok_or_else(|| Error::Computation("the reliability-based search found no target".into()))?;
+    let (d, p, plan) =
+        found.ok_or_else(|| Error::Computation("the reliability-based search found no target".into()))?;
     let rel = Reliability { max_failure_probability, fs_target: p.criteria.fs_construction, trials };
     Ok((d, p, plan, rel))
 }
