@@ -281,13 +281,9 @@ fn risk(
     if let Some(out) = pdf {
         output::refuse_overwrite_of_inputs(out, &[path])?;
     }
-    if opts.threads == Some(0) {
-        return Err(Error::Usage("--threads must be at least 1".into()));
-    }
     let (text, doc) = document(path)?;
     let p = input::parse(&text, &doc.file)?;
     crate::risk::check_request(&doc, &p, opts)?;
-    let started = std::time::Instant::now();
     let (doc, p, plan, reliability) = match max_failure_probability {
         Some(pf) => {
             let (d, q, plan, rel) = with_counter(opts.runs * 10, "reliability search, realisations", |tick| {
@@ -301,6 +297,7 @@ fn risk(
             (doc, p, plan, None)
         }
     };
+    let started = std::time::Instant::now();
     let result =
         with_counter(opts.runs, "realisations", |tick| crate::risk::run(&doc, &p, &plan, opts, reliability, tick))?;
     let seconds = started.elapsed().as_secs_f64();

@@ -5,7 +5,9 @@
 //! made (its finish date). Realisations run in parallel (rayon); each draws
 //! from its own random stream fixed by (seed, index), and results are
 //! gathered in index order, so the answer depends on the seed only, never
-//! on the number of threads.
+//! on the number of threads. `reliability_target` finds the lowest FS
+//! target whose timetable keeps the estimated P(FS < 1) of every stage
+//! within a stated limit.
 //!
 //! Slip circles in the realisations are found by `search_from` the band
 //! circles of the best-estimate plan at the nearest crest height, not by the
@@ -198,7 +200,7 @@ pub fn run(
 }
 
 /// The project must declare uncertain parameters, and the number of runs
-/// must be sensible.
+/// and threads must be sensible.
 pub fn check_request(doc: &Document, base: &Project, opts: RiskOptions) -> Result<()> {
     if base.uncertainty.params.is_empty() {
         return Err(Error::input(
@@ -210,6 +212,9 @@ pub fn check_request(doc: &Document, base: &Project, opts: RiskOptions) -> Resul
     }
     if !(1..=MAX_RUNS).contains(&opts.runs) {
         return Err(Error::Usage(format!("--runs {} must be between 1 and {MAX_RUNS}", opts.runs)));
+    }
+    if opts.threads == Some(0) {
+        return Err(Error::Usage("--threads must be at least 1".into()));
     }
     Ok(())
 }

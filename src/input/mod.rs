@@ -40,7 +40,7 @@ fn validate_table(table: toml::Table, file: &str, lines: &LineMap) -> Result<Pro
     let doc = vary::Document { file: file.to_string(), table };
     let mut unknown = Vec::new();
     let mut on_unknown = |p: serde_ignored::Path<'_>| unknown.push(ignored_path(&p));
-    let de = serde_ignored::Deserializer::new(toml::Value::Table(doc.table().clone()), &mut on_unknown);
+    let de = serde_ignored::Deserializer::new(toml::Value::Table(doc.table.clone()), &mut on_unknown);
     let typed: std::result::Result<RawProject, _> = serde_path_to_error::deserialize(de);
     let mut issues: Vec<InputIssue> = unknown.iter().map(|p| unknown_key_issue(p, lines)).collect();
     match typed {

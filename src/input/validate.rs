@@ -9,6 +9,9 @@ use crate::error::InputIssue;
 use crate::model::*;
 use chrono::{NaiveDate, Weekday};
 
+mod uncertain;
+use uncertain::uncertainty;
+
 /// Lower bound kind of an allowed range.
 #[derive(Clone, Copy)]
 enum Low {
@@ -744,115 +747,4 @@ fn monitoring(c: &mut Check, r: Option<&RawMonitoring>) -> MonitoringRules {
         ),
         settlement_sd_m: c.opt(&k("settlement_sd_m"), r.settlement_sd_m, d.settlement_sd_m, Low::Excl(0.0), 0.5),
     }
-}
-
-fn uncertainty(
-    c: &mut Check,
-    raw: &[RawUncertain],
-    corr: &[RawCorrelation],
-    doc: &super::vary::Document,
-) -> Uncertainty {
-    let mut params = Vec::new();
-    let mut all_keys: Vec<(String, String)> = Vec::new();
-    for (i, u) in raw.iter().enumerate() {
-        let k = |f: &str| format!("uncertain[{i}].{f}");
-        if u.name.trim().is_empty() || raw[..i].iter().any(|o| o.name == u.name) {
-            c.bad(
-                &k("name"),
-                format!("= \"{}\" must be a non-empty name used by no other [[uncertain]] entry", u.name),
-            );
-        }
-        if u.keys.is_empty() {
-            c.bad(&k("keys"), "is empty; list the key paths this factor multiplies".into());
-        }
-        for (j, key) in u.keys.iter().enumerate() {
-            let at = format!("uncertain[{i}].keys[{j}]");
-            if all_keys.iter().any(|(_, o)| o == key) {
-                c.bad(&at, format!("= \"{key}\" is already given an uncertainty; each key may have one"));
-            }
-            all_keys.push((at, key.clone()));
-        }
-        let cov = |c: &mut Check, high: f64| match u.cov {
-            Some(v) => c.num(&k("cov"), v, Low::Incl(0.0), high),
-            None => {
-                c.bad(&k("cov"), format!("is missing; distribution = \"{}\" needs it", u.distribution));
-                0.0
-            }
-        };
-        let no_range = |c: &mut Check| {
-            for (f, v) in [("low", u.low), ("high", u.high)] {
-                if v.is_some() {
-                    c.bad(&k(f), "only applies with distribution = \"uniform\"".into());
-                }
-            }
-        };
-        let distribution =
-            match c.choice(&k("distribution"), Some(&u.distribution), &["lognormal", "normal", "uniform"]) {
-                "lognormal" => {
-                    no_range(c);
-                    Distribution::Lognormal { cov: cov(c, 2.0) }
-                }
-                "normal" => {
-                    no_range(c);
-                    Distribution::Normal { cov: cov(c, 0.5) }
-                }
-                _ => {
-                    if u.cov.is_some() {
-                        c.bad(&k("cov"), "does not apply with distribution = \"uniform\"; give low and high".into());
-                    }
-                    let mut end = |f: &str, v: Option<f64>| match v {
-                        Some(x) => c.num(&k(f), x, Low::Excl(0.0), 10.0),
-                        None => {
-                            c.bad(&k(f), "is missing; distribution = \"uniform\" needs low and high (factors)".into());
-                            1.0
-                        }
-                    };
-                    let (low, high) = (end("low", u.low), end("high", u.high));
-                    if low >= high {
-                        c.bad(&k("high"), format!("= {high} must be greater than low = {low}"));
-                    }
-                    Distribution::Uniform { low, high }
-                }
-            };
-        params.push(Uncertain { name: u.name.clone(), keys: u.keys.clone(), distribution });
-    }
-    c.issues.extend(doc.check_numeric_keys(&all_keys, c.lines));
-    let mut correlations: Vec<Correlation> = Vec::new();
-    for (i, r) in corr.iter().enumerate() {
-        let k = |f: &str| format!("correlation[{i}].{f}");
-        let index = |name: &String| raw.iter().position(|u| &u.name == name);
-        let pair = match &r.between[..] {
-            [a, b] if a != b => match (index(a), index(b)) {
-                (Some(a), Some(b)) => Some((a, b)),
-                _ => {
-                    let names: Vec<&str> = raw.iter().map(|u| u.name.as_str()).collect();
-                    c.bad(
-                        &k("between"),
-                        format!("names an unknown [[uncertain]] entry; the names are: {}", names.join(", ")),
-                    );
-                    None
-                }
-            },
-            _ => {
-                c.bad(&k("between"), "must name two different [[uncertain]] entries".into());
-                None
-            }
-        };
-        let rho = c.num(&k("coefficient"), r.coefficient, Low::Incl(-0.99), 0.99);
-        if let Some((a, b)) = pair {
-            if correlations.iter().any(|o| (o.a, o.b) == (a, b) || (o.a, o.b) == (b, a)) {
-                c.bad(&k("between"), "repeats a pair already correlated".into());
-            }
-            correlations.push(Correlation { a, b, coefficient: rho });
-        }
-    }
-    let u = Uncertainty { params, correlations };
-    if c.issues.is_empty() && crate::random::correlation_factor(&u).is_none() {
-        c.bad(
-            "correlation",
-            "the coefficients together are not a valid correlation matrix (not positive definite); weaken some of them"
-                .into(),
-        );
-    }
-    u
 }

@@ -43,11 +43,6 @@ impl Document {
         Ok(Document { file: file.to_string(), table })
     }
 
-    /// The TOML table.
-    pub fn table(&self) -> &toml::Table {
-        &self.table
-    }
-
     /// Validate the (changed) document. Messages name `label` as the file
     /// and carry no line numbers: the lines of a changed document are not
     /// those of the file on disk.
@@ -143,7 +138,7 @@ impl Document {
     /// Every path in the document that holds a number, in file order.
     pub fn numeric_paths(&self) -> Vec<String> {
         let mut out = Vec::new();
-        walk(&toml::Value::Table(self.table.clone()), "", &mut out);
+        walk_table(&self.table, "", &mut out);
         out
     }
 
@@ -175,14 +170,16 @@ impl Document {
     }
 }
 
+fn walk_table(t: &toml::Table, path: &str, out: &mut Vec<String>) {
+    for (k, v) in t {
+        let p = if path.is_empty() { k.clone() } else { format!("{path}.{k}") };
+        walk(v, &p, out);
+    }
+}
+
 fn walk(v: &toml::Value, path: &str, out: &mut Vec<String>) {
     match v {
-        toml::Value::Table(t) => {
-            for (k, v) in t {
-                let p = if path.is_empty() { k.clone() } else { format!("{path}.{k}") };
-                walk(v, &p, out);
-            }
-        }
+        toml::Value::Table(t) => walk_table(t, path, out),
         toml::Value::Array(items) if items.iter().any(toml::Value::is_table) => {
             for (i, v) in items.iter().enumerate() {
                 walk(v, &format!("{path}[{i}]"), out);

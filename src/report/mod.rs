@@ -49,7 +49,8 @@ pub struct RiskReport<'a> {
     pub project: &'a Project,
     pub risk: &'a crate::risk::RiskResult,
     pub source: String,
-    /// Wall time of the realisations, s (not part of the JSON output).
+    /// Wall time of the final realisations (after the best-estimate plan
+    /// or the reliability search), s; not part of the JSON output.
     pub seconds: f64,
 }
 
