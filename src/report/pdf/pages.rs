@@ -410,7 +410,7 @@ pub fn methods(c: &mut Canvas) {
         ),
         (
             "Consolidation",
-            "Terzaghi's (1925) one-dimensional consolidation by finite differences on six vertical columns across the half-width, multi-layer with series conductances at interfaces, θ-scheme time stepping (Crank–Nicolson, fully implicit after load changes), tridiagonal solution.",
+            "Terzaghi's (1925) one-dimensional consolidation by finite differences on six vertical columns across the half-width, multi-layer with series conductances at interfaces, θ-scheme time stepping (fully implicit after every change of load, which with the make-up for settlement is nearly every step; Crank–Nicolson under constant load), tridiagonal solution.",
         ),
         (
             "Vertical drains",
