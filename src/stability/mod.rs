@@ -147,18 +147,19 @@ impl Section<'_> {
     /// vertex and layer or water-table crossing, and at least `slices` (≥ 30)
     /// slices in all.
     fn slices(&self, c: Circle, x0: f64, x1: f64) -> Vec<(f64, f64)> {
-        let mut breaks = vec![x0, x1];
+        let mut breaks = Vec::with_capacity(6 + 2 * (self.profile.len() + self.layers.len()));
+        breaks.extend([x0, x1]);
         for &(x, _) in &self.profile {
             breaks.extend([x, -x]);
         }
         let crossings = self.ground_crossings(c, x0, x1);
         // With the crack on, the sliding mass starts at the active-side
         // crossing: slice that part finely enough on its own.
-        let mass_start = match crossings.first() {
+        let mass_start = match crossings.iter().flatten().next() {
             Some(&x) if self.crack && x < c.xc_m => x,
             _ => x0,
         };
-        breaks.extend(crossings);
+        breaks.extend(crossings.into_iter().flatten());
         for y in self.horizontal_breaks(c.xc_m) {
             let d = c.r_m * c.r_m - (c.yc_m - y).powi(2);
             if d > 0.0 && y < c.yc_m {
@@ -169,7 +170,7 @@ impl Section<'_> {
         breaks.sort_by(f64::total_cmp);
         breaks.dedup_by(|a, b| (*a - *b).abs() < 1e-6);
         let target = (x1 - mass_start) / self.slices as f64;
-        let mut out = Vec::new();
+        let mut out = Vec::with_capacity(self.slices + breaks.len());
         for w in breaks.windows(2) {
             let n = ((w[1] - w[0]) / target).ceil().max(1.0) as usize;
             let dx = (w[1] - w[0]) / n as f64;
@@ -183,22 +184,16 @@ impl Section<'_> {
     /// Where the arc crosses the settled original ground on each side of its
     /// lowest point (a root of arc − ground, which changes sign there),
     /// so the crack and the fill/ground boundary fall on slice boundaries.
-    fn ground_crossings(&self, c: Circle, x0: f64, x1: f64) -> Vec<f64> {
+    fn ground_crossings(&self, c: Circle, x0: f64, x1: f64) -> [Option<f64>; 2] {
         let g = |x: f64| {
             let dx = x - c.xc_m;
             c.yc_m - (c.r_m * c.r_m - dx * dx).max(0.0).sqrt() - self.ground_y(x)
         };
         let mid = c.xc_m.clamp(x0, x1);
         if g(mid) >= 0.0 {
-            return Vec::new();
+            return [None, None];
         }
-        let mut out = Vec::new();
-        for (above, below) in [(x0, mid), (x1, mid)] {
-            if g(above) > 0.0 {
-                out.push(root(&g, above, below));
-            }
-        }
-        out
+        [(x0, mid), (x1, mid)].map(|(above, below)| (g(above) > 0.0).then(|| root(&g, above, below)))
     }
 
     /// Per-slice forces. With the fill tension crack on, a circle that goes

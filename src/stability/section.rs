@@ -167,7 +167,11 @@ impl<'a> Section<'a> {
 
     /// Current elevation of original depth z at offset x, m.
     pub(super) fn elevation_of_depth(&self, x: f64, z: f64) -> f64 {
-        let s = self.field.settlement(x);
+        self.elevation_with(self.field.settlement(x), z)
+    }
+
+    /// Elevation of original depth z where the surface has settled by s, m.
+    fn elevation_with(&self, s: f64, z: f64) -> f64 {
         -z - s * (1.0 - z / -self.base_y)
     }
 
@@ -220,10 +224,9 @@ impl<'a> Section<'a> {
     }
 
     /// Elevations (at offset x) of the layer boundaries and the water table.
-    pub(super) fn horizontal_breaks(&self, x: f64) -> Vec<f64> {
-        let mut v: Vec<f64> = self.layers.iter().map(|l| self.elevation_of_depth(x, l.top_z)).collect();
-        v.push(self.water_y);
-        v
+    pub(super) fn horizontal_breaks(&self, x: f64) -> impl Iterator<Item = f64> + '_ {
+        let s = self.field.settlement(x);
+        self.layers.iter().map(move |l| self.elevation_with(s, l.top_z)).chain(std::iter::once(self.water_y))
     }
 
     /// Moment of the basal reinforcement about the centre of circle: its
