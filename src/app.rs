@@ -179,8 +179,7 @@ fn state_on(r: &Runner, p: &Project, date: Option<&str>) -> Result<(crate::respo
         return Err(Error::Usage(format!("--date {d} is beyond the 40-year horizon")));
     }
     for lift in p.sequence.iter().filter(|l| l.start <= d) {
-        r.rest_until(&mut st, r.calendar.day_of(lift.start), &mut |_| {});
-        r.place(&mut st, lift.thickness_m, &mut |_| {})?;
+        r.place_on(&mut st, lift.start, lift.thickness_m)?;
     }
     if st.day > day as f64 {
         return Err(Error::Usage(format!(
@@ -206,40 +205,38 @@ fn parse_circle(text: &str) -> Result<Circle> {
     }
 }
 
-/// Run `f` with a progress bar on standard error when it is a terminal
-/// (nothing when piped); `f` reports progress as a fraction 0–1.
-fn with_progress<T>(f: impl FnOnce(&mut dyn FnMut(f64)) -> T) -> T {
+/// A progress bar of `len` steps on standard error with `template`, or
+/// None when standard error is not a terminal (nothing is drawn when piped).
+fn terminal_bar(len: u64, template: &str) -> Option<indicatif::ProgressBar> {
     use std::io::IsTerminal;
     if !std::io::stderr().is_terminal() {
-        return f(&mut |_| {});
+        return None;
     }
-    let bar = indicatif::ProgressBar::new(100);
+    let bar = indicatif::ProgressBar::new(len);
     bar.set_style(
-        indicatif::ProgressStyle::with_template("planning {bar:40} {pos:>3}% of final height [{elapsed}]")
-            .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
+        indicatif::ProgressStyle::with_template(template).unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
     );
     bar.enable_steady_tick(std::time::Duration::from_millis(200));
+    Some(bar)
+}
+
+/// Run `f` with a progress bar; `f` reports progress as a fraction 0–1.
+fn with_progress<T>(f: impl FnOnce(&mut dyn FnMut(f64)) -> T) -> T {
+    let Some(bar) = terminal_bar(100, "planning {bar:40} {pos:>3}% of final height [{elapsed}]") else {
+        return f(&mut |_| {});
+    };
     let out = f(&mut |x| bar.set_position((100.0 * x).round() as u64));
     bar.finish_and_clear();
     out
 }
 
-/// Run `f` with a counting progress bar of `total` steps on standard error
-/// when it is a terminal; `f` calls the tick once per finished step (from
-/// any thread).
+/// Run `f` with a counting progress bar of `total` steps; `f` calls the
+/// tick once per finished step (from any thread).
 fn with_counter<T>(total: usize, what: &str, f: impl FnOnce(&(dyn Fn() + Sync)) -> T) -> T {
-    use std::io::IsTerminal;
-    if !std::io::stderr().is_terminal() {
+    let template = format!("{what} {{bar:40}} {{pos}}/{{len}} [{{elapsed}}, {{eta}} left]");
+    let Some(bar) = terminal_bar(total as u64, &template) else {
         return f(&|| {});
-    }
-    let bar = indicatif::ProgressBar::new(total as u64);
-    bar.set_style(
-        indicatif::ProgressStyle::with_template(&format!(
-            "{what} {{bar:40}} {{pos}}/{{len}} [{{elapsed}}, {{eta}} left]"
-        ))
-        .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
-    );
-    bar.enable_steady_tick(std::time::Duration::from_millis(200));
+    };
     let out = f(&|| bar.inc(1));
     bar.finish_and_clear();
     out

@@ -417,8 +417,7 @@ fn realise(
     let mut st = engine.initial_state();
     let mut stage_fs = Vec::with_capacity(plan.stages.len());
     for (s, (_, bands)) in plan.stages.iter().zip(seeds) {
-        r.rest_until(&mut st, r.calendar.day_of(s.start), &mut |_| {});
-        r.place(&mut st, s.thickness_m, &mut |_| {})?;
+        r.place_on(&mut st, s.start, s.thickness_m)?;
         stage_fs.push(r.stability_from(&st, bands, &mut effort)?.critical.fs);
     }
     let (governing_stage, lowest_fs) = plan

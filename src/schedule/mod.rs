@@ -172,6 +172,13 @@ impl<'e, 'p> Runner<'e, 'p> {
         Ok((first, last))
     }
 
+    /// Rest until `date`, then raise the crest by `thickness_m` (a stage
+    /// of a timetable or of a proposed sequence, replayed).
+    pub fn place_on(&self, st: &mut State, date: chrono::NaiveDate, thickness_m: f64) -> Result<(i64, i64)> {
+        self.rest_until(st, self.calendar.day_of(date), &mut |_| {});
+        self.place(st, thickness_m, &mut |_| {})
+    }
+
     /// First workable day at or after `day`.
     pub fn next_workable(&self, day: i64) -> Result<i64> {
         self.calendar.next_workable(day).ok_or_else(|| {

@@ -203,8 +203,7 @@ fn governing(r: &Runner, start: &State, stages: &[Stage], effort: &mut Effort) -
     };
     let mut st = start.clone();
     for s in stages.iter().take(g.number) {
-        r.rest_until(&mut st, r.calendar.day_of(s.start), &mut |_| {});
-        r.place(&mut st, s.thickness_m, &mut |_| {})?;
+        r.place_on(&mut st, s.start, s.thickness_m)?;
     }
     let critical = r.stability(&st, effort)?.critical;
     Ok(Some(Governing { stage: g.number, height_m: st.height_m, field: r.engine.field(&st), critical }))
