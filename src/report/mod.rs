@@ -106,6 +106,59 @@ pub fn risk_stage_cells(s: &crate::risk::StageRisk) -> Vec<String> {
     ]
 }
 
+/// Column headings of the uncertain-parameter table (terminal and PDF).
+pub const PARAMETER_COLUMNS: [&str; 6] = ["parameter", "distribution", "factor P10", "P50", "P90", "keys"];
+
+/// One uncertain parameter as the cells of `PARAMETER_COLUMNS`.
+pub fn parameter_cells(p: &crate::risk::ParameterSummary) -> Vec<String> {
+    vec![
+        p.name.clone(),
+        describe_distribution(p.distribution),
+        fixed(p.factor.p10, 2),
+        fixed(p.factor.p50, 2),
+        fixed(p.factor.p90, 2),
+        p.keys.join(", "),
+    ]
+}
+
+/// The Monte Carlo answers as sentences, shared by the terminal and the
+/// PDF: (a) the timetable checked, (b) fresh plans, and the
+/// reliability-based target when one was searched for.
+pub struct RiskAnswers {
+    pub timetable: Vec<String>,
+    pub fresh: Vec<String>,
+    pub reliability: Option<String>,
+}
+
+impl RiskAnswers {
+    pub fn of(k: &crate::risk::RiskResult) -> RiskAnswers {
+        let est = |e| describe_estimate(e, k.runs);
+        let mut timetable = vec![
+            format!("P(FS < 1.0 at some stage) = {}", est(&k.below_one)),
+            format!("P(FS < {:.2} at some stage) = {}", k.fs_target, est(&k.below_target)),
+            format!("lowest FS P10 {:.2}, P50 {:.2}, P90 {:.2}", k.lowest_fs.p10, k.lowest_fs.p50, k.lowest_fs.p90),
+        ];
+        if let Some(g) = k.governing.first() {
+            timetable.push(format!("stage {} governs most often ({} of {} realisations)", g.stage, g.count, k.runs));
+        }
+        let first = match (&k.finish, &k.duration_days) {
+            (Some(d), Some(n)) => format!(
+                "finish P10 {} ({:.0} days), P50 {} ({:.0} days), P90 {} ({:.0} days); best estimate {} ({} days)",
+                d.p10, n.p10, d.p50, n.p50, d.p90, n.p90, k.best_estimate_finish, k.best_estimate_duration_days
+            ),
+            _ => "no realisation could be built".into(),
+        };
+        let fresh = vec![first, format!("cannot be built: {}", est(&k.not_buildable))];
+        let reliability = k.reliability.as_ref().map(|rel| {
+            format!(
+                "Reliability-based target: FS {:.2} is the lowest target whose timetable keeps the estimated P(FS < 1) ≤ {} at every stage (lognormal fit to {} realisations per target).",
+                rel.fs_target, rel.max_failure_probability, k.runs
+            )
+        });
+        RiskAnswers { timetable, fresh, reliability }
+    }
+}
+
 /// "0.012 (12 of 1000, s.e. 0.003)", or the upper bound when none occurred
 /// in `n` realisations.
 pub fn describe_estimate(e: &crate::risk::Estimate, n: usize) -> String {

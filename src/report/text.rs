@@ -494,53 +494,31 @@ pub fn risk(r: &super::RiskReport) -> String {
         r.seconds,
         k.runs as f64 / r.seconds.max(1e-9)
     ));
-    let mut t = Table::new(&["parameter", "distribution", "factor P10", "P50", "P90", "keys"]);
+    let mut t = Table::new(&super::PARAMETER_COLUMNS);
     for p in &k.parameters {
-        t.row(vec![
-            p.name.clone(),
-            super::describe_distribution(p.distribution),
-            f(p.factor.p10, 2),
-            f(p.factor.p50, 2),
-            f(p.factor.p90, 2),
-            p.keys.join(", "),
-        ]);
+        t.row(super::parameter_cells(p));
     }
     out.push_str(&t.render());
+    let answers = super::RiskAnswers::of(k);
     out.push_str(&format!(
         "\n(a) The best-estimate timetable (finish {}, lowest FS {:.2}) with the realised ground:\n",
         k.best_estimate_finish, k.best_estimate_min_fs
     ));
-    out.push_str(&format!(
-        "    P(FS < 1.0 at some stage) = {}\n    P(FS < {:.2} at some stage) = {}\n    lowest FS P10 {:.2}, P50 {:.2}, P90 {:.2}\n",
-        super::describe_estimate(&k.below_one, k.runs),
-        k.fs_target,
-        super::describe_estimate(&k.below_target, k.runs),
-        k.lowest_fs.p10,
-        k.lowest_fs.p50,
-        k.lowest_fs.p90
-    ));
-    if let Some(g) = k.governing.first() {
-        out.push_str(&format!("    stage {} governs most often ({} of {} realisations)\n\n", g.stage, g.count, k.runs));
+    for line in &answers.timetable {
+        out.push_str(&format!("    {line}\n"));
     }
+    out.push('\n');
     let mut t = Table::new(&super::RISK_STAGE_COLUMNS);
     for s in &k.stages {
         t.row(super::risk_stage_cells(s));
     }
     out.push_str(&t.render());
     out.push_str("\n(b) Each realisation planned afresh:\n");
-    match (&k.finish, &k.duration_days) {
-        (Some(d), Some(n)) => out.push_str(&format!(
-            "    finish P10 {} ({:.0} days), P50 {} ({:.0} days), P90 {} ({:.0} days); best estimate {} ({} days)\n",
-            d.p10, n.p10, d.p50, n.p50, d.p90, n.p90, k.best_estimate_finish, k.best_estimate_duration_days
-        )),
-        _ => out.push_str("    no realisation could be built\n"),
+    for line in &answers.fresh {
+        out.push_str(&format!("    {line}\n"));
     }
-    out.push_str(&format!("    cannot be built: {}\n", super::describe_estimate(&k.not_buildable, k.runs)));
-    if let Some(rel) = &k.reliability {
-        out.push_str(&format!(
-            "\nReliability-based target: FS {:.2} is the lowest target whose timetable keeps the estimated P(FS < 1) ≤ {} at every stage (lognormal fit to {} realisations per target). Targets tried:\n",
-            rel.fs_target, rel.max_failure_probability, k.runs
-        ));
+    if let (Some(rel), Some(sentence)) = (&k.reliability, &answers.reliability) {
+        out.push_str(&format!("\n{sentence} Targets tried:\n"));
         let mut t = Table::new(&["FS target", "finish", "worst stage", "P(FS<1)", "meets"]);
         for x in &rel.trials {
             t.row(vec![

@@ -5,7 +5,6 @@
 use super::canvas::{Canvas, Dash, Marker, PAGE_W};
 use super::chart::{Axis, Chart, Series, XAxis};
 use super::pages::{BLOCK_TOP, CONTENT_TOP, MARGIN, table};
-use crate::report::fixed as f;
 use crate::report::{CompareReport, RiskReport};
 
 const MARKS: [Marker; 3] = [Marker::Circle, Marker::Square, Marker::Triangle];
@@ -113,55 +112,31 @@ pub fn risk_summary(c: &mut Canvas, r: &RiskReport) {
             k.runs, k.seed, r.source, k.best_estimate_finish, k.best_estimate_min_fs, k.fs_target
         ),
     );
-    let params: Vec<Vec<String>> = k
-        .parameters
+    let params: Vec<Vec<String>> = k.parameters.iter().map(crate::report::parameter_cells).collect();
+    let widths = [34.0, 40.0, 18.0, 14.0, 14.0, 150.0];
+    let cols: Vec<(&str, f32, bool)> = crate::report::PARAMETER_COLUMNS
         .iter()
-        .map(|p| {
-            vec![
-                p.name.clone(),
-                crate::report::describe_distribution(p.distribution),
-                f(p.factor.p10, 2),
-                f(p.factor.p50, 2),
-                f(p.factor.p90, 2),
-                p.keys.join(", "),
-            ]
-        })
+        .zip(widths)
+        .enumerate()
+        .map(|(i, (h, w))| (*h, w, (2..5).contains(&i)))
         .collect();
-    let cols = [
-        ("parameter", 34.0, false),
-        ("distribution", 40.0, false),
-        ("factor P10", 18.0, true),
-        ("P50", 14.0, true),
-        ("P90", 14.0, true),
-        ("keys", 150.0, false),
-    ];
     y = table(c, MARGIN, y + 5.0, &cols, &params, 7.0);
-    let est = |e: &crate::risk::Estimate| crate::report::describe_estimate(e, k.runs);
-    let mut lines = vec![
-        format!("P(FS < 1.0 at some stage of the timetable): {}", est(&k.below_one)),
-        format!("P(FS < {:.2} at some stage of the timetable): {}", k.fs_target, est(&k.below_target)),
-        format!(
-            "Lowest FS of the timetable: P10 {:.2}, P50 {:.2}, P90 {:.2}",
-            k.lowest_fs.p10, k.lowest_fs.p50, k.lowest_fs.p90
-        ),
-    ];
-    if let Some(g) = k.governing.first() {
-        lines.push(format!("Stage {} governs most often ({} of {} realisations).", g.stage, g.count, k.runs));
-    }
-    if let Some(d) = &k.finish {
-        lines.push(format!(
-            "Planned afresh, the works finish: P10 {}, P50 {}, P90 {} (best estimate {}); cannot be built: {}",
-            d.p10,
-            d.p50,
-            d.p90,
-            k.best_estimate_finish,
-            est(&k.not_buildable)
-        ));
-    }
+    let answers = crate::report::RiskAnswers::of(k);
     y += 4.0;
-    for l in lines {
-        c.text(MARGIN, y, 8.5, false, &l);
-        y += 5.0;
+    let heads = [
+        format!("Best-estimate timetable (finish {}) with the realised ground:", k.best_estimate_finish),
+        "Each realisation planned afresh:".to_string(),
+    ];
+    for (head, lines) in heads.iter().zip([&answers.timetable, &answers.fresh]) {
+        c.text(MARGIN, y, 8.5, true, head);
+        y += 4.5;
+        for l in lines {
+            c.text(MARGIN + 4.0, y, 8.5, false, l);
+            y += 4.5;
+        }
+    }
+    if let Some(sentence) = &answers.reliability {
+        y = c.paragraph(MARGIN, y, w, 8.5, sentence);
     }
     let widths = [8.0, 26.0, 22.0, 18.0, 18.0, 18.0, 14.0, 14.0, 20.0, 26.0];
     let cols: Vec<(&str, f32, bool)> = crate::report::RISK_STAGE_COLUMNS
