@@ -143,18 +143,21 @@ pub fn draw(u: &Uncertainty, l: &DMatrix<f64>, rng: &mut Noise) -> Vec<f64> {
         .collect()
 }
 
-/// Sample percentile `q` (0–100) of `v` by linear interpolation between
-/// order statistics (Hyndman & Fan 1996, definition 7; the default of
-/// numpy.percentile and R's quantile). `v` need not be sorted.
-pub fn percentile(v: &[f64], q: f64) -> f64 {
+/// Sample percentiles `qs` (each 0–100) of `v` by linear interpolation
+/// between order statistics (Hyndman & Fan 1996, definition 7; the default
+/// of numpy.percentile and R's quantile). `v` need not be sorted; it is
+/// sorted once for all of them. NaN for an empty sample.
+pub fn percentiles<const N: usize>(v: &[f64], qs: [f64; N]) -> [f64; N] {
     let mut s = v.to_vec();
     s.sort_by(f64::total_cmp);
-    if s.is_empty() {
-        return f64::NAN;
-    }
-    let h = (s.len() - 1) as f64 * q / 100.0;
-    let (lo, frac) = (h.floor() as usize, h - h.floor());
-    if lo + 1 < s.len() { s[lo] + frac * (s[lo + 1] - s[lo]) } else { s[lo] }
+    qs.map(|q| {
+        if s.is_empty() {
+            return f64::NAN;
+        }
+        let h = (s.len() - 1) as f64 * q / 100.0;
+        let (lo, frac) = (h.floor() as usize, h - h.floor());
+        if lo + 1 < s.len() { s[lo] + frac * (s[lo + 1] - s[lo]) } else { s[lo] }
+    })
 }
 
 #[cfg(test)]
@@ -239,9 +242,10 @@ mod tests {
     fn percentiles_follow_definition_7() {
         // numpy.percentile([1, 2, 3, 4], [10, 50, 90]) = [1.3, 2.5, 3.7].
         let v = [4.0, 1.0, 3.0, 2.0];
-        assert!((percentile(&v, 10.0) - 1.3).abs() < 1e-12);
-        assert!((percentile(&v, 50.0) - 2.5).abs() < 1e-12);
-        assert!((percentile(&v, 90.0) - 3.7).abs() < 1e-12);
+        let [p10, p50, p90] = percentiles(&v, [10.0, 50.0, 90.0]);
+        assert!((p10 - 1.3).abs() < 1e-12);
+        assert!((p50 - 2.5).abs() < 1e-12);
+        assert!((p90 - 3.7).abs() < 1e-12);
     }
 
     #[test]

@@ -97,7 +97,8 @@ pub struct Spread {
 impl Spread {
     /// Percentiles of a non-empty sample.
     fn of(v: &[f64]) -> Spread {
-        Spread { p10: random::percentile(v, 10.0), p50: random::percentile(v, 50.0), p90: random::percentile(v, 90.0) }
+        let [p10, p50, p90] = random::percentiles(v, [10.0, 50.0, 90.0]);
+        Spread { p10, p50, p90 }
     }
 }
 
@@ -273,6 +274,9 @@ pub struct Reliability {
     pub trials: Vec<TargetTrial>,
 }
 
+/// A project planned to one target: its document, validated project and plan.
+type Planned = (Document, Project, Plan);
+
 /// Highest FS target the search will try (the largest the project file
 /// allows).
 const TARGET_MAX: f64 = 3.0;
@@ -297,9 +301,12 @@ pub fn reliability_target(
         )));
     }
     check_request(doc, base, opts)?;
+    // One target: planned in full, then its timetable checked by the
+    // realisations; the planned project is kept when the target meets the
+    // limit. A target "fails" when its timetable can be built but some
+    // stage's P(FS < 1) exceeds the limit.
     let mut trials: Vec<TargetTrial> = Vec::new();
-    let mut found: Option<(Document, Project, Plan)>;
-    let try_target = |t: f64, trials: &mut Vec<TargetTrial>| -> Result<Option<(Document, Project, Plan)>> {
+    let mut try_target = |t: f64| -> Result<(bool, Option<Planned>)> {
         let mut d = doc.clone();
         d.set("criteria.fs_construction", toml::Value::Float(t))?;
         let p = d.project(&format!("{} with criteria.fs_construction = {t:.2}", doc.file))?;
@@ -307,14 +314,10 @@ pub fn reliability_target(
         let plan = match planner::plan(&Runner::new(&engine)) {
             Ok(plan) => plan,
             Err(Error::Computation(_)) => {
-                trials.push(TargetTrial {
-                    fs_target: t,
-                    finish: None,
-                    p_below_one: None,
-                    worst_stage: None,
-                    meets: false,
-                });
-                return Ok(None);
+                let none =
+                    TargetTrial { fs_target: t, finish: None, p_below_one: None, worst_stage: None, meets: false };
+                trials.push(none);
+                return Ok((false, None));
             }
             Err(e) => return Err(e),
         };
@@ -327,45 +330,31 @@ pub fn reliability_target(
             .max_by(|a, b| a.1.total_cmp(&b.1))
             .unwrap_or((0, 0.0));
         let meets = pf <= max_failure_probability;
-        trials.push(TargetTrial {
-            fs_target: t,
-            finish: Some(plan.finish),
-            p_below_one: Some(pf),
-            worst_stage: Some(worst_stage),
-            meets,
-        });
-        Ok(meets.then_some((d, p, plan)))
+        let finish = Some(plan.finish);
+        trials.push(TargetTrial { fs_target: t, finish, p_below_one: Some(pf), worst_stage: Some(worst_stage), meets });
+        Ok((!meets, meets.then_some((d, p, plan))))
     };
-    // A target "fails" when its timetable can be built but some stage's
-    // P(FS < 1) exceeds the limit; higher targets lower the probability
-    // and eventually cannot be built. Bracket the lowest target that does
-    // not fail (1.0, then upwards in steps of 0.25), then bisect to 0.01.
-    let fails = |t: &TargetTrial| t.finish.is_some() && !t.meets;
-    let mut lo = 1.0;
-    found = try_target(lo, &mut trials)?;
-    let mut hi = lo;
-    while trials.last().is_some_and(fails) && hi < TARGET_MAX - 1e-9 {
+    // Higher targets lower the probability and eventually cannot be built:
+    // bracket the lowest target that does not fail (1.0, then upwards in
+    // steps of 0.25), then bisect to 0.01. `at_hi` is the planned project
+    // at `hi` when `hi` meets the limit (None when it cannot be built).
+    let (mut lo, mut hi) = (1.0, 1.0);
+    let (mut failing, mut at_hi) = try_target(hi)?;
+    while failing && hi < TARGET_MAX - 1e-9 {
         (lo, hi) = (hi, (hi + 0.25).min(TARGET_MAX));
-        found = try_target(hi, &mut trials)?;
+        (failing, at_hi) = try_target(hi)?;
     }
-    let at_hi = |trials: &[TargetTrial], hi: f64| trials.iter().find(|t| (t.fs_target - hi).abs() < 1e-9).cloned();
-    if hi > lo && at_hi(&trials, hi).is_some_and(|t| !fails(&t)) {
-        while hi - lo > 0.01 + 1e-9 {
-            let mid = ((lo + hi) / 2.0 * 100.0).round() / 100.0;
-            if mid <= lo + 1e-9 || mid >= hi - 1e-9 {
-                break;
-            }
-            let ok = try_target(mid, &mut trials)?;
-            if trials.last().is_some_and(fails) {
-                lo = mid;
-            } else {
-                hi = mid;
-                found = ok;
-            }
+    while !failing && hi - lo > 0.01 + 1e-9 {
+        let mid = ((lo + hi) / 2.0 * 100.0).round() / 100.0;
+        if mid <= lo + 1e-9 || mid >= hi - 1e-9 {
+            break;
+        }
+        match try_target(mid)? {
+            (true, _) => lo = mid,
+            (false, planned) => (hi, at_hi) = (mid, planned),
         }
     }
-    let meets_at_hi = at_hi(&trials, hi).is_some_and(|t| t.meets);
-    if !meets_at_hi || found.is_none() {
+    let Some((d, p, plan)) = at_hi else {
         return Err(Error::Computation(format!(
             "no FS target up to {TARGET_MAX:.2} gives a timetable that can be built with P(FS < 1) ≤ {max_failure_probability} at every stage; the uncertainty is too large for this design (targets tried — {})",
             trials
@@ -381,9 +370,7 @@ pub fn reliability_target(
                 .collect::<Vec<_>>()
                 .join("; ")
         )));
-    }
-    let (d, p, plan) =
-        found.ok_or_else(|| Error::Computation("the reliability-based search found no target".into()))?;
+    };
     let rel = Reliability { max_failure_probability, fs_target: p.criteria.fs_construction, trials };
     Ok((d, p, plan, rel))
 }

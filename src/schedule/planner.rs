@@ -355,10 +355,10 @@ fn safe_day_from(
     }
     let mut step = guess.max(14);
     let mut asked_if_ever = false;
+    // The longest rest tried is 20 years, or up to the last workable day of
+    // the calendar when that comes first.
+    let last_day = (first..=r.calendar.horizon()).rev().find(|d| r.calendar.workable(*d));
     let (mut hi, mut f_hi) = loop {
-        // The longest rest tried is 20 years, or up to the last workable
-        // day of the calendar when that comes first.
-        let last_day = (first..=r.calendar.horizon()).rev().find(|d| r.calendar.workable(*d));
         let Some(day) = (match r.calendar.next_workable(first + step.min(MAX_REST_DAYS)) {
             Some(d) if d <= r.calendar.horizon() => Some(d),
             _ => last_day.filter(|d| *d > lo),
