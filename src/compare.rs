@@ -51,6 +51,8 @@ pub struct Variant {
     /// None when the variant cannot be built; `reason` says why.
     pub outcome: Option<Outcome>,
     pub reason: Option<String>,
+    /// The plan's warnings (slip-circle clamps and fallbacks among them).
+    pub warnings: Vec<String>,
 }
 
 #[derive(Debug, Clone, Serialize)]
@@ -146,9 +148,9 @@ pub fn compare(doc: &Document, axes: &[Axis], tick: &(dyn Fn() + Sync)) -> Resul
         .map(|(i, (s, p))| {
             let engine = Engine::new(p);
             let runner = Runner::new(&engine);
-            let (outcome, reason) = match planner::plan(&runner) {
-                Ok(plan) => (Some(outcome(p, &plan)), None),
-                Err(Error::Computation(why)) => (None, Some(why)),
+            let (outcome, reason, warnings) = match planner::plan(&runner) {
+                Ok(plan) => (Some(outcome(p, &plan)), None, plan.warnings),
+                Err(Error::Computation(why)) => (None, Some(why), runner.stability_warnings()),
                 Err(e) => return Err(e),
             };
             tick();
@@ -158,6 +160,7 @@ pub fn compare(doc: &Document, axes: &[Axis], tick: &(dyn Fn() + Sync)) -> Resul
                 settings: s.iter().map(|(k, v)| Setting { key: k.clone(), value: v.clone() }).collect(),
                 outcome,
                 reason,
+                warnings,
             })
         })
         .collect::<Result<_>>()?;

@@ -319,6 +319,7 @@ mod tests {
                     unit_weight_kn_m3: 17.0,
                     saturated_unit_weight_kn_m3: 18.0,
                     kind: LayerKind::Clay(clay.clone()),
+                    pore: PoreWater::Hydrostatic,
                 },
                 Layer {
                     name: "soft".into(),
@@ -326,6 +327,7 @@ mod tests {
                     unit_weight_kn_m3: 15.0,
                     saturated_unit_weight_kn_m3: 16.0,
                     kind: LayerKind::Clay(clay),
+                    pore: PoreWater::Hydrostatic,
                 },
             ],
         }

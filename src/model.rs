@@ -113,6 +113,25 @@ pub struct Layer {
     /// Saturated unit weight below the water table, kN/m³.
     pub saturated_unit_weight_kn_m3: f64,
     pub kind: LayerKind,
+    /// Pore pressure in the layer for the stability of a drained (sand)
+    /// layer; clay is analysed undrained and always `Hydrostatic` here.
+    pub pore: PoreWater,
+}
+
+/// How the pore pressure in a drained layer (or the fill) is described for
+/// stability. Excess pore pressure from loading is that of the
+/// consolidation model (none in free-draining sand).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "by", rename_all = "kebab-case")]
+pub enum PoreWater {
+    /// u = γw × depth below the groundwater table.
+    Hydrostatic,
+    /// u = γw × height of a piezometric level above the point; the level is
+    /// an elevation above OGL, m (positive above ground: artesian).
+    Level { elevation_m: f64 },
+    /// u = ru × total vertical stress at the point (Bishop & Morgenstern
+    /// 1960's pore-pressure ratio).
+    Ratio { ru: f64 },
 }
 
 /// What a layer is, with the properties that kind needs.
@@ -278,13 +297,18 @@ pub struct Criteria {
 pub struct StabilityOptions {
     /// Factor applied to fill c' and tan φ' (1 = full drained strength).
     pub fill_strength_factor: f64,
-    /// Whether a circle through the ground is cut by a dry tension crack
-    /// through the full fill thickness on its active side (the fill beyond
-    /// the crack pushes with its Rankine active thrust but lends no shear).
-    /// Default true: see DEVELOPERS.md.
+    /// Whether each circle is also analysed with a tension crack in the fill
+    /// on its active side, as deep as the fill's reduced strength allows
+    /// (2c'/(γ√Ka), at most the fill thickness); the lower FS is reported.
     pub fill_tension_crack: bool,
     /// Number of slices per circle (≥ 30).
     pub slices: usize,
+    /// Share of the tension crack's depth that is filled with water (0 dry,
+    /// 1 full); the water pushes on the sliding mass.
+    pub crack_water_fraction: f64,
+    /// Pore-pressure ratio ru in the fill (0: hydrostatic below the water
+    /// table only).
+    pub fill_ru: f64,
 }
 
 /// How consolidation is modelled.

@@ -6,6 +6,7 @@
 //! strength field the stability engine samples.
 
 use crate::consolidation::{Column, ColumnState};
+use crate::ground::{self, Node};
 use crate::load::{self, Stress};
 use crate::model::*;
 use serde::Serialize;
@@ -28,6 +29,10 @@ pub struct Engine<'p> {
     steps: AtomicUsize,
     /// Column steps whose storage iteration stopped at its limit.
     unconverged: AtomicUsize,
+    /// Nodes on a boundary between two clay layers, with the node as the
+    /// layer above sees it (the grid's node belongs to the layer below), so
+    /// that the strength field carries both sides of the step.
+    interfaces: Vec<(usize, Node)>,
 }
 
 /// The state of the ground and the fill at one moment.
@@ -54,9 +59,10 @@ pub struct ColumnInfo {
 impl<'p> Engine<'p> {
     /// Build the columns at the standard offsets of the final section.
     pub fn new(project: &'p Project) -> Engine<'p> {
-        let columns = column_offsets(project).iter().map(|c| Column::new(project, c.x_m)).collect();
+        let columns: Vec<Column> = column_offsets(project).iter().map(|c| Column::new(project, c.x_m)).collect();
         let table = (0..LEVELS).map(|_| OnceLock::new()).collect();
-        Engine { project, columns, table, steps: AtomicUsize::new(0), unconverged: AtomicUsize::new(0) }
+        let interfaces = clay_interfaces(project, &columns);
+        Engine { project, columns, table, steps: AtomicUsize::new(0), unconverged: AtomicUsize::new(0), interfaces }
     }
 
     /// Consolidation time steps taken so far by this engine.
@@ -229,20 +235,60 @@ impl<'p> Engine<'p> {
     }
 
     /// Strength and settlement of the current state, for the stability
-    /// engine.
+    /// engine. A node on a boundary between two clay layers appears twice
+    /// at the same depth: first with the strength of the layer above (its
+    /// own SHANSEP or gain parameters, σ'p and measured su0 at the same
+    /// σ'v), then with that of the layer below, so that sampling never
+    /// smears the step across a node interval.
     pub fn field(&self, st: &State) -> GroundField {
+        let nodes = &self.columns[0].nodes;
+        let mut zs = Vec::with_capacity(nodes.len() + self.interfaces.len());
+        let mut upper = self.interfaces.iter().peekable();
+        let mut order = Vec::with_capacity(zs.capacity());
+        for (i, n) in nodes.iter().enumerate() {
+            if let Some((_, above)) = upper.next_if(|(k, _)| *k == i) {
+                zs.push(n.z_m);
+                order.push(Some(above));
+            }
+            zs.push(n.z_m);
+            order.push(None);
+        }
+        let su_of = |col: &Column, s: &ColumnState| -> Vec<f64> {
+            let mut i = 0;
+            order
+                .iter()
+                .map(|above| match above {
+                    Some(node) => ground::su_now(node, col.sigma_eff(s, i).max(0.1), node.sigma_p0_kpa.max(s.smax[i])),
+                    None => {
+                        i += 1;
+                        col.su(s, i - 1)
+                    }
+                })
+                .collect()
+        };
         GroundField {
             xs: self.columns.iter().map(|c| c.x_m).collect(),
-            zs: self.columns[0].nodes.iter().map(|n| n.z_m).collect(),
+            zs,
             settlement_m: self.columns.iter().zip(&st.cols).map(|(c, s)| c.settlement(s)).collect(),
-            su: self
-                .columns
-                .iter()
-                .zip(&st.cols)
-                .map(|(col, s)| (0..col.nodes.len()).map(|i| col.su(s, i)).collect())
-                .collect(),
+            su: self.columns.iter().zip(&st.cols).map(|(col, s)| su_of(col, s)).collect(),
         }
     }
+}
+
+/// Grid nodes on a boundary between two clay layers, each with its initial
+/// state as the layer above sees it.
+fn clay_interfaces(project: &Project, columns: &[Column]) -> Vec<(usize, Node)> {
+    let g = &project.ground;
+    let nodes = &columns[0].nodes;
+    let is_clay = |li: usize| matches!(g.layers[li].kind, LayerKind::Clay(_));
+    (1..nodes.len().saturating_sub(1))
+        .filter_map(|i| {
+            let above = ground::layer_index(g, 0.5 * (nodes[i - 1].z_m + nodes[i].z_m));
+            let own = nodes[i].layer;
+            (above != own && is_clay(above) && is_clay(own))
+                .then(|| (i, ground::node_at_layer(project, nodes[i].z_m, above)))
+        })
+        .collect()
 }
 
 /// Fill unit weight averaged over the placed thickness, kN/m³, with the part
@@ -273,8 +319,10 @@ pub fn column_offsets(project: &Project) -> Vec<ColumnInfo> {
 }
 
 /// The ground's state as the stability engine needs it: undrained strength
-/// on the columns, su[column][node] kPa at original depths (all columns share
-/// one depth grid), and the surface settlement of each column, m.
+/// on the columns, su[column][k] kPa at original depths `zs[k]` (all columns
+/// share one depth grid; a depth on a boundary between two clay layers
+/// appears twice, the value above the boundary first), and the surface
+/// settlement of each column, m.
 #[derive(Debug, Clone)]
 pub struct GroundField {
     pub xs: Vec<f64>,

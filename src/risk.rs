@@ -22,6 +22,7 @@ use crate::random::{self, Noise};
 use crate::response::Engine;
 use crate::schedule::planner::{self, Plan, StageKind};
 use crate::schedule::{Effort, Runner};
+use crate::stability::Diagnostics;
 use crate::stability::search::BandResult;
 use chrono::{Duration, NaiveDate};
 use rayon::prelude::*;
@@ -59,6 +60,9 @@ pub struct Realisation {
     pub duration_days: Option<i64>,
     /// Why the fresh plan could not be built, when it could not.
     pub not_buildable: Option<String>,
+    /// Clamps and fallbacks of this realisation's slip-circle searches.
+    #[serde(skip)]
+    pub diagnostics: Diagnostics,
 }
 
 /// A probability estimated from the realisations.
@@ -163,6 +167,9 @@ pub struct RiskResult {
     pub not_buildable: Estimate,
     /// The reliability-based target search, when asked for.
     pub reliability: Option<Reliability>,
+    /// Clamps and fallbacks met by the slip-circle searches of the
+    /// best-estimate plan and of every realisation.
+    pub warnings: Vec<String>,
     pub realisations: Vec<Realisation>,
 }
 
@@ -405,7 +412,7 @@ fn realise(
     let mut stage_fs = Vec::with_capacity(plan.stages.len());
     for (s, (_, bands)) in plan.stages.iter().zip(seeds) {
         r.place_on(&mut st, s.start, s.thickness_m)?;
-        stage_fs.push(r.stability_from(&st, bands, &mut effort)?.critical.fs);
+        stage_fs.push(r.stability_from(&st, bands, &mut effort)?.governing_fs());
     }
     let (governing_stage, lowest_fs) = plan
         .stages
@@ -421,7 +428,26 @@ fn realise(
         Some(Err(Error::Computation(why))) => (None, None, Some(why)),
         Some(Err(e)) => return Err(e),
     };
-    Ok(Realisation { index, factors, stage_fs, lowest_fs, governing_stage, finish, duration_days, not_buildable })
+    Ok(Realisation {
+        index,
+        factors,
+        stage_fs,
+        lowest_fs,
+        governing_stage,
+        finish,
+        duration_days,
+        not_buildable,
+        diagnostics: r.stability_diagnostics(),
+    })
+}
+
+/// The best-estimate plan's warnings and the clamps and fallbacks of the
+/// realisations' slip-circle searches.
+fn risk_warnings(plan: &Plan, all: &[Realisation]) -> Vec<String> {
+    let mut d = Diagnostics::default();
+    all.iter().for_each(|r| d.merge(&r.diagnostics));
+    let best = plan.warnings.iter().map(|w| format!("best-estimate plan: {w}"));
+    best.chain(d.warnings().into_iter().map(|w| format!("realisations: {w}"))).collect()
 }
 
 fn summarise(
@@ -505,6 +531,7 @@ fn summarise(
         duration_days,
         not_buildable: Estimate::of(all.iter().filter(|r| r.not_buildable.is_some()).count(), n),
         reliability,
+        warnings: risk_warnings(plan, &all),
         realisations: all,
     }
 }

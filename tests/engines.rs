@@ -26,7 +26,7 @@ fn replay_fs(p: &Project, stages: &[(chrono::NaiveDate, f64)], start: chrono::Na
     }
     r.rest_until(&mut st, r.calendar.day_of(start), &mut |_| {});
     r.place(&mut st, lift, &mut |_| {}).unwrap();
-    r.stability(&st, &mut Effort::default()).unwrap().critical.fs
+    r.stability(&st, &mut Effort::default()).unwrap().governing_fs()
 }
 
 #[test]

@@ -77,6 +77,11 @@ pub struct RawLayer {
     // sand
     pub friction_deg: Option<f64>,
     pub cohesion_kpa: Option<f64>,
+    /// Piezometric level of a sand layer: elevation above OGL, m (negative
+    /// below ground; above ground is artesian).
+    pub piezometric_level_m: Option<f64>,
+    /// Pore-pressure ratio of a sand layer.
+    pub ru: Option<f64>,
 }
 
 #[derive(Debug, Deserialize)]
@@ -139,6 +144,8 @@ pub struct RawStability {
     pub fill_strength_factor: Option<f64>,
     pub fill_tension_crack: Option<bool>,
     pub slices: Option<i64>,
+    pub crack_water_fraction: Option<f64>,
+    pub fill_ru: Option<f64>,
 }
 
 #[derive(Debug, Deserialize)]

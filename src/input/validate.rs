@@ -201,7 +201,39 @@ fn layer(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, last: bool) -> Laye
         },
         _ => LayerKind::StiffBase,
     };
-    Layer { name: r.name.clone(), thickness_m, unit_weight_kn_m3: gamma, saturated_unit_weight_kn_m3: gamma_sat, kind }
+    let pore = pore_water(c, key, r, kind_name);
+    Layer {
+        name: r.name.clone(),
+        thickness_m,
+        unit_weight_kn_m3: gamma,
+        saturated_unit_weight_kn_m3: gamma_sat,
+        kind,
+        pore,
+    }
+}
+
+/// Pore pressure of a sand layer for stability: hydrostatic unless a
+/// piezometric level or an ru is given (not both). Clay is analysed
+/// undrained (su from the consolidation model), so neither key applies.
+fn pore_water(c: &mut Check, key: &str, r: &RawLayer, kind: &str) -> PoreWater {
+    let k = |f: &str| format!("{key}.{f}");
+    if kind != "sand" {
+        for (f, v) in [("piezometric_level_m", r.piezometric_level_m), ("ru", r.ru)] {
+            if let Some(v) = v {
+                c.bad(&k(f), format!("= {v} only applies to sand layers: clay is analysed undrained with su from the consolidation model"));
+            }
+        }
+        return PoreWater::Hydrostatic;
+    }
+    match (r.piezometric_level_m, r.ru) {
+        (None, None) => PoreWater::Hydrostatic,
+        (Some(h), None) => PoreWater::Level { elevation_m: c.num(&k("piezometric_level_m"), h, Low::Incl(-80.0), 20.0) },
+        (None, Some(ru)) => PoreWater::Ratio { ru: c.num(&k("ru"), ru, Low::Incl(0.0), 0.9) },
+        (Some(_), Some(_)) => {
+            c.bad(&k("ru"), "give either piezometric_level_m or ru, not both".into());
+            PoreWater::Hydrostatic
+        }
+    }
 }
 
 fn clay(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, thickness_m: f64) -> Clay {
@@ -533,6 +565,14 @@ fn stability(c: &mut Check, r: Option<&RawStability>) -> StabilityOptions {
         ),
         fill_tension_crack: r.and_then(|s| s.fill_tension_crack).unwrap_or(true),
         slices: slices.clamp(30, 400) as usize,
+        crack_water_fraction: c.opt(
+            "stability.crack_water_fraction",
+            r.and_then(|s| s.crack_water_fraction),
+            0.0,
+            Low::Incl(0.0),
+            1.0,
+        ),
+        fill_ru: c.opt("stability.fill_ru", r.and_then(|s| s.fill_ru), 0.0, Low::Incl(0.0), 0.9),
     }
 }
 

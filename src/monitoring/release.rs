@@ -239,12 +239,12 @@ pub fn check(p: &Project, r: &Readings, lift_m: f64, on: Option<NaiveDate>) -> R
         runner.rest_until(&mut st, day, &mut |_| {});
     }
     let mut effort = Effort::default();
-    let fs_now = runner.stability(&cal.state, &mut effort)?.critical.fs;
+    let fs_now = runner.stability(&cal.state, &mut effort)?.governing_fs();
     let mut after = st.clone();
     let (a, b) = runner.place(&mut after, lift_m, &mut |_| {})?;
     let next = runner.stability(&after, &mut effort)?;
     let target = p.criteria.fs_construction;
-    let fs_next = next.critical.fs;
+    let fs_next = next.governing_fs();
 
     let instruments = statuses(p, r, &cal, &engine);
     let mut rules = trend_rules(p, r, &instruments);
@@ -293,7 +293,7 @@ pub fn check(p: &Project, r: &Readings, lift_m: f64, on: Option<NaiveDate>) -> R
         }
     };
     let mut warnings = r.warnings.clone();
-    if let Some(message) = engine.convergence_warning() {
+    for message in engine.convergence_warning().into_iter().chain(runner.stability_warnings()) {
         warnings.push(Warning { line: None, instrument: String::new(), message });
     }
     if !cal.fit.within_range {
@@ -325,7 +325,7 @@ pub fn check(p: &Project, r: &Readings, lift_m: f64, on: Option<NaiveDate>) -> R
         fs_now,
         fs_next,
         fs_target: target,
-        mechanism: next.critical.band.clone(),
+        mechanism: next.governing_mechanism(),
         rules,
         decision,
         earliest_release,

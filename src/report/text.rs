@@ -6,7 +6,7 @@ use super::{PlanReport, ReleaseReport};
 use crate::ground::Summary;
 use crate::model::Project;
 use crate::schedule::assess::Assessment;
-use crate::stability::CircleResult;
+use crate::stability::{CircleResult, Method};
 use crate::stability::search::SearchResult;
 
 /// A table of strings with a header row; numbers are right-aligned.
@@ -213,7 +213,7 @@ pub fn assess(p: &Project, a: &Assessment) -> String {
 
 fn circle_lines(c: &CircleResult) -> String {
     format!(
-        "  centre ({:.2}, {:.2}) m, radius {:.2} m; enters at x = {:.2} m, exits at x = {:.2} m; lowest point {} ({})\n  Bishop FS {:.3}; Ordinary FS {:.3}; driving moment {:.0} kN·m/m, resisting {:.0} kN·m/m\n",
+        "  centre ({:.2}, {:.2}) m, radius {:.2} m; enters at x = {:.2} m, exits at x = {:.2} m; lowest point {} ({})\n  FS {:.3} by {}; Ordinary FS {:.3}; driving moment {:.0} kN·m/m, resisting {:.0} kN·m/m\n  {}\n",
         c.circle.xc_m,
         c.circle.yc_m,
         c.circle.r_m,
@@ -226,9 +226,19 @@ fn circle_lines(c: &CircleResult) -> String {
         },
         c.band,
         c.fs,
+        match c.method {
+            Method::Bishop => "Bishop's simplified method",
+            Method::OrdinarySmallMAlpha => "the Ordinary method (Bishop's m_α < 0.2 on a frictional slice)",
+            Method::OrdinaryNoConvergence => "the Ordinary method (Bishop's iteration did not converge)",
+        },
         c.fs_ordinary,
         c.driving_knm_per_m,
-        c.resisting_knm_per_m
+        c.resisting_knm_per_m,
+        if c.crack_depth_m > 0.0 {
+            format!("with a tension crack {:.2} m deep in the fill (lower than without)", c.crack_depth_m)
+        } else {
+            "no tension crack (none possible, or the uncracked circle is lower)".to_string()
+        }
     )
 }
 
@@ -238,8 +248,15 @@ pub fn stability_search(p: &Project, height: f64, when: &str, placed: f64, s: &S
     out.push_str(&format!(
         "Crest {height:.2} m above original ground (fill placed {placed:.2} m), ground state {when}.\n"
     ));
-    out.push_str(&format!("Critical circle: FS = {:.3} (target {:.2})\n", s.critical.fs, p.criteria.fs_construction));
+    out.push_str(&format!(
+        "Governing FS = {:.3} (target {:.2}): {}\n",
+        s.governing_fs(),
+        p.criteria.fs_construction,
+        s.governing_mechanism()
+    ));
+    out.push_str(&format!("Critical circle: FS = {:.3}\n", s.critical.fs));
     out.push_str(&circle_lines(&s.critical));
+    out.push_str(&face_line(s));
     out.push_str("\nBest circle by depth band (circles tangent within the band)\n");
     let mut t = Table::new(&["band", "FS", "lowest point in", "depth m", "xc m", "yc m", "R m"]);
     for band in &s.bands {
@@ -256,11 +273,26 @@ pub fn stability_search(p: &Project, height: f64, when: &str, placed: f64, s: &S
     }
     out.push_str(&t.render());
     out.push_str(&format!(
-        "\n{} circles analysed, {} set aside (m_α < 0.2 or no convergence).\n",
+        "\n{} circles analysed, {} set aside (their mass would move away from the toe).\n",
         s.circles_tried, s.circles_rejected
     ));
+    for w in s.diagnostics.warnings() {
+        out.push_str(&format!("warning: {w}\n"));
+    }
     out.push_str(&cautions_block());
     out
+}
+
+/// The fill-face line of a search: its infinite-slope FS, or why there is
+/// none.
+fn face_line(s: &SearchResult) -> String {
+    match &s.face {
+        Some(f) => format!(
+            "Fill face as an infinite slope (β = {:.1}°, ru = {:.2}, plane {:.2} m deep): FS = {:.3}\n",
+            f.slope_deg, f.ru, f.depth_m, f.fs
+        ),
+        None => "Fill face: not checked (no fill, or a fill with no strength, taken as a load)\n".into(),
+    }
 }
 
 /// `fillpace stability --circle`.
@@ -478,6 +510,11 @@ pub fn comparison(r: &super::CompareReport) -> String {
             v.reason.as_deref().unwrap_or("")
         ));
     }
+    for v in &c.variants {
+        for w in &v.warnings {
+            out.push_str(&format!("warning: variant {}: {w}\n", v.number));
+        }
+    }
     out.push_str(&cautions_block());
     out
 }
@@ -530,6 +567,9 @@ pub fn risk(r: &super::RiskReport) -> String {
             ]);
         }
         out.push_str(&t.render());
+    }
+    for w in &k.warnings {
+        out.push_str(&format!("warning: {w}\n"));
     }
     out.push_str(&format!("\nNOTE: {}\n", wrap(super::RISK_CAUTION, 76, "  ")));
     out.push_str(&cautions_block());

@@ -108,7 +108,7 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
             let mut rec = recorder(r, &depths, &mut series, &mut effort);
             r.place(&mut st, lift.thickness_m, &mut rec)?
         };
-        let fs = r.stability(&st, &mut effort)?.critical.fs;
+        let fs = r.stability(&st, &mut effort)?.governing_fs();
         if let Some(last) = series.last_mut() {
             last.fs = Some(fs);
         }
@@ -146,6 +146,7 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
         r.rest_until(&mut st, end, &mut rec);
     }
     warnings.extend(r.engine.convergence_warning());
+    warnings.extend(r.stability_warnings());
     Ok(Assessment {
         mode: p.analysis.mode,
         fs_target: p.criteria.fs_construction,
@@ -175,7 +176,7 @@ fn recorder<'a>(
         let e = r.engine;
         let fs = if day as i64 >= next_fs && st.placed_m > 0.0 {
             next_fs = (day as i64 / FS_EVERY_DAYS + 1) * FS_EVERY_DAYS;
-            r.stability(st, effort).ok().map(|s| s.critical.fs)
+            r.stability(st, effort).ok().map(|s| s.governing_fs())
         } else {
             None
         };

@@ -11,8 +11,8 @@ pub mod record;
 
 use crate::error::{Error, Result};
 use crate::response::{Engine, State};
-use crate::stability::Section;
 use crate::stability::search::{BandResult, SearchResult, search, search_from};
+use crate::stability::{Diagnostics, Section};
 use calendar::Calendar;
 
 /// Drives an engine on a calendar.
@@ -29,6 +29,8 @@ pub struct Runner<'e, 'p> {
     /// of each band in seeded searches: trials at one height from one state
     /// differ little from each other.
     recent: std::cell::RefCell<Vec<(f64, Vec<BandResult>)>>,
+    /// Clamps and fallbacks of every slip-circle search run so far.
+    diagnostics: std::cell::RefCell<Diagnostics>,
     /// Whether plans record report detail (the figures' time series and
     /// profiles, the governing section, the FS at each release); off for
     /// Monte Carlo realisations, which need the timetable only.
@@ -98,6 +100,7 @@ impl<'e, 'p> Runner<'e, 'p> {
             rest_dt: p.analysis.rest_step_days,
             seeds: Vec::new(),
             recent: Default::default(),
+            diagnostics: Default::default(),
             detail: true,
         }
     }
@@ -188,8 +191,25 @@ impl<'e, 'p> Runner<'e, 'p> {
         })
     }
 
-    /// Critical slip circle of the section in its current state.
+    /// Critical slip circle of the section in its current state (compare
+    /// its `governing_fs()` with a target: it includes the fill face).
     pub fn stability(&self, st: &State, effort: &mut Effort) -> Result<SearchResult> {
+        let found = self.stability_uncounted(st, effort)?;
+        self.diagnostics.borrow_mut().merge(&found.diagnostics);
+        Ok(found)
+    }
+
+    /// Warnings for every clamp and fallback met by the searches so far.
+    pub fn stability_warnings(&self) -> Vec<String> {
+        self.diagnostics.borrow().warnings()
+    }
+
+    /// The clamps and fallbacks met by the searches so far.
+    pub fn stability_diagnostics(&self) -> Diagnostics {
+        *self.diagnostics.borrow()
+    }
+
+    fn stability_uncounted(&self, st: &State, effort: &mut Effort) -> Result<SearchResult> {
         effort.stability_searches += 1;
         let field = self.engine.field(st);
         let section = Section::new(self.engine.project, st.height_m, &field);
@@ -211,6 +231,8 @@ impl<'e, 'p> Runner<'e, 'p> {
     pub fn stability_from(&self, st: &State, seeds: &[BandResult], effort: &mut Effort) -> Result<SearchResult> {
         effort.stability_searches += 1;
         let field = self.engine.field(st);
-        search_from(&Section::new(self.engine.project, st.height_m, &field), seeds, &[])
+        let found = search_from(&Section::new(self.engine.project, st.height_m, &field), seeds, &[])?;
+        self.diagnostics.borrow_mut().merge(&found.diagnostics);
+        Ok(found)
     }
 }

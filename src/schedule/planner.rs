@@ -262,7 +262,7 @@ fn trial(r: &Runner, rest: &RestCache, start: i64, lift: f64, effort: &mut Effor
     }
     let mut s = rest.at(r, start);
     r.place(&mut s, lift, &mut |_| {})?;
-    let fs = r.stability(&s, effort)?.critical.fs;
+    let fs = r.stability(&s, effort)?.governing_fs();
     rest.remember(start, lift, fs);
     Ok(fs)
 }
@@ -414,7 +414,7 @@ const LONG_REST_DAYS: i64 = 448;
 fn never_safe(r: &Runner, st: &State, lift: f64, effort: &mut Effort) -> Result<()> {
     let mut s = r.engine.consolidated(st);
     r.place(&mut s, lift, &mut |_| {})?;
-    let fs = r.stability(&s, effort)?.critical.fs;
+    let fs = r.stability(&s, effort)?.governing_fs();
     let p = r.engine.project;
     if fs >= p.criteria.fs_construction {
         return Ok(());
@@ -448,7 +448,7 @@ fn unreachable_height(r: &Runner, st: &State, lift: f64, rested: i64) -> Error {
 fn close_rest(r: &Runner, prev: &mut Stage, s: &State, start: i64, effort: &mut Effort) -> Result<()> {
     prev.rest_days = start - r.calendar.day_of(prev.end) - 1;
     prev.release = Some(r.calendar.date(start));
-    prev.fs_release = if r.detail { Some(r.stability(s, effort)?.critical.fs) } else { None };
+    prev.fs_release = if r.detail { Some(r.stability(s, effort)?.governing_fs()) } else { None };
     prev.degree_centre = r.engine.degree_centre(s);
     prev.settlement_centre_m = s.settlement_centre_m;
     Ok(())
@@ -540,8 +540,8 @@ fn stage(
         thickness_m: change,
         height_after_m: st.height_m,
         placed_after_m: st.placed_m,
-        fs_end: c.fs,
-        mechanism: c.band.clone(),
+        fs_end: crit.governing_fs(),
+        mechanism: crit.governing_mechanism(),
         circle_depth_m: c.depth_m,
         su_governing_kpa: su,
         rest_days: 0,
@@ -571,12 +571,18 @@ fn totals(
         .map(|s| (s.fs_end, s.number))
         .min_by(|a, b| a.0.total_cmp(&b.0))
         .unwrap_or((f64::INFINITY, 0));
-    let fs_finish = r.stability(st, &mut effort)?.critical.fs;
+    let at_finish = r.stability(st, &mut effort)?;
+    let fs_finish = at_finish.governing_fs();
     effort.consolidation_steps = r.engine.steps_taken();
     warnings.extend(r.engine.convergence_warning());
+    warnings.extend(r.stability_warnings());
     if fs_finish < p.criteria.fs_service {
         warnings
-            .push(format!("FS at the finish {fs_finish:.3} is below the service target {:.2}", p.criteria.fs_service));
+            .push(format!(
+                "FS at the finish {fs_finish:.3} ({}) is below the service target {:.2}",
+                at_finish.governing_mechanism(),
+                p.criteria.fs_service
+            ));
     }
     let s_fin = st.settlement_centre_m;
     let area = |t: f64| crate::load::area(&crate::load::profile(e, t));

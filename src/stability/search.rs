@@ -3,9 +3,14 @@
 //! circles), then a pattern search that halves its step from the
 //! best circle of each depth band (fill only, then each ground layer) until
 //! the step is below 2 cm. The band minima let an engineer see the mechanism.
+//! Every search also checks the fill face as an infinite slope (`face`);
+//! `SearchResult::governing_fs` is the lower of the two, the one value every
+//! FS-target check uses. Grid columns and bands run on rayon's pool.
 
-use super::{Circle, CircleResult, Reject, Section};
+use super::face::{self, FaceCheck};
+use super::{Circle, CircleResult, Diagnostics, Section};
 use crate::error::{Error, Result};
+use rayon::prelude::*;
 use serde::Serialize;
 
 const NX: usize = 12;
@@ -28,9 +33,62 @@ pub struct SearchResult {
     pub bands: Vec<BandResult>,
     /// Circles analysed (grid and refinement).
     pub circles_tried: usize,
-    /// Circles set aside (m_α too small, no convergence, no driving moment).
+    /// Circles set aside because their mass would move away from the toe.
     pub circles_rejected: usize,
+    /// The fill face as an infinite slope (None: no fill, or a fill with no
+    /// strength, which is a load).
+    pub face: Option<FaceCheck>,
+    /// Clamps and fallbacks met on the way.
+    pub diagnostics: Diagnostics,
+    /// The FS to compare with a target: the lower of the critical circle's
+    /// and the fill face's (`governing_fs()`).
+    pub fs_governing: f64,
+    /// The mechanism of `fs_governing`: `FACE_MECHANISM` or the critical
+    /// circle's band.
+    pub mechanism: String,
 }
+
+impl SearchResult {
+    fn new(critical: CircleResult, bands: Vec<BandResult>, s: &Section, mut diagnostics: Diagnostics) -> Self {
+        diagnostics.record_critical(&critical);
+        let face = face::check(s);
+        let (fs_governing, mechanism) = match face {
+            Some(f) if f.fs < critical.fs => (f.fs, FACE_MECHANISM.to_string()),
+            _ => (critical.fs, critical.band.clone()),
+        };
+        SearchResult {
+            circles_tried: diagnostics.circles,
+            circles_rejected: diagnostics.no_driving_moment,
+            critical,
+            bands,
+            face,
+            diagnostics,
+            fs_governing,
+            mechanism,
+        }
+    }
+
+    /// Whether the fill face (infinite slope) has a lower FS than the
+    /// critical circle.
+    pub fn face_governs(&self) -> bool {
+        self.face.is_some_and(|f| f.fs < self.critical.fs)
+    }
+
+    /// The FS to compare with a target: the lower of the critical circle's
+    /// and the fill face's.
+    pub fn governing_fs(&self) -> f64 {
+        self.fs_governing
+    }
+
+    /// The governing mechanism: "fill face (infinite slope)" or the band of
+    /// the critical circle.
+    pub fn governing_mechanism(&self) -> String {
+        self.mechanism.clone()
+    }
+}
+
+/// Name of the infinite-slope mechanism of the fill face in reports.
+pub const FACE_MECHANISM: &str = "fill face (infinite slope)";
 
 /// The best circle of one depth band.
 #[derive(Debug, Clone, Serialize)]
@@ -48,31 +106,27 @@ struct Band {
     hi: f64,
 }
 
+#[derive(Default)]
 struct Counter {
-    tried: usize,
-    rejected: usize,
+    d: Diagnostics,
 }
 
 impl Counter {
+    /// Analyse a trial circle, counting its clamps and fallbacks; None
+    /// where it cannot be analysed.
     fn eval(&mut self, s: &Section, c: Circle) -> Option<CircleResult> {
-        self.tried += 1;
-        match s.analyse_unnamed(c) {
-            Ok(r) if r.fs.is_finite() && r.fs > 0.0 => Some(r),
-            Ok(_) | Err(Reject::SmallMAlpha | Reject::NoConvergence | Reject::NoDrivingMoment) => {
-                self.rejected += 1;
-                None
-            }
-            Err(_) => None,
-        }
+        let r = s.analyse_unnamed(c);
+        self.d.record(&r);
+        r.ok().filter(|r| r.fs.is_finite() && r.fs > 0.0)
     }
 }
 
 /// A grid circle: (result, tangent elevation, grid index, tangent index).
 type Candidate = (CircleResult, f64, usize, usize);
 
-/// Full search on a section. The grid is split across the machine's cores;
-/// ties are broken by grid index, so the answer does not depend on the
-/// number of threads.
+/// Full search on a section. The grid columns and then the bands are
+/// spread over rayon's pool; ties are broken by grid index, so the answer
+/// does not depend on the number of threads.
 pub fn search(s: &Section) -> Result<SearchResult> {
     let bands = bands(s);
     let h = s.crest_m().max(0.1);
@@ -86,21 +140,12 @@ pub fn search(s: &Section) -> Result<SearchResult> {
         y1: h + 1.5 * (h + depth),
         tangents: tangent_levels(s, h),
     };
-    let threads = std::thread::available_parallelism().map_or(1, |n| n.get()).clamp(1, NX);
-    let chunks: Vec<(Vec<Vec<Candidate>>, Counter)> = std::thread::scope(|scope| {
-        let handles: Vec<_> = (0..threads)
-            .map(|t| {
-                let (grid, bands) = (&grid, &bands);
-                scope.spawn(move || grid.scan(s, bands, (t * NX / threads)..((t + 1) * NX / threads)))
-            })
-            .collect();
-        handles.into_iter().map(|h| h.join().expect("search thread panicked")).collect()
-    });
-    let mut count = Counter { tried: 0, rejected: 0 };
+    let columns: Vec<(Vec<Vec<Candidate>>, Counter)> =
+        (0..NX).into_par_iter().map(|i| grid.scan(s, &bands, i..i + 1)).collect();
+    let mut count = Counter::default();
     let mut best: Vec<Vec<Candidate>> = vec![Vec::new(); bands.len()];
-    for (found, c) in chunks {
-        count.tried += c.tried;
-        count.rejected += c.rejected;
+    for (found, c) in columns {
+        count.d.merge(&c.d);
         for (k, cands) in found.into_iter().enumerate() {
             for cand in cands {
                 keep(&mut best[k], cand);
@@ -108,28 +153,21 @@ pub fn search(s: &Section) -> Result<SearchResult> {
         }
     }
     let step0 = ((grid.x1 - grid.x0) / (NX - 1) as f64).max((grid.y1 - grid.y0) / (NY - 1) as f64);
-    // Bands are refined independently, in parallel.
-    let refined_counted: Vec<(Option<BandResult>, Counter)> = std::thread::scope(|scope| {
-        let handles: Vec<_> = best
-            .into_iter()
-            .zip(&bands)
-            .map(|(b, band)| {
-                scope.spawn(move || {
-                    let mut c = Counter { tried: 0, rejected: 0 };
-                    let r = refine(s, &mut c, b, band, step0).map(|mut circle| {
-                        s.name_band(&mut circle);
-                        BandResult { band: band.name.clone(), circle }
-                    });
-                    (r, c)
-                })
-            })
-            .collect();
-        handles.into_iter().map(|h| h.join().expect("refinement thread panicked")).collect()
-    });
+    let refined_counted: Vec<(Option<BandResult>, Counter)> = best
+        .into_par_iter()
+        .zip(bands.par_iter())
+        .map(|(b, band)| {
+            let mut c = Counter::default();
+            let r = refine(s, &mut c, b, band, step0).map(|mut circle| {
+                s.name_band(&mut circle);
+                BandResult { band: band.name.clone(), circle }
+            });
+            (r, c)
+        })
+        .collect();
     let mut refined = Vec::new();
     for (r, c) in refined_counted {
-        count.tried += c.tried;
-        count.rejected += c.rejected;
+        count.d.merge(&c.d);
         refined.extend(r);
     }
     let critical = refined
@@ -138,7 +176,7 @@ pub fn search(s: &Section) -> Result<SearchResult> {
         .min_by(|a, b| a.fs.total_cmp(&b.fs))
         .cloned()
         .ok_or_else(|| Error::Computation("no trial slip circle could be analysed on this section".into()))?;
-    Ok(SearchResult { critical, bands: refined, circles_tried: count.tried, circles_rejected: count.rejected })
+    Ok(SearchResult::new(critical, refined, s, count.d))
 }
 
 /// Search started from the band circles of an earlier search (`seeds`, for
@@ -154,7 +192,7 @@ pub fn search(s: &Section) -> Result<SearchResult> {
 pub fn search_from(s: &Section, seeds: &[BandResult], alternates: &[BandResult]) -> Result<SearchResult> {
     let bands = bands(s);
     let all = directions().collect::<Vec<_>>();
-    let mut count = Counter { tried: 0, rejected: 0 };
+    let mut count = Counter::default();
     let axes = axis_directions();
     let mut walked: Vec<(&Band, (CircleResult, f64))> = Vec::new();
     for seed in seeds {
@@ -185,7 +223,7 @@ pub fn search_from(s: &Section, seeds: &[BandResult], alternates: &[BandResult])
     let Some(critical) = refined.iter().map(|b| &b.circle).min_by(|a, b| a.fs.total_cmp(&b.fs)).cloned() else {
         return search(s);
     };
-    Ok(SearchResult { critical, bands: refined, circles_tried: count.tried, circles_rejected: count.rejected })
+    Ok(SearchResult::new(critical, refined, s, count.d))
 }
 
 fn better(a: &Candidate, b: &Candidate) -> bool {
@@ -221,7 +259,7 @@ struct Grid {
 impl Grid {
     /// Scan the grid columns `cols`; best candidate per band.
     fn scan(&self, s: &Section, bands: &[Band], cols: std::ops::Range<usize>) -> (Vec<Vec<Candidate>>, Counter) {
-        let mut count = Counter { tried: 0, rejected: 0 };
+        let mut count = Counter::default();
         let mut best: Vec<Vec<Candidate>> = vec![Vec::new(); bands.len()];
         for i in cols {
             let xc = self.x0 + (self.x1 - self.x0) * i as f64 / (NX - 1) as f64;
@@ -242,12 +280,12 @@ impl Grid {
     }
 }
 
-/// Bands: the fill (when there is some, and it has any strength: a fill
-/// given no strength at all is a surcharge on the ground, not a slope) and
-/// each ground layer.
+/// Bands: the fill (when there is some and it is part of the slope; a fill
+/// with no strength is a load, and every circle tangent in it would miss
+/// the ground) and each ground layer.
 fn bands(s: &Section) -> Vec<Band> {
     let mut out = Vec::new();
-    if s.crest_m() > 0.2 && (s.fill_c > 0.0 || s.fill_tan_phi > 0.0) {
+    if s.crest_m() > 0.2 && !s.fill_is_load() {
         out.push(Band { name: "fill".into(), lo: 0.0, hi: s.crest_m() });
     }
     let x = s.toe_m();
@@ -265,12 +303,12 @@ fn band_of(bands: &[Band], yt: f64) -> Option<usize> {
     bands.iter().position(|b| yt >= b.lo - 1e-9 && yt <= b.hi + 1e-9)
 }
 
-/// Tangent elevations: two within the fill, then through the ground at
+/// Tangent elevations: two within the fill (none where it is a load), then through the ground at
 /// least two per layer (mid-layer and its base, so every band is tried) and
 /// the rest spread evenly in depth, NT in all or more.
 fn tangent_levels(s: &Section, h: f64) -> Vec<f64> {
     let depth = -s.base_y;
-    let mut t = vec![0.6 * h, 0.25 * h];
+    let mut t = if s.fill_is_load() { Vec::new() } else { vec![0.6 * h, 0.25 * h] };
     let x = s.toe_m();
     for l in &s.layers {
         let (top, bottom) = (s.elevation_of_depth(x, l.top_z), s.elevation_of_depth(x, l.bottom_z));

@@ -27,6 +27,8 @@ pub(super) struct SectionLayer {
     pub gamma: f64,
     pub gamma_sat: f64,
     pub material: Material,
+    /// Pore pressure in a drained layer.
+    pub pore: PoreWater,
 }
 
 /// The section at one moment: fill profile, settled ground, strength field.
@@ -36,14 +38,20 @@ pub struct Section<'a> {
     pub profile: Vec<(f64, f64)>,
     /// Full settled top surface, left to right.
     pub(super) surface: Vec<(f64, f64)>,
+    /// Settled original ground surface, left to right.
+    pub(super) ground_line: Vec<(f64, f64)>,
     side_slope: f64,
     pub(super) fill_gamma: f64,
+    /// Fill c' and tan φ' after `fill_strength_factor`.
     pub(super) fill_c: f64,
     pub(super) fill_tan_phi: f64,
-    /// Full-depth dry tension crack in the fill on the active side.
-    pub(super) crack: bool,
-    /// Rankine active coefficient of the fill, tan²(45° − φ'/2).
-    pub(super) fill_ka: f64,
+    /// Pore-pressure ratio in the fill (0: hydrostatic below the water table).
+    pub(super) fill_ru: f64,
+    /// Rankine tension-crack depth of the fill, 2c'/(γ√Ka) with the reduced
+    /// c' and φ' (Ka = tan²(45° − φ'/2)), m; 0 with the crack off.
+    pub(super) crack_depth_m: f64,
+    /// Share of the crack depth filled with water.
+    pub(super) crack_water_fraction: f64,
     pub(super) layers: Vec<SectionLayer>,
     /// Lowest elevation a circle may reach (top of the stiff base), m.
     pub base_y: f64,
@@ -77,18 +85,27 @@ impl<'a> Section<'a> {
                 gamma: l.unit_weight_kn_m3,
                 gamma_sat: l.saturated_unit_weight_kn_m3,
                 material,
+                pore: l.pore,
             });
             top += l.thickness_m;
         }
+        let fill_c = o.fill_strength_factor * e.fill_cohesion_kpa;
+        let fill_tan_phi = o.fill_strength_factor * e.fill_friction_deg.to_radians().tan();
         let mut s = Section {
             surface: Vec::new(),
+            ground_line: Vec::new(),
             profile,
             side_slope: e.side_slope_h_per_v,
             fill_gamma: e.fill_unit_weight_kn_m3,
-            fill_c: o.fill_strength_factor * e.fill_cohesion_kpa,
-            fill_tan_phi: o.fill_strength_factor * e.fill_friction_deg.to_radians().tan(),
-            crack: o.fill_tension_crack,
-            fill_ka: (std::f64::consts::FRAC_PI_4 - 0.5 * e.fill_friction_deg.to_radians()).tan().powi(2),
+            fill_c,
+            fill_tan_phi,
+            fill_ru: o.fill_ru,
+            crack_depth_m: if o.fill_tension_crack {
+                rankine_crack_depth(fill_c, fill_tan_phi, e.fill_unit_weight_kn_m3)
+            } else {
+                0.0
+            },
+            crack_water_fraction: o.crack_water_fraction,
             layers,
             base_y: -top,
             water_y: -project.ground.groundwater_depth_m,
@@ -97,12 +114,30 @@ impl<'a> Section<'a> {
             slices: o.slices,
         };
         s.surface = s.build_surface();
+        s.ground_line = s.build_ground_line();
         s
+    }
+
+    /// Whether the fill has no strength at all: it is then a load on the
+    /// ground (Fellenius 1927's strip load), and every slip surface enters
+    /// and leaves through the settled ground.
+    pub fn fill_is_load(&self) -> bool {
+        self.fill_c <= 0.0 && self.fill_tan_phi <= 0.0
+    }
+
+    /// Depth of the fill's tension crack, m (0 where it cannot crack).
+    pub fn crack_depth_m(&self) -> f64 {
+        self.crack_depth_m
     }
 
     /// Crest height, m.
     pub fn crest_m(&self) -> f64 {
         self.profile[0].1
+    }
+
+    /// Side slope of the fill, horizontal per vertical.
+    pub fn side_slope_h_per_v(&self) -> f64 {
+        self.side_slope
     }
 
     /// Toe offset of the design profile on OGL, m.
@@ -158,6 +193,16 @@ impl<'a> Section<'a> {
         pts
     }
 
+    /// Settled original ground as a polyline: every column offset on both
+    /// sides and far points.
+    fn build_ground_line(&self) -> Vec<(f64, f64)> {
+        let far = 1.0e5;
+        let mut xs: Vec<f64> = self.field.xs.iter().flat_map(|x| [*x, -*x]).chain([-far, far]).collect();
+        xs.sort_by(f64::total_cmp);
+        xs.dedup_by(|a, b| (*a - *b).abs() < 1e-9);
+        xs.into_iter().map(|x| (x, self.ground_y(x))).collect()
+    }
+
     /// Original depth below OGL of the soil point now at elevation y where
     /// the surface settlement is s, m.
     pub(super) fn original_depth(&self, s: f64, y: f64) -> f64 {
@@ -210,23 +255,28 @@ impl<'a> Section<'a> {
         w
     }
 
-    /// (c kPa, tan φ, u kPa) at a slice base at (x, y), settlement s there.
-    pub(super) fn strength_at(&self, x: f64, s: f64, y: f64) -> (f64, f64, f64) {
-        let u_hydro = GAMMA_W * (self.water_y - y).max(0.0);
+    /// (c kPa, tan φ, u kPa) at a slice base at (x, y), settlement s there,
+    /// under a total vertical stress `sigma_v` kPa (for ru): the fill's or
+    /// a sand layer's drained strength and pore pressure, or the clay's su
+    /// on its own side of a layer boundary (undrained, u not used).
+    pub(super) fn strength_at(&self, x: f64, s: f64, y: f64, sigma_v: f64) -> (f64, f64, f64) {
+        let hydrostatic = |level: f64| GAMMA_W * (level - y).max(0.0);
         if y >= -s - 1e-9 {
-            return (self.fill_c, self.fill_tan_phi, u_hydro);
+            let u = if self.fill_ru > 0.0 { self.fill_ru * sigma_v } else { hydrostatic(self.water_y) };
+            return (self.fill_c, self.fill_tan_phi, u);
         }
         let z = self.original_depth(s, y);
-        match self.layer_at(z).map(|l| l.material) {
-            Some(Material::Sand { c, tan_phi }) => (c, tan_phi, u_hydro),
+        match self.layer_at(z) {
+            Some(SectionLayer { material: Material::Sand { c, tan_phi }, pore, .. }) => {
+                let u = match *pore {
+                    PoreWater::Hydrostatic => hydrostatic(self.water_y),
+                    PoreWater::Level { elevation_m } => hydrostatic(elevation_m),
+                    PoreWater::Ratio { ru } => ru * sigma_v,
+                };
+                (*c, *tan_phi, u)
+            }
             _ => (self.field.sample(x, z), 0.0, 0.0),
         }
-    }
-
-    /// Elevations (at offset x) of the layer boundaries and the water table.
-    pub(super) fn horizontal_breaks(&self, x: f64) -> impl Iterator<Item = f64> + '_ {
-        let s = self.field.settlement(x);
-        self.layers.iter().map(move |l| self.elevation_with(s, l.top_z)).chain(std::iter::once(self.water_y))
     }
 
     /// Moment of the basal reinforcement about the centre of circle: its
@@ -256,4 +306,10 @@ impl<'a> Section<'a> {
         }
         best
     }
+}
+
+/// Rankine tension-crack depth 2c'/(γ√Ka), Ka = tan²(45° − φ'/2), m.
+pub fn rankine_crack_depth(c: f64, tan_phi: f64, gamma: f64) -> f64 {
+    let ka = (std::f64::consts::FRAC_PI_4 - 0.5 * tan_phi.atan()).tan().powi(2);
+    2.0 * c / (gamma * ka.sqrt())
 }

@@ -375,7 +375,7 @@ pub fn inputs(c: &mut Canvas, ctx: &Ctx) {
             }
         ),
         format!(
-            "Analysis: {} consolidation, pore pressure {}, node spacing ≤ {} m, steps {} / {} days; stability: {} slices, fill strength factor {}, tension crack {}.",
+            "Analysis: {} consolidation, pore pressure {}, node spacing ≤ {} m, steps {} / {} days; stability: {} slices, fill strength factor {}, tension crack {}, fill ru {}; FS is the lower of the critical circle and the fill face as an infinite slope.",
             p.analysis.mode.describe(),
             match p.analysis.pore_pressure {
                 crate::model::PorePressureRule::Vertical => "Δu = Δσz".to_string(),
@@ -386,7 +386,15 @@ pub fn inputs(c: &mut Canvas, ctx: &Ctx) {
             p.analysis.rest_step_days,
             p.stability.slices,
             p.stability.fill_strength_factor,
-            if p.stability.fill_tension_crack { "through the full fill" } else { "none" }
+            if p.stability.fill_tension_crack {
+                format!(
+                    "tried on every circle (2c'/(γ√Ka), lower FS kept, {:.0}% water-filled)",
+                    100.0 * p.stability.crack_water_fraction
+                )
+            } else {
+                "none".to_string()
+            },
+            p.stability.fill_ru
         ),
     ];
     for l in lines {

@@ -1,0 +1,186 @@
+//! Independent slice-by-slice calculations written here (not by the
+//! engine): a strength step at a layer boundary (issue 14 item 7) and pore
+//! pressure by ru (item 8), plus the pore-pressure descriptions by hand.
+
+use super::*;
+use crate::response::Engine;
+
+/// Strip of fill with no strength, 4 m wide and 2 m high (q = 40 kPa), on
+/// a 1.5 m crust over 10 m of soft clay, `slices` slices per circle.
+fn crust_project(slices: usize) -> Project {
+    let mut p = fixtures::uniform_clay(11.5, 1.0, "drained", "");
+    let mut crust = p.ground.layers[0].clone();
+    crust.name = "crust".into();
+    crust.thickness_m = 1.5;
+    p.ground.layers[0].thickness_m = 10.0;
+    p.ground.layers.insert(0, crust);
+    let e = &mut p.embankment;
+    e.crest_width_m = 4.0;
+    e.side_slope_h_per_v = 0.001;
+    e.design_height_m = 2.0;
+    e.fill_unit_weight_kn_m3 = 20.0;
+    p.stability.fill_strength_factor = 0.0;
+    p.stability.slices = slices;
+    p
+}
+
+/// A field with 12.6 kPa in the crust and 8.4 kPa below 1.5 m, the step
+/// carried by a node given twice (as `Engine::field` does), or smeared
+/// over the last interval when `smeared`.
+fn step_field(smeared: bool) -> GroundField {
+    let (zs, su) = if smeared {
+        (vec![0.0, 1.3125, 1.5, 11.5], vec![12.6, 12.6, 8.4, 8.4])
+    } else {
+        (vec![0.0, 1.5, 1.5, 11.5], vec![12.6, 12.6, 8.4, 8.4])
+    };
+    GroundField { xs: vec![0.0, 1.0e4], zs, su: vec![su.clone(), su], settlement_m: vec![0.0, 0.0] }
+}
+
+#[test]
+fn strength_step_at_a_layer_boundary_matches_an_exact_calculation() {
+    // Regression, issue 14 item 7: su was interpolated between nodes, so
+    // the crust's bottom interval took the soft value. Independent exact
+    // calculation (φ = 0, moments about the centre): circle centred over
+    // the strip's edge at (2, 1) and tangent at 1.55 m depth (R = 2.55)
+    // meets the ground at half-angle θ0 = acos(1/R) and the boundary at
+    // θ1 = acos(2.5/R); M_R = R²[12.6·2(θ0 − θ1) + 8.4·2θ1]. Level ground
+    // of one unit weight is symmetric about the centre (no net moment);
+    // the strip q = 40 kPa from the entry x_e = 2 − R sin θ0 to x = 2, and
+    // its 2 mm side taper, give M_D = q(2 − x_e)²/2 − q d²/6, d = 0.002 m.
+    let p = crust_project(400);
+    let field = step_field(false);
+    let s = Section::new(&p, 2.0, &field);
+    let c = Circle { xc_m: 2.0, yc_m: 1.0, r_m: 2.55 };
+    let r = s.analyse(c).unwrap();
+    let (t0, t1) = ((1.0f64 / 2.55).acos(), (2.5f64 / 2.55).acos());
+    let m_r = 2.55 * 2.55 * (12.6 * 2.0 * (t0 - t1) + 8.4 * 2.0 * t1);
+    let (q, d, x_e) = (40.0, 0.002, 2.0 - 2.55 * t0.sin());
+    let m_d = q * (2.0 - x_e).powi(2) / 2.0 - q * d * d / 6.0;
+    let exact = m_r / m_d;
+    assert!((r.fs - exact).abs() < 0.002 * exact, "FS {} vs exact {exact}", r.fs);
+    // The smeared field (the defect) misses it by far more than that.
+    let smeared = Section::new(&p, 2.0, &step_field(true)).analyse(c).unwrap();
+    assert!((smeared.fs - exact).abs() > 0.01 * exact, "smeared {} vs {exact}", smeared.fs);
+}
+
+#[test]
+fn the_strength_field_keeps_each_layer_on_its_own_side() {
+    // Measured su0 floors of 12.6 kPa in the crust and 8.4 kPa in the soft
+    // clay (SHANSEP S = 0.06 stays far below them): just above 1.5 m the
+    // field must read the crust's 12.6 kPa, just below the soft 8.4 kPa
+    // (input values; before, 0.1 m above the boundary read 10.6 kPa).
+    let layer = |name: &str, h: f64, su: f64| {
+        format!(
+            "[[ground.layers]]\nname = \"{name}\"\nkind = \"clay\"\nthickness_m = {h}\nunit_weight_kn_m3 = 16.0\ne0 = 1.5\ncc = 0.6\ncr = 0.06\ncv_m2_per_year = 1.0\nshansep_s = 0.06\nsu0_top_kpa = {su}\n"
+        )
+    };
+    let text = format!(
+        "[ground]\ngroundwater_depth_m = 0.0\n{}{}",
+        layer("crust", 1.5, 12.6),
+        layer("soft", 10.0, 8.4)
+    );
+    let p = fixtures::project(&text);
+    let engine = Engine::new(&p);
+    let field = engine.field(&engine.initial_state());
+    for x in [0.0, 7.0, 30.0] {
+        assert!((field.sample(x, 1.4) - 12.6).abs() < 1e-9, "{}", field.sample(x, 1.4));
+        assert!((field.sample(x, 1.5 - 1e-6) - 12.6).abs() < 1e-9);
+        assert!((field.sample(x, 1.5 + 1e-6) - 8.4).abs() < 1e-9);
+        assert!((field.sample(x, 1.6) - 8.4).abs() < 1e-9);
+    }
+}
+
+/// A homogeneous c', φ' slope 5 m high at 2:1 on 10 m of the same soil
+/// (c' = 10 kPa, φ' = 30°, 18 kN/m³) with pore-pressure ratio ru in the
+/// fill and the ground.
+fn ru_slope(ru: f64) -> Project {
+    let mut p = taylor_project(10.0, 18.0, 5.0, 2.0);
+    p.ground.layers[0].thickness_m = 10.0;
+    p.ground.layers[0].kind = LayerKind::Sand { friction_deg: 30.0, cohesion_kpa: 10.0 };
+    p.ground.layers[0].pore = PoreWater::Ratio { ru };
+    p.embankment.fill_friction_deg = 30.0;
+    p.stability.fill_ru = ru;
+    p.stability.slices = 400;
+    p
+}
+
+/// Ordinary and Bishop FS of circle c on the `ru_slope` by the test's own
+/// 20,000 slices: surface 5 m up to x = 100, the 2:1 face to x = 110, then
+/// 0; u = ru·W/b; a negative effective normal force taken as zero.
+fn by_hand(c: Circle, ru: f64) -> (f64, f64) {
+    let top = |x: f64| if x <= 100.0 { 5.0 } else if x <= 110.0 { 5.0 - (x - 100.0) / 2.0 } else { 0.0 };
+    let arc = |x: f64| c.yc_m - (c.r_m * c.r_m - (x - c.xc_m).powi(2)).max(0.0).sqrt();
+    let cross = |mut inside: f64, mut outside: f64| {
+        for _ in 0..100 {
+            let m = 0.5 * (inside + outside);
+            if arc(m) < top(m) { inside = m } else { outside = m }
+        }
+        inside
+    };
+    let (x0, x1) = (cross(c.xc_m, c.xc_m - c.r_m), cross(c.xc_m, c.xc_m + c.r_m));
+    let (tan_phi, coh, n) = (30f64.to_radians().tan(), 10.0, 20_000);
+    let b = (x1 - x0) / n as f64;
+    let slices: Vec<(f64, f64, f64)> = (0..n)
+        .map(|k| {
+            let x = x0 + (k as f64 + 0.5) * b;
+            let w = 18.0 * b * (top(x) - arc(x)).max(0.0);
+            let sin_a = (c.xc_m - x) / c.r_m;
+            (w, sin_a, (1.0 - sin_a * sin_a).sqrt())
+        })
+        .collect();
+    let drive: f64 = slices.iter().map(|(w, s, _)| w * s).sum();
+    let ordinary: f64 = slices
+        .iter()
+        .map(|(w, _, cos)| coh * b / cos + (w * cos - ru * w / cos).max(0.0) * tan_phi)
+        .sum::<f64>()
+        / drive;
+    let mut fs = ordinary;
+    for _ in 0..200 {
+        fs = slices
+            .iter()
+            .map(|(w, sin, cos)| (coh * b + (w - ru * w).max(0.0) * tan_phi) / (cos + sin * tan_phi / fs))
+            .sum::<f64>()
+            / drive;
+    }
+    (ordinary, fs)
+}
+
+#[test]
+fn pore_pressure_ratio_matches_a_slice_by_slice_hand_calculation() {
+    // Issue 14 item 8: ru in the fill and in a drained layer, u = ru·σv
+    // (Bishop & Morgenstern 1960's definition), checked on one circle
+    // against the Ordinary and Bishop sums computed here independently
+    // (within 0.5%), and ru = 0.25 must lower both.
+    let c = Circle { xc_m: 104.0, yc_m: 12.0, r_m: 15.0 };
+    let field = uniform_su(1.0);
+    let dry = Section::new(&ru_slope(0.0), 5.0, &field).analyse(c).unwrap();
+    let wet = Section::new(&ru_slope(0.25), 5.0, &field).analyse(c).unwrap();
+    for (r, ru) in [(&dry, 0.0), (&wet, 0.25)] {
+        let (ordinary, bishop) = by_hand(c, ru);
+        assert!((r.fs_ordinary - ordinary).abs() < 0.005 * ordinary, "ru {ru}: {} vs {ordinary}", r.fs_ordinary);
+        assert_eq!(r.method, Method::Bishop);
+        assert!((r.fs - bishop).abs() < 0.005 * bishop, "ru {ru}: {} vs {bishop}", r.fs);
+    }
+    assert!(wet.fs < dry.fs && wet.fs_ordinary < dry.fs_ordinary);
+}
+
+#[test]
+fn pore_pressure_descriptions_by_hand() {
+    // Hand arithmetic, γw = 9.81: at 3 m below OGL a water table 0 m down
+    // gives 29.43 kPa; a piezometric level 2 m above ground (artesian)
+    // 49.05 kPa; ru = 0.3 under σv = 100 kPa gives 30 kPa; the fill with
+    // ru = 0.2 under σv = 50 kPa gives 10 kPa.
+    let field = uniform_su(1.0);
+    let mut p = ru_slope(0.3);
+    let s = Section::new(&p, 5.0, &field);
+    assert!((s.strength_at(0.0, 0.0, -3.0, 100.0).2 - 30.0).abs() < 1e-9);
+    p.ground.layers[0].pore = PoreWater::Level { elevation_m: 2.0 };
+    p.stability.fill_ru = 0.2;
+    let s = Section::new(&p, 5.0, &field);
+    assert!((s.strength_at(0.0, 0.0, -3.0, 0.0).2 - 49.05).abs() < 1e-9);
+    assert!((s.strength_at(0.0, 0.0, 1.0, 50.0).2 - 10.0).abs() < 1e-9);
+    p.ground.layers[0].pore = PoreWater::Hydrostatic;
+    p.ground.groundwater_depth_m = 0.0;
+    let s = Section::new(&p, 5.0, &field);
+    assert!((s.strength_at(0.0, 0.0, -3.0, 0.0).2 - 29.43).abs() < 1e-9);
+}
