@@ -260,7 +260,7 @@ fn compare(path: &Path, vary: &[String], csv: Option<&Path>, pdf: Option<&Path>,
     let c = with_counter(total, "planning variants", |tick| crate::compare::compare(&doc, &axes, tick))?;
     let rep = report::CompareReport { project: &p, comparison: &c, source: doc.file.clone() };
     if let Some(out) = csv {
-        output::write_atomic(out, report::csv::comparison(&c).as_bytes())?;
+        output::write_atomic(out, report::csv::comparison(&c, p.embankment.stage_shape).as_bytes())?;
     }
     if let Some(out) = pdf {
         output::write_atomic(out, &report::pdf::comparison(&rep, report::today())?)?;

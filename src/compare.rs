@@ -68,6 +68,7 @@ pub struct Outcome {
     pub finish: NaiveDate,
     pub duration_days: i64,
     pub min_fs: f64,
+    /// The plan's final primary settlement under the final profile, m.
     pub final_settlement_m: f64,
     pub residual_settlement_m: f64,
     /// Design fill, make-up for settlement and surcharge, m³ per m run.
@@ -179,7 +180,7 @@ fn outcome(p: &Project, plan: &Plan) -> Outcome {
         finish: plan.finish,
         duration_days: plan.duration_days,
         min_fs: plan.min_fs,
-        final_settlement_m: plan.final_settlement_m,
+        final_settlement_m: plan.final_primary_settlement_m,
         residual_settlement_m: plan.residual_settlement_m,
         fill_volume_m3_per_m: plan.volume_design_m3_per_m
             + plan.volume_makeup_m3_per_m

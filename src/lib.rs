@@ -24,6 +24,7 @@ pub mod report;
 pub mod response;
 pub mod risk;
 pub mod schedule;
+pub mod settlement;
 pub mod stability;
 
 #[cfg(test)]

@@ -5,7 +5,7 @@
 //! 1974, from Flamant's line load integrated over the strip), summed over
 //! the profile's linear pieces.
 
-use crate::model::Embankment;
+use crate::model::{Embankment, StageShape};
 use serde::Serialize;
 use std::f64::consts::PI;
 
@@ -93,23 +93,23 @@ pub fn stress(profile: &[(f64, f64)], unit_weight: f64, x: f64, z: f64) -> Stres
 }
 
 /// Right-half surface profile of fill of thickness `t_m` placed on OGL:
-/// vertices (x, height) from the centreline to the outer toe. Berms are laid
-/// out on the final design section (each starts where the slope above it
-/// meets its height) and are raised with the fill: at thickness t a berm is
-/// a platform of height min(t, its height) out to its outer edge, so the
-/// profile, the maximum of the main trapezoid and the berm platforms, grows
+/// vertices (x, height) from the centreline to the outer toe, shaped as
+/// `e.stage_shape` says. Berms are laid out on the final design section
+/// (each starts where the slope above it meets its height); each stands
+/// r = min(t − its `placed_from_height_m`, its height) high, and the profile
+/// is the maximum of the main body and the berm platforms, so it grows
 /// continuously with t.
+///
+/// With `ConstantCrest` the main body is a platform of height t out to the
+/// design crest edge and a berm a platform of height r out to its design
+/// outer edge, their slopes moving outwards as they rise. With
+/// `FullFootprint` every part is its final design shape (the main side
+/// slopes carried on upwards above design height) cut off by a horizontal
+/// plane: the main body at t, a berm at r, so the toes stay at the final
+/// toes and each layer is as wide as the final section at its level.
 pub fn profile(e: &Embankment, t_m: f64) -> Vec<(f64, f64)> {
     let n = e.side_slope_h_per_v;
-    let b = 0.5 * e.crest_width_m;
-    // Each shape: (platform height, outer edge of the platform).
-    let mut shapes = vec![(t_m, b)];
-    let (mut x, mut h) = (b, e.design_height_m);
-    for berm in &e.berms {
-        x += n * (h - berm.height_m).max(0.0) + berm.width_m;
-        h = berm.height_m;
-        shapes.push((berm.height_m.min(t_m), x));
-    }
+    let shapes = shapes(e, t_m);
     let height = |x: f64| shapes.iter().map(|&(hp, edge)| (hp - (x - edge).max(0.0) / n).max(0.0)).fold(0.0, f64::max);
     let toe = shapes.iter().map(|&(hp, edge)| edge + n * hp).fold(0.0, f64::max);
     // Vertices: every platform edge and foot, and every point where one
@@ -143,6 +143,40 @@ pub fn profile(e: &Embankment, t_m: f64) -> Vec<(f64, f64)> {
     out
 }
 
+/// The platforms whose maximum is the profile at thickness t: (platform
+/// height m, outer edge of the platform m), main body first; berms not yet
+/// started are left out (a platform of no height would put a fill surface
+/// of no thickness over the settlement trough).
+fn shapes(e: &Embankment, t_m: f64) -> Vec<(f64, f64)> {
+    let n = e.side_slope_h_per_v;
+    let b = 0.5 * e.crest_width_m;
+    let main = match e.stage_shape {
+        StageShape::ConstantCrest => (t_m, b),
+        StageShape::FullFootprint => {
+            // The final slope has height t at b + n (H − t); above the
+            // apex of the slopes carried upwards (H + b/n) nothing is left.
+            let apex = e.design_height_m + b / n;
+            (t_m.min(apex), (b + n * (e.design_height_m - t_m)).max(0.0))
+        }
+    };
+    let mut shapes = vec![main];
+    let (mut x, mut h) = (b, e.design_height_m);
+    for berm in &e.berms {
+        x += n * (h - berm.height_m).max(0.0) + berm.width_m;
+        h = berm.height_m;
+        let raised = (t_m - berm.placed_from_height_m).clamp(0.0, berm.height_m);
+        if raised > 0.0 {
+            // A full-footprint layer reaches the berm's final outer slope.
+            let edge = match e.stage_shape {
+                StageShape::ConstantCrest => x,
+                StageShape::FullFootprint => x + n * (berm.height_m - raised),
+            };
+            shapes.push((raised, edge));
+        }
+    }
+    shapes
+}
+
 /// Height of a profile at offset x (symmetric), m.
 pub fn height_at(profile: &[(f64, f64)], x: f64) -> f64 {
     let x = x.abs();
@@ -161,6 +195,49 @@ pub fn height_at(profile: &[(f64, f64)], x: f64) -> f64 {
 /// Cross-section area of a profile (both halves), m² per metre run.
 pub fn area(profile: &[(f64, f64)]) -> f64 {
     2.0 * profile.windows(2).map(|w| 0.5 * (w[0].1 + w[1].1) * (w[1].0 - w[0].0)).sum::<f64>()
+}
+
+/// Fill cross-section areas per metre run (both halves), m²: the stage
+/// profile above OGL split at the design height into design fill and
+/// surcharge, and the settlement make-up, the fill below OGL in the
+/// settlement trough (down to the settled ground under the profile, and
+/// under its side slopes carried on below OGL beyond the toe, as the
+/// stability section has it).
+#[derive(Debug, Clone, Copy, Default, PartialEq, Serialize)]
+pub struct FillAreas {
+    pub design_m2: f64,
+    pub makeup_m2: f64,
+    pub surcharge_m2: f64,
+}
+
+impl FillAreas {
+    /// All the fill, m² per metre run.
+    pub fn total_m2(&self) -> f64 {
+        self.design_m2 + self.makeup_m2 + self.surcharge_m2
+    }
+}
+
+/// Trapezoids over the settlement trough in `fill_areas`.
+const TROUGH_STEPS: usize = 800;
+
+/// Fill areas of the section with the crest at `height_m` above OGL where
+/// the ground surface has settled by `settlement(x)` m at offset x.
+pub fn fill_areas(e: &Embankment, height_m: f64, settlement: &dyn Fn(f64) -> f64) -> FillAreas {
+    if height_m <= 0.0 {
+        return FillAreas::default();
+    }
+    let prof = profile(e, height_m);
+    let design_m2 = area(&profile(e, height_m.min(e.design_height_m)));
+    let surcharge_m2 = (area(&prof) - design_m2).max(0.0);
+    let toe = prof.last().map_or(0.0, |p| p.0);
+    let n = e.side_slope_h_per_v;
+    let under = |x: f64| (settlement(x) - ((x - toe) / n).max(0.0)).max(0.0);
+    let deepest = (0..=TROUGH_STEPS).map(|k| settlement(toe * k as f64 / TROUGH_STEPS as f64)).fold(0.0, f64::max);
+    let end = toe + n * deepest;
+    let dx = end / TROUGH_STEPS as f64;
+    let inner: f64 = (1..TROUGH_STEPS).map(|k| under(k as f64 * dx)).sum();
+    let makeup_m2 = 2.0 * dx * (inner + 0.5 * (under(0.0) + under(end)));
+    FillAreas { design_m2, makeup_m2, surcharge_m2 }
 }
 
 #[cfg(test)]
@@ -228,8 +305,9 @@ mod tests {
             fill_cohesion_kpa: 0.0,
             fill_friction_deg: 30.0,
             surcharge_height_m: 0.0,
-            berms: vec![crate::model::Berm { width_m: 5.0, height_m: 2.0 }],
+            berms: vec![crate::model::Berm { width_m: 5.0, height_m: 2.0, placed_from_height_m: 0.0 }],
             reinforcement_kn_per_m: 0.0,
+            stage_shape: StageShape::ConstantCrest,
         };
         let p = profile(&e, 6.0);
         assert_eq!(p, vec![(0.0, 6.0), (10.0, 6.0), (18.0, 2.0), (23.0, 2.0), (27.0, 0.0)]);
@@ -243,5 +321,75 @@ mod tests {
         let a = area(&profile(&e, 2.0 - 1e-6));
         let b = area(&profile(&e, 2.0 + 1e-6));
         assert!((a - b).abs() < 1e-3, "{a} vs {b}");
+    }
+
+    fn demo_like(shape: StageShape, berm_from: f64) -> Embankment {
+        Embankment {
+            design_height_m: 6.0,
+            crest_width_m: 20.0,
+            side_slope_h_per_v: 2.0,
+            fill_unit_weight_kn_m3: 20.0,
+            fill_cohesion_kpa: 0.0,
+            fill_friction_deg: 30.0,
+            surcharge_height_m: 1.0,
+            berms: vec![crate::model::Berm { width_m: 5.0, height_m: 2.0, placed_from_height_m: berm_from }],
+            reinforcement_kn_per_m: 0.0,
+            stage_shape: shape,
+        }
+    }
+
+    #[test]
+    fn full_footprint_stages_are_horizontal_cuts_of_the_final_section() {
+        // Issue 14, found item 1: on site each lift is a horizontal layer
+        // over the final footprint, so the stage profile at thickness t is
+        // min(t, final section) (the definition, checked point by point),
+        // the toe stays at the final toe and the crest is wider.
+        let e = demo_like(StageShape::FullFootprint, 0.0);
+        let last = profile(&e, 6.0);
+        assert_eq!(last, vec![(0.0, 6.0), (10.0, 6.0), (18.0, 2.0), (23.0, 2.0), (27.0, 0.0)]);
+        for k in 1..24 {
+            let t = 0.25 * k as f64;
+            let p = profile(&e, t);
+            assert!((p.last().unwrap().0 - 27.0).abs() < 1e-9, "toe at t = {t}: {p:?}");
+            for j in 0..=300 {
+                let x = 0.1 * j as f64;
+                let want = t.min(height_at(&last, x));
+                assert!((height_at(&p, x) - want).abs() < 1e-9, "t {t} x {x}: {} vs {want}", height_at(&p, x));
+            }
+        }
+        // Hand values: at 4 m the crest platform reaches x = 14 m (design
+        // crest edge 10 m + 2 × (6 − 4)); area 2 × (56 + 12 + 10 + 4) m².
+        let p = profile(&e, 4.0);
+        assert_eq!(p, vec![(0.0, 4.0), (14.0, 4.0), (18.0, 2.0), (23.0, 2.0), (27.0, 0.0)]);
+        assert!((area(&p) - 164.0).abs() < 1e-9);
+        // Above design height (surcharge) the side slopes carry on upwards:
+        // the 1 m surcharge top is 2 × (10 − 2) = 16 m wide.
+        assert_eq!(profile(&e, 7.0), vec![(0.0, 7.0), (8.0, 7.0), (18.0, 2.0), (23.0, 2.0), (27.0, 0.0)]);
+    }
+
+    #[test]
+    fn berm_raised_from_a_given_crest_height() {
+        // A berm with placed_from_height_m = 3 is absent below a 3 m crest
+        // and then rises with the fill (hand values on the section above).
+        let e = demo_like(StageShape::FullFootprint, 3.0);
+        assert_eq!(profile(&e, 1.0), vec![(0.0, 1.0), (20.0, 1.0), (22.0, 0.0)]);
+        assert_eq!(profile(&e, 4.0), vec![(0.0, 4.0), (14.0, 4.0), (20.0, 1.0), (25.0, 1.0), (27.0, 0.0)]);
+        assert_eq!(profile(&e, 6.0), profile(&demo_like(StageShape::FullFootprint, 0.0), 6.0));
+        let c = demo_like(StageShape::ConstantCrest, 3.0);
+        assert_eq!(profile(&c, 1.0), vec![(0.0, 1.0), (10.0, 1.0), (12.0, 0.0)]);
+    }
+
+    #[test]
+    fn fill_areas_split_and_trough() {
+        // Uniform settlement s = 0.3 m: the trough under the 27 m half-base
+        // plus the triangle under the slope carried on below OGL,
+        // 2 × (27 × 0.3 + ½ × 2 × 0.3²) = 16.38 m² (hand calculation).
+        let e = demo_like(StageShape::FullFootprint, 0.0);
+        let a = fill_areas(&e, 7.0, &|_| 0.3);
+        assert!((a.makeup_m2 - 16.38).abs() < 1e-3, "{a:?}");
+        assert!((a.design_m2 - area(&profile(&e, 6.0))).abs() < 1e-9);
+        // Surcharge: the 1 m band from 16 m to 20 m wide, 18 m² (hand).
+        assert!((a.surcharge_m2 - 18.0).abs() < 1e-9, "{a:?}");
+        assert_eq!(fill_areas(&e, 0.0, &|_| 0.3), FillAreas::default());
     }
 }

@@ -220,6 +220,45 @@ pub struct Embankment {
     pub berms: Vec<Berm>,
     /// Basal geosynthetic design tensile force, kN/m (0 = none).
     pub reinforcement_kn_per_m: f64,
+    /// How the intermediate stages are shaped.
+    pub stage_shape: StageShape,
+}
+
+/// Shape of the fill at intermediate stages (`embankment.stage_shape`).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum StageShape {
+    /// Each lift is a horizontal layer over the footprint of the final
+    /// design section: the toe stays at the final toe and the crest is
+    /// wider than the design crest below design height; above it (make-up,
+    /// surcharge) the side slopes carry on upwards. The default: how fill
+    /// is normally placed on site.
+    FullFootprint,
+    /// The design crest width at every height, the side slopes (and the
+    /// toe) moving outwards as the fill rises.
+    ConstantCrest,
+}
+
+impl StageShape {
+    /// Name as written in the project file.
+    pub fn label(self) -> &'static str {
+        match self {
+            StageShape::FullFootprint => "full-footprint",
+            StageShape::ConstantCrest => "constant-crest",
+        }
+    }
+
+    /// One sentence for reports.
+    pub fn describe(self) -> &'static str {
+        match self {
+            StageShape::FullFootprint => {
+                "full-footprint: each lift a horizontal layer over the final footprint (toe at the final toe, crest wider than the design crest until design height)"
+            }
+            StageShape::ConstantCrest => {
+                "constant-crest: the design crest width at every stage, the toe moving outwards as the fill rises"
+            }
+        }
+    }
 }
 
 /// A stability berm: a flat platform at `height_m` above OGL extending
@@ -228,6 +267,10 @@ pub struct Embankment {
 pub struct Berm {
     pub width_m: f64,
     pub height_m: f64,
+    /// Crest height above OGL from which the berm is raised with the fill,
+    /// m (0 = with the first lifts): at crest height h the berm stands
+    /// min(h − this, height_m) high, so it is complete at this + height_m.
+    pub placed_from_height_m: f64,
 }
 
 /// Drain installation pattern.
@@ -290,6 +333,10 @@ pub struct Criteria {
     pub surcharge_removal_degree: Option<f64>,
     /// …or when the residual settlement over the design life falls below this, m.
     pub residual_settlement_limit_m: Option<f64>,
+    /// A plan whose residual settlement over the design life exceeds this
+    /// is flagged with a warning, m (default 0.1 m, common practice for
+    /// road embankments).
+    pub residual_settlement_warning_m: f64,
 }
 
 /// Options of the stability engine.

@@ -137,24 +137,59 @@ impl<'p> Engine<'p> {
     /// end of the step. Fill is made up for settlement so far (one step
     /// behind), and fill below the water table counts at submerged weight.
     pub fn advance(&self, st: &mut State, dt_days: f64, height_end_m: f64) {
-        let e = &self.project.embankment;
+        self.advance_columns(st, dt_days, height_end_m, self.columns.len());
+        self.steps.fetch_add(1, Ordering::Relaxed);
+    }
+
+    /// `advance` for the centreline column alone (the settlement forecasts
+    /// need no other; the other columns are left as they were). Not counted
+    /// in `steps_taken`.
+    pub fn advance_centre(&self, st: &mut State, dt_days: f64, height_end_m: f64) {
+        self.advance_columns(st, dt_days, height_end_m, 1);
+    }
+
+    fn advance_columns(&self, st: &mut State, dt_days: f64, height_end_m: f64, count: usize) {
         let s_c = st.settlement_centre_m;
         let placed = if height_end_m > 0.0 { height_end_m + s_c } else { 0.0 };
-        let gamma =
-            effective_fill_weight(e.fill_unit_weight_kn_m3, placed, s_c, self.project.ground.groundwater_depth_m);
+        let gamma = self.fill_weight(placed, s_c);
         let rule = self.project.analysis.pore_pressure;
         let mut buf = Vec::new();
-        for (c, col) in self.columns.iter().enumerate() {
+        for (c, col) in self.columns.iter().enumerate().take(count) {
             self.loads(c, placed, gamma, &mut buf);
             if !col.step(&mut st.cols[c], &buf, rule, dt_days) {
                 self.unconverged.fetch_add(1, Ordering::Relaxed);
             }
         }
         st.settlement_centre_m = self.columns[0].settlement(&st.cols[0]);
-        self.steps.fetch_add(1, Ordering::Relaxed);
         st.day += dt_days;
         st.height_m = height_end_m;
         st.placed_m = placed;
+    }
+
+    /// Fill unit weight for placed thickness `placed_m` with the centreline
+    /// settled by `settlement_m` (buoyancy below the water table), kN/m³.
+    fn fill_weight(&self, placed_m: f64, settlement_m: f64) -> f64 {
+        let e = &self.project.embankment;
+        effective_fill_weight(e.fill_unit_weight_kn_m3, placed_m, settlement_m, self.project.ground.groundwater_depth_m)
+    }
+
+    /// The centreline column of `st` carrying placed fill `placed_m` (with
+    /// the centreline settled by `settlement_m` for the buoyancy) with every
+    /// excess pore pressure dissipated: its stress history kept, so earlier
+    /// loading (a surcharge, say) counts.
+    pub fn drained_centre(&self, st: &State, placed_m: f64, settlement_m: f64) -> ColumnState {
+        let mut cs = st.cols[0].clone();
+        let mut buf = Vec::new();
+        self.loads(0, placed_m, self.fill_weight(placed_m, settlement_m), &mut buf);
+        cs.load = buf;
+        self.columns[0].consolidate_fully(&mut cs);
+        cs
+    }
+
+    /// Fill areas per metre run (design, make-up in the settlement trough,
+    /// surcharge) of the section in state `st`, m².
+    pub fn fill_areas(&self, st: &State) -> load::FillAreas {
+        load::fill_areas(&self.project.embankment, st.height_m, &|x| self.settlement_at(st, x))
     }
 
     /// The state once the present load has fully consolidated (no excess
@@ -224,14 +259,8 @@ impl<'p> Engine<'p> {
     /// Vertical total stress increment from the fill at offset x and depth
     /// z in the current state, kPa.
     pub fn fill_stress_at(&self, st: &State, x_m: f64, z_m: f64) -> f64 {
-        let e = &self.project.embankment;
-        let gamma = effective_fill_weight(
-            e.fill_unit_weight_kn_m3,
-            st.placed_m,
-            st.settlement_centre_m,
-            self.project.ground.groundwater_depth_m,
-        );
-        load::stress(&load::profile(e, st.placed_m), gamma, x_m.abs(), z_m).sz
+        let gamma = self.fill_weight(st.placed_m, st.settlement_centre_m);
+        load::stress(&load::profile(&self.project.embankment, st.placed_m), gamma, x_m.abs(), z_m).sz
     }
 
     /// Strength and settlement of the current state, for the stability

@@ -96,12 +96,15 @@ pub struct RawEmbankment {
     #[serde(default)]
     pub berms: Vec<RawBerm>,
     pub reinforcement_kn_per_m: Option<f64>,
+    /// "full-footprint" (default) or "constant-crest".
+    pub stage_shape: Option<String>,
 }
 
 #[derive(Debug, Deserialize)]
 pub struct RawBerm {
     pub width_m: f64,
     pub height_m: f64,
+    pub placed_from_height_m: Option<f64>,
 }
 
 #[derive(Debug, Deserialize)]
@@ -137,6 +140,7 @@ pub struct RawCriteria {
     pub fs_service: Option<f64>,
     pub surcharge_removal_degree: Option<f64>,
     pub residual_settlement_limit_m: Option<f64>,
+    pub residual_settlement_warning_m: Option<f64>,
 }
 
 #[derive(Debug, Deserialize)]

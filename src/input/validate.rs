@@ -9,7 +9,9 @@ use crate::error::InputIssue;
 use crate::model::*;
 use chrono::{NaiveDate, Weekday};
 
+mod embankment;
 mod uncertain;
+use embankment::embankment;
 use uncertain::uncertainty;
 
 /// Lower bound kind of an allowed range.
@@ -365,40 +367,6 @@ fn su0_points(c: &mut Check, key: &str, points: &[Vec<f64>], top_m: f64, thickne
     out
 }
 
-fn embankment(c: &mut Check, r: &RawEmbankment) -> Embankment {
-    let k = |f: &str| format!("embankment.{f}");
-    let h = c.num(&k("design_height_m"), r.design_height_m, Low::Excl(0.0), 20.0);
-    let mut berms = Vec::new();
-    for (i, b) in r.berms.iter().enumerate() {
-        let bk = format!("embankment.berms[{i}]");
-        let width_m = c.num(&format!("{bk}.width_m"), b.width_m, Low::Excl(0.0), 100.0);
-        let height_m = c.num(&format!("{bk}.height_m"), b.height_m, Low::Excl(0.0), h);
-        if let Some(prev) = berms.last().map(|b: &Berm| b.height_m)
-            && height_m >= prev
-        {
-            c.bad(&format!("{bk}.height_m"), format!("= {height_m} must be lower than the berm inside it ({prev} m)"));
-        }
-        berms.push(Berm { width_m, height_m });
-    }
-    Embankment {
-        design_height_m: h,
-        crest_width_m: c.num(&k("crest_width_m"), r.crest_width_m, Low::Excl(0.0), 200.0),
-        side_slope_h_per_v: c.num(&k("side_slope_h_per_v"), r.side_slope_h_per_v, Low::Excl(0.0), 20.0),
-        fill_unit_weight_kn_m3: c.num(&k("fill_unit_weight_kn_m3"), r.fill_unit_weight_kn_m3, Low::Incl(12.0), 24.0),
-        fill_cohesion_kpa: c.opt(&k("fill_cohesion_kpa"), r.fill_cohesion_kpa, 0.0, Low::Incl(0.0), 100.0),
-        fill_friction_deg: c.num(&k("fill_friction_deg"), r.fill_friction_deg, Low::Incl(0.0), 50.0),
-        surcharge_height_m: c.opt(&k("surcharge_height_m"), r.surcharge_height_m, 0.0, Low::Incl(0.0), 10.0),
-        berms,
-        reinforcement_kn_per_m: c.opt(
-            &k("reinforcement_kn_per_m"),
-            r.reinforcement_kn_per_m,
-            0.0,
-            Low::Incl(0.0),
-            5000.0,
-        ),
-    }
-}
-
 fn drains(c: &mut Check, r: &RawDrains, ground: &Ground) -> Drains {
     let k = |f: &str| format!("drains.{f}");
     let pattern = match c.choice(&k("pattern"), Some(r.pattern.as_str()), &["triangular", "square"]) {
@@ -547,6 +515,13 @@ fn criteria(c: &mut Check, r: &RawCriteria) -> Criteria {
         residual_settlement_limit_m: r
             .residual_settlement_limit_m
             .map(|s| c.num(&k("residual_settlement_limit_m"), s, Low::Excl(0.0), 5.0)),
+        residual_settlement_warning_m: c.opt(
+            &k("residual_settlement_warning_m"),
+            r.residual_settlement_warning_m,
+            0.1,
+            Low::Excl(0.0),
+            5.0,
+        ),
     }
 }
 

@@ -15,18 +15,25 @@ fn opt<T: std::fmt::Display>(v: Option<T>) -> String {
     v.map(|x| x.to_string()).unwrap_or_default()
 }
 
+/// The first line of every CSV: a comment naming the stage geometry used.
+fn geometry_comment(shape: crate::model::StageShape) -> String {
+    format!("# stage geometry: {}\n", field(shape.describe()))
+}
+
 /// The plan's stages as CSV.
 pub struct Csv;
 
 impl Exporter for Csv {
     fn serialize(&self, r: &PlanReport) -> Result<Vec<u8>> {
-        let mut out = String::from(
-            "stage,kind,start,end,thickness_m,height_after_m,placed_after_m,fs_end,mechanism,circle_depth_m,su_governing_kpa,rest_days,release,fs_release,peak_excess_kpa,degree_centre,settlement_centre_m\n",
+        let mut out = geometry_comment(r.plan.stage_shape);
+        out.push_str(
+            "stage,kind,start,end,thickness_m,height_after_m,placed_after_m,fs_end,mechanism,circle_depth_m,su_governing_kpa,rest_days,release,fs_release,peak_excess_kpa,degree_centre,settlement_centre_m,design_fill_after_m3_per_m,makeup_fill_after_m3_per_m,surcharge_fill_after_m3_per_m\n",
         );
         for s in &r.plan.stages {
             let kind = s.kind.key();
+            let a = &s.fill_after_m3_per_m;
             out.push_str(&format!(
-                "{},{},{},{},{:.3},{:.3},{:.3},{:.3},{},{:.2},{:.2},{},{},{},{:.2},{:.4},{:.4}\n",
+                "{},{},{},{},{:.3},{:.3},{:.3},{:.3},{},{:.2},{:.2},{},{},{},{:.2},{:.4},{:.4},{:.2},{:.2},{:.2}\n",
                 s.number,
                 kind,
                 s.start,
@@ -43,7 +50,10 @@ impl Exporter for Csv {
                 opt(s.fs_release.map(|f| format!("{f:.3}"))),
                 s.peak_excess_kpa,
                 s.degree_centre,
-                s.settlement_centre_m
+                s.settlement_centre_m,
+                a.design_m2,
+                a.makeup_m2,
+                a.surcharge_m2
             ));
         }
         Ok(out.into_bytes())
@@ -65,7 +75,8 @@ pub fn series(a: &Assessment) -> String {
     for z in &a.depths_m {
         head.push(format!("su_centre_kpa[z={z:.2}]"));
     }
-    let mut out = head.iter().map(|h| field(h)).collect::<Vec<_>>().join(",");
+    let mut out = geometry_comment(a.stage_shape);
+    out.push_str(&head.iter().map(|h| field(h)).collect::<Vec<_>>().join(","));
     out.push('\n');
     for r in &a.series {
         let mut row = vec![
@@ -85,8 +96,9 @@ pub fn series(a: &Assessment) -> String {
 }
 
 /// The design-option table as CSV, sorted as printed.
-pub fn comparison(c: &crate::compare::Comparison) -> String {
-    let mut out = String::from(
+pub fn comparison(c: &crate::compare::Comparison, shape: crate::model::StageShape) -> String {
+    let mut out = geometry_comment(shape);
+    out.push_str(
         "variant,settings,lifts,finish,duration_days,min_fs,final_settlement_m,residual_settlement_m,fill_volume_m3_per_m,drain_length_m_per_m,not_buildable\n",
     );
     for v in &c.variants {

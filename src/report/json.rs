@@ -22,6 +22,8 @@ struct Head<'a> {
     title: &'a str,
     reference: &'a str,
     source: &'a str,
+    /// The stage geometry used (`embankment.stage_shape`).
+    stage_shape: &'static str,
 }
 
 /// Pretty JSON of `result` in the envelope.
@@ -29,7 +31,12 @@ pub fn envelope<T: Serialize>(command: &str, project: &Project, source: &str, re
     let e = Envelope {
         fillpace: env!("CARGO_PKG_VERSION"),
         command,
-        project: Head { title: &project.info.title, reference: &project.info.reference, source },
+        project: Head {
+            title: &project.info.title,
+            reference: &project.info.reference,
+            source,
+            stage_shape: project.embankment.stage_shape.label(),
+        },
         result,
         cautions: super::cautions(),
     };

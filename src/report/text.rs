@@ -90,7 +90,14 @@ fn wrap(text: &str, width: usize, indent: &str) -> String {
 }
 
 fn header(p: &Project, what: &str) -> String {
-    format!("{what}: {}\n{} | {} | rev {}\n\n", p.info.title, p.info.reference, p.info.location, p.info.revision)
+    format!(
+        "{what}: {}\n{} | {} | rev {}\nStage geometry: {}.\n\n",
+        p.info.title,
+        p.info.reference,
+        p.info.location,
+        p.info.revision,
+        p.embankment.stage_shape.describe()
+    )
 }
 
 /// `fillpace check`.
@@ -327,10 +334,7 @@ pub fn plan(r: &PlanReport) -> String {
         pl.fs_finish,
         p.criteria.fs_service
     ));
-    out.push_str(&format!(
-        "Centreline settlement: {:.3} m at finish, {:.3} m final under the design load; residual over {} years {:.3} m.\n",
-        pl.settlement_at_finish_m, pl.final_settlement_m, p.info.design_life_years, pl.residual_settlement_m
-    ));
+    out.push_str(&settlement_lines(pl, p.info.design_life_years));
     out.push_str(&format!(
         "Fill per metre run: {:.1} m³ design profile + {:.1} m³ settlement make-up + {:.1} m³ surcharge (removed).\n",
         pl.volume_design_m3_per_m, pl.volume_makeup_m3_per_m, pl.volume_surcharge_m3_per_m
@@ -344,6 +348,19 @@ pub fn plan(r: &PlanReport) -> String {
     }
     out.push_str(&cautions_block());
     out
+}
+
+/// The settlement forecast of a plan, in the words the README defines.
+fn settlement_lines(pl: &crate::schedule::planner::Plan, life_years: f64) -> String {
+    format!(
+        "Centreline settlement: {:.3} m at finish; final primary {:.3} m under the final profile (crest + the make-up it needs); residual over the {life_years} years after the finish {:.3} m ({:.3} m primary still to come + {:.3} m secondary from the end of primary{}).\n",
+        pl.settlement_at_finish_m,
+        pl.final_primary_settlement_m,
+        pl.residual_settlement_m,
+        pl.residual_primary_m,
+        pl.residual_secondary_m,
+        pl.end_of_primary.map_or(", which is not reached within the design life".into(), |d| format!(" on {d}"))
+    )
 }
 
 fn opt(v: Option<f64>, d: usize) -> String {

@@ -56,6 +56,8 @@ pub struct SeriesRow {
 #[derive(Debug, Clone, Serialize)]
 pub struct Assessment {
     pub mode: ConsolidationMode,
+    /// How the intermediate stages are shaped.
+    pub stage_shape: crate::model::StageShape,
     pub fs_target: f64,
     pub columns: Vec<ColumnInfo>,
     /// Depths below OGL at which the series is reported, m.
@@ -149,6 +151,7 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
     warnings.extend(r.stability_warnings());
     Ok(Assessment {
         mode: p.analysis.mode,
+        stage_shape: p.embankment.stage_shape,
         fs_target: p.criteria.fs_construction,
         columns: r.engine.column_info(),
         depths_m: depths,

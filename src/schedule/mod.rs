@@ -6,6 +6,7 @@
 
 pub mod assess;
 pub mod calendar;
+pub mod finish;
 pub mod planner;
 pub mod record;
 

@@ -82,6 +82,11 @@ pub struct Stage {
     pub degree_centre: f64,
     /// Centreline settlement at release (or end), m.
     pub settlement_centre_m: f64,
+    /// Fill cross-section areas of the section at the end of the stage
+    /// (cumulative; the make-up is the fill in the settlement trough then),
+    /// m³ per metre run. A lift's own quantities are the differences from
+    /// the stage before.
+    pub fill_after_m3_per_m: crate::load::FillAreas,
     /// The governing circle at the end of placement.
     #[serde(skip)]
     pub critical: Option<SearchResult>,
@@ -95,17 +100,29 @@ pub struct Plan {
     pub finish: NaiveDate,
     /// Calendar days from the project start to the finish.
     pub duration_days: i64,
-    /// Centreline settlement at the finish, m.
+    /// How the intermediate stages were shaped.
+    pub stage_shape: crate::model::StageShape,
+    /// Centreline settlement on the last day of the works, m.
     pub settlement_at_finish_m: f64,
-    /// Centreline settlement when the design load has fully consolidated, m.
-    pub final_settlement_m: f64,
-    /// Settlement still to come after the finish within the design life
-    /// (primary plus secondary compression), m.
+    /// Centreline primary settlement once the final profile (final crest
+    /// plus the make-up its own settlement needs) has fully consolidated,
+    /// m (`settlement::final_primary`).
+    pub final_primary_settlement_m: f64,
+    /// Settlement still to come in the design life after the finish:
+    /// remaining primary plus secondary compression, m.
     pub residual_settlement_m: f64,
+    /// Its parts: final primary − settlement at finish, and secondary
+    /// compression from the end of primary (Mesri's convention), m.
+    pub residual_primary_m: f64,
+    pub residual_secondary_m: f64,
+    /// Date the centreline degree of consolidation reaches 95% (end of
+    /// primary), when within the design life.
+    pub end_of_primary: Option<NaiveDate>,
     /// Lowest FS at the end of any stage and that stage's number.
     pub min_fs: f64,
     pub min_fs_stage: usize,
-    /// Fill volumes per metre run, m³/m.
+    /// Fill volumes per metre run, m³/m: the design profile, the make-up
+    /// in the settlement trough at the finish, and the surcharge (removed).
     pub volume_design_m3_per_m: f64,
     pub volume_makeup_m3_per_m: f64,
     pub volume_surcharge_m3_per_m: f64,
@@ -132,8 +149,28 @@ pub fn plan_with_progress(r: &Runner, progress: &mut dyn FnMut(f64)) -> Result<P
 
 /// Plan the remaining stages from state `start` (for example today's
 /// calibrated state at a hold point), the next lift starting no earlier
-/// than day `earliest`. Stages are numbered from 1.
+/// than day `earliest`. Stages are numbered from 1. A target that cannot be
+/// reached is an `Error::Computation` saying why (`plan_or_reach` also
+/// gives how far it can go).
 pub fn plan_from(r: &Runner, start: State, earliest: i64, progress: &mut dyn FnMut(f64)) -> Result<Plan> {
+    match plan_or_reach(r, start, earliest, progress)? {
+        Planned::Built(plan) => Ok(plan),
+        Planned::Unbuildable(u) => Err(Error::Computation(u.reason)),
+    }
+}
+
+/// A plan to the target, or how far the target can be approached.
+#[derive(Debug, Clone)]
+pub enum Planned {
+    Built(Plan),
+    Unbuildable(Box<super::finish::Unbuildable>),
+}
+
+/// `plan_from`, but when the target height cannot be reached at the FS
+/// target the answer is the partial timetable to the highest crest that
+/// can be reached, with the mechanism that stops the next lift. Runners
+/// without detail (Monte Carlo realisations) get the plain error at once.
+pub fn plan_or_reach(r: &Runner, start: State, earliest: i64, progress: &mut dyn FnMut(f64)) -> Result<Planned> {
     let p = r.engine.project;
     let mut st = start.clone();
     let mut effort = Effort::default();
@@ -144,9 +181,18 @@ pub fn plan_from(r: &Runner, start: State, earliest: i64, progress: &mut dyn FnM
     let mut earliest = earliest;
     let mut last_rest = 0;
     while st.height_m < top - 1e-6 {
-        let (start, lift, rested) = next_lift_after(r, &st, earliest, last_rest, &mut effort)?;
-        last_rest = start - earliest;
-        advance_to(r, &mut stages, &mut st, start, Some(rested), &mut fig, &mut effort)?;
+        let (start_day, lift, rested) = match next_lift_after(r, &st, earliest, last_rest, &mut effort) {
+            Ok(next) => next,
+            Err(Error::Computation(why)) if r.detail => {
+                let thinnest = lift_candidates(r, top - st.height_m).last().copied().unwrap_or(0.0);
+                let blocking = super::finish::blocking(r, &st, thinnest, &mut effort)?;
+                let plan = finish_plan(r, &start, stages, &st, effort, Vec::new(), fig)?;
+                return Ok(Planned::Unbuildable(Box::new(super::finish::Unbuildable::new(r, why, blocking, plan))));
+            }
+            Err(e) => return Err(e),
+        };
+        last_rest = start_day - earliest;
+        advance_to(r, &mut stages, &mut st, start_day, Some(rested), &mut fig, &mut effort)?;
         let (a, b) = r.place(&mut st, lift, &mut |s| fig.record_if(r, s))?;
         let crit = r.stability(&st, &mut effort)?;
         stages.push(stage(r, stages.len() + 1, StageKind::Lift, a, b, lift, &st, crit));
@@ -155,18 +201,33 @@ pub fn plan_from(r: &Runner, start: State, earliest: i64, progress: &mut dyn FnM
     }
     let mut warnings = Vec::new();
     if p.embankment.surcharge_height_m > 0.0 {
-        let start = removal_day(r, &st, earliest, &mut warnings)?;
-        advance_to(r, &mut stages, &mut st, start, None, &mut fig, &mut effort)?;
+        let loading = super::finish::loading_start_day(r, &start, &stages);
+        let start_day = super::finish::removal_day(r, &st, earliest, loading, &mut warnings)?;
+        advance_to(r, &mut stages, &mut st, start_day, None, &mut fig, &mut effort)?;
         let change = -p.embankment.surcharge_height_m;
         let (a, b) = r.place(&mut st, change, &mut |s| fig.record_if(r, s))?;
         let crit = r.stability(&st, &mut effort)?;
         stages.push(stage(r, stages.len() + 1, StageKind::SurchargeRemoval, a, b, change, &st, crit));
     }
-    fig.profile(r.engine, &st, format!("end {}", stages.last().map_or(p.info.start_date, |s| s.end)));
+    finish_plan(r, &start, stages, &st, effort, warnings, fig).map(Planned::Built)
+}
+
+/// The figures' last profile and governing section, then the totals.
+fn finish_plan(
+    r: &Runner,
+    start: &State,
+    stages: Vec<Stage>,
+    st: &State,
+    mut effort: Effort,
+    warnings: Vec<String>,
+    mut fig: Figures,
+) -> Result<Plan> {
+    let p = r.engine.project;
+    fig.profile(r.engine, st, format!("end {}", stages.last().map_or(p.info.start_date, |s| s.end)));
     if r.detail {
-        fig.governing = governing(r, &start, &stages, &mut effort)?;
+        fig.governing = governing(r, start, &stages, &mut effort)?;
     }
-    totals(r, stages, &st, effort, warnings, fig)
+    super::finish::totals(r, start, stages, st, effort, warnings, fig)
 }
 
 /// Rest until `start`, recording the days, and close the previous stage's
@@ -234,7 +295,7 @@ fn next_lift_after(
 /// Lift thicknesses to try, thickest first: from min(max lift, remaining)
 /// down to the minimum lift in the configured increment; the remainder when
 /// less than a minimum lift is left.
-fn lift_candidates(r: &Runner, remaining: f64) -> Vec<f64> {
+pub(super) fn lift_candidates(r: &Runner, remaining: f64) -> Vec<f64> {
     let c = &r.engine.project.construction;
     if remaining <= c.lift_min_m + 1e-9 {
         return vec![remaining];
@@ -454,72 +515,8 @@ fn close_rest(r: &Runner, prev: &mut Stage, s: &State, start: i64, effort: &mut 
     Ok(())
 }
 
-/// The day the surcharge may come off: the first day on which the removal
-/// criterion holds (centreline degree of consolidation, or residual
-/// settlement over the design life), searched in whole days.
-fn removal_day(r: &Runner, st: &State, earliest: i64, warnings: &mut Vec<String>) -> Result<i64> {
-    let p = r.engine.project;
-    let degree = p.criteria.surcharge_removal_degree;
-    let limit = p.criteria.residual_settlement_limit_m;
-    if degree.is_none() && limit.is_none() {
-        warnings.push("no surcharge removal criterion given; the surcharge is held until 90% average consolidation under the centreline".into());
-    }
-    let degree = if limit.is_none() { degree.or(Some(0.9)) } else { degree };
-    let mut s = st.clone();
-    let mut day = r.next_workable(earliest)?;
-    r.rest_until(&mut s, day, &mut |_| {});
-    loop {
-        let ok_u = degree.is_none_or(|u| r.engine.degree_centre(&s) >= u);
-        let ok_s = limit.is_none_or(|l| residual_after_removal(r, &s) <= l);
-        if ok_u && ok_s {
-            return Ok(day);
-        }
-        if day > r.calendar.day_of(p.info.start_date) + MAX_REST_DAYS {
-            return Err(Error::Computation(
-                "cannot be finished: the surcharge removal criterion is not met within 20 years of the project start; relax it or add drains".into(),
-            ));
-        }
-        day = r.next_workable(day + 7)?;
-        r.rest_until(&mut s, day, &mut |_| {});
-    }
-}
-
-/// Residual settlement (primary + secondary over the design life) if the
-/// surcharge were removed now, m.
-fn residual_after_removal(r: &Runner, st: &State) -> f64 {
-    let mut s = st.clone();
-    let h = r.engine.project.embankment.design_height_m;
-    r.engine.advance(&mut s, 0.01, h);
-    residual(r, &s)
-}
-
-/// Primary settlement still to come under the current load plus secondary
-/// compression over the design life, m.
-fn residual(r: &Runner, st: &State) -> f64 {
-    let primary = (r.engine.final_settlement_centre(st) - st.settlement_centre_m).max(0.0);
-    primary + secondary(r, st)
-}
-
-/// Secondary compression over the design life after the present time:
-/// Σ Cα/(1+e0)·H·log10((t + life)/t), t counted from the start of works
-/// (common practice estimate; conservative after a surcharge).
-fn secondary(r: &Runner, st: &State) -> f64 {
-    let p = r.engine.project;
-    let t = st.day.max(30.0);
-    let life = p.info.design_life_years * crate::model::DAYS_PER_YEAR;
-    p.ground
-        .layers
-        .iter()
-        .filter_map(|l| match &l.kind {
-            crate::model::LayerKind::Clay(c) => Some(c.c_alpha / (1.0 + c.e0) * l.thickness_m),
-            _ => None,
-        })
-        .sum::<f64>()
-        * ((t + life) / t).log10()
-}
-
 #[allow(clippy::too_many_arguments)]
-fn stage(
+pub(super) fn stage(
     r: &Runner,
     number: usize,
     kind: StageKind,
@@ -550,58 +547,7 @@ fn stage(
         peak_excess_kpa: r.engine.peak_excess(st),
         degree_centre: r.engine.degree_centre(st),
         settlement_centre_m: st.settlement_centre_m,
+        fill_after_m3_per_m: r.engine.fill_areas(st),
         critical: Some(crit),
     }
-}
-
-fn totals(
-    r: &Runner,
-    stages: Vec<Stage>,
-    st: &State,
-    mut effort: Effort,
-    mut warnings: Vec<String>,
-    figures: Figures,
-) -> Result<Plan> {
-    let p = r.engine.project;
-    let e = &p.embankment;
-    let finish = stages.last().map_or(r.calendar.date(st.day.ceil() as i64), |s| s.end);
-    let (min_fs, min_fs_stage) = stages
-        .iter()
-        .filter(|s| s.kind == StageKind::Lift)
-        .map(|s| (s.fs_end, s.number))
-        .min_by(|a, b| a.0.total_cmp(&b.0))
-        .unwrap_or((f64::INFINITY, 0));
-    let at_finish = r.stability(st, &mut effort)?;
-    let fs_finish = at_finish.governing_fs();
-    effort.consolidation_steps = r.engine.steps_taken();
-    warnings.extend(r.engine.convergence_warning());
-    warnings.extend(r.stability_warnings());
-    if fs_finish < p.criteria.fs_service {
-        warnings
-            .push(format!(
-                "FS at the finish {fs_finish:.3} ({}) is below the service target {:.2}",
-                at_finish.governing_mechanism(),
-                p.criteria.fs_service
-            ));
-    }
-    let s_fin = st.settlement_centre_m;
-    let area = |t: f64| crate::load::area(&crate::load::profile(e, t));
-    let final_settlement_m = r.engine.final_settlement_centre(st);
-    Ok(Plan {
-        finish,
-        duration_days: (finish - p.info.start_date).num_days() + 1,
-        settlement_at_finish_m: s_fin,
-        final_settlement_m,
-        residual_settlement_m: residual(r, st),
-        min_fs,
-        min_fs_stage,
-        volume_design_m3_per_m: area(e.design_height_m),
-        volume_makeup_m3_per_m: area(e.design_height_m + s_fin) - area(e.design_height_m),
-        volume_surcharge_m3_per_m: area(p.max_height_m() + s_fin) - area(e.design_height_m + s_fin),
-        fs_finish,
-        effort,
-        warnings,
-        stages,
-        figures,
-    })
 }

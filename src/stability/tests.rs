@@ -125,7 +125,7 @@ fn berm_never_lowers_fs_of_through_toe_mechanism() {
     let mut p = taylor_project(20.0, 18.0, 5.0, 2.0);
     let field = uniform_su(20.0);
     let plain = search(&Section::new(&p, 5.0, &field)).unwrap().critical.fs;
-    p.embankment.berms = vec![Berm { width_m: 8.0, height_m: 2.0 }];
+    p.embankment.berms = vec![Berm { width_m: 8.0, height_m: 2.0, placed_from_height_m: 0.0 }];
     let bermed = search(&Section::new(&p, 5.0, &field)).unwrap().critical.fs;
     assert!(bermed >= plain - 1e-6, "{bermed} < {plain}");
 }

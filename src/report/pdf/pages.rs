@@ -151,16 +151,20 @@ pub fn summary(c: &mut Canvas, ctx: &Ctx) {
         ("Lifts", format!("{}", pl.stages.iter().filter(|s| s.kind == StageKind::Lift).count())),
         ("Lowest FS", format!("{:.2} at the end of stage {}", pl.min_fs, pl.min_fs_stage)),
         ("FS at finish", format!("{:.2}", pl.fs_finish)),
+        ("Stage geometry", pl.stage_shape.describe().to_string()),
         (
             "Settlement (centreline)",
             format!(
-                "{:.3} m at finish; {:.3} m final under the design load",
-                pl.settlement_at_finish_m, pl.final_settlement_m
+                "{:.3} m at finish; {:.3} m final primary under the final profile (design crest + make-up)",
+                pl.settlement_at_finish_m, pl.final_primary_settlement_m
             ),
         ),
         (
             "Residual settlement",
-            format!("{:.3} m over {} years after the finish", pl.residual_settlement_m, p.info.design_life_years),
+            format!(
+                "{:.3} m over {} years after the finish ({:.3} m primary + {:.3} m secondary)",
+                pl.residual_settlement_m, p.info.design_life_years, pl.residual_primary_m, pl.residual_secondary_m
+            ),
         ),
         (
             "Fill per metre run",
@@ -320,7 +324,7 @@ pub fn inputs(c: &mut Canvas, ctx: &Ctx) {
     let k = &p.construction;
     let lines = [
         format!(
-            "Embankment: design height {} m, crest {} m, side slopes {}H:1V, fill γ {} kN/m³, c' {} kPa, φ' {}°, surcharge {} m, berms {}, reinforcement {} kN/m.",
+            "Embankment: design height {} m, crest {} m, side slopes {}H:1V, fill γ {} kN/m³, c' {} kPa, φ' {}°, surcharge {} m, berms {}, reinforcement {} kN/m; stages {}.",
             e.design_height_m,
             e.crest_width_m,
             e.side_slope_h_per_v,
@@ -333,11 +337,17 @@ pub fn inputs(c: &mut Canvas, ctx: &Ctx) {
             } else {
                 e.berms
                     .iter()
-                    .map(|b| format!("{} m wide at {} m", b.width_m, b.height_m))
+                    .map(|b| {
+                        format!(
+                            "{} m wide at {} m raised from a {} m crest",
+                            b.width_m, b.height_m, b.placed_from_height_m
+                        )
+                    })
                     .collect::<Vec<_>>()
                     .join(", ")
             },
-            e.reinforcement_kn_per_m
+            e.reinforcement_kn_per_m,
+            e.stage_shape.label()
         ),
         match &p.drains {
             Some(d) => format!(
