@@ -577,12 +577,11 @@ fn totals(
     warnings.extend(r.engine.convergence_warning());
     warnings.extend(r.stability_warnings());
     if fs_finish < p.criteria.fs_service {
-        warnings
-            .push(format!(
-                "FS at the finish {fs_finish:.3} ({}) is below the service target {:.2}",
-                at_finish.governing_mechanism(),
-                p.criteria.fs_service
-            ));
+        warnings.push(format!(
+            "FS at the finish {fs_finish:.3} ({}) is below the service target {:.2}",
+            at_finish.governing_mechanism(),
+            p.criteria.fs_service
+        ));
     }
     let s_fin = st.settlement_centre_m;
     let area = |t: f64| crate::load::area(&crate::load::profile(e, t));
