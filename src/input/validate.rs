@@ -229,7 +229,9 @@ fn pore_water(c: &mut Check, key: &str, r: &RawLayer, kind: &str) -> PoreWater {
     }
     match (r.piezometric_level_m, r.ru) {
         (None, None) => PoreWater::Hydrostatic,
-        (Some(h), None) => PoreWater::Level { elevation_m: c.num(&k("piezometric_level_m"), h, Low::Incl(-80.0), 20.0) },
+        (Some(h), None) => {
+            PoreWater::Level { elevation_m: c.num(&k("piezometric_level_m"), h, Low::Incl(-80.0), 20.0) }
+        }
         (None, Some(ru)) => PoreWater::Ratio { ru: c.num(&k("ru"), ru, Low::Incl(0.0), 0.9) },
         (Some(_), Some(_)) => {
             c.bad(&k("ru"), "give either piezometric_level_m or ru, not both".into());

@@ -6,8 +6,8 @@ use super::{PlanReport, ReleaseReport};
 use crate::ground::Summary;
 use crate::model::Project;
 use crate::schedule::assess::Assessment;
-use crate::stability::{CircleResult, Method};
 use crate::stability::search::SearchResult;
+use crate::stability::{CircleResult, Method};
 
 /// A table of strings with a header row; numbers are right-aligned.
 struct Table {

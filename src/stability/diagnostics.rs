@@ -74,18 +74,22 @@ impl Diagnostics {
 
     /// One warning per kind of clamp or fallback that occurred.
     pub fn warnings(&self) -> Vec<String> {
-        let of = |n: usize, what: &str| {
-            format!("slip circles: {n} of {} trial circles {what}", self.circles)
-        };
+        let of = |n: usize, what: &str| format!("slip circles: {n} of {} trial circles {what}", self.circles);
         let mut out = Vec::new();
         if self.zero_normal_circles > 0 {
             out.push(of(self.zero_normal_circles, "had a slice base with negative effective normal force (pore pressure above the overburden), taken as zero: no friction there"));
         }
         if self.ordinary_small_m_alpha > 0 {
-            out.push(of(self.ordinary_small_m_alpha, "had Bishop's m_α below 0.2 on a frictional slice and were evaluated by the Ordinary method instead"));
+            out.push(of(
+                self.ordinary_small_m_alpha,
+                "had Bishop's m_α below 0.2 on a frictional slice and were evaluated by the Ordinary method instead",
+            ));
         }
         if self.ordinary_no_convergence > 0 {
-            out.push(of(self.ordinary_no_convergence, "did not converge by Bishop's method and were evaluated by the Ordinary method instead"));
+            out.push(of(
+                self.ordinary_no_convergence,
+                "did not converge by Bishop's method and were evaluated by the Ordinary method instead",
+            ));
         }
         if self.critical_fallbacks > 0 {
             out.push(format!(

@@ -221,11 +221,13 @@ struct Crack {
 /// Bishop's simplified method by fixed-point iteration on FS, from the
 /// Ordinary method's FS `start`: (FS, slices whose effective normal force
 /// W − u b was negative and taken as zero), or the reason it must fall back
-/// to the Ordinary method.
+/// to the Ordinary method (m_α below `M_ALPHA_MIN` at the solution or on the
+/// last iterate of one that did not converge; else no convergence).
 fn bishop(s: &[SliceData], drive_moment: f64, r: f64, t_moment: f64, start: f64) -> Result<(f64, usize), Method> {
-    let mut fs = start.max(0.05);
+    let (mut fs, mut low) = (start.max(0.05), f64::INFINITY);
     for _ in 0..MAX_ITER {
-        let (mut resist, mut low, mut clamped) = (0.0, f64::INFINITY, 0);
+        let (mut resist, mut clamped) = (0.0, 0);
+        low = f64::INFINITY;
         for d in s {
             let m_alpha = d.cos_a + d.sin_a * d.tan_phi / fs;
             if d.tan_phi > 0.0 {
@@ -244,7 +246,8 @@ fn bishop(s: &[SliceData], drive_moment: f64, r: f64, t_moment: f64, start: f64)
         }
         fs = next;
     }
-    Err(Method::OrdinaryNoConvergence)
+    // A small m_α is the usual cause of an iteration that wanders: name it.
+    Err(if low < M_ALPHA_MIN { Method::OrdinarySmallMAlpha } else { Method::OrdinaryNoConvergence })
 }
 
 /// Sums over the slices of one circle.

@@ -74,11 +74,8 @@ fn the_strength_field_keeps_each_layer_on_its_own_side() {
             "[[ground.layers]]\nname = \"{name}\"\nkind = \"clay\"\nthickness_m = {h}\nunit_weight_kn_m3 = 16.0\ne0 = 1.5\ncc = 0.6\ncr = 0.06\ncv_m2_per_year = 1.0\nshansep_s = 0.06\nsu0_top_kpa = {su}\n"
         )
     };
-    let text = format!(
-        "[ground]\ngroundwater_depth_m = 0.0\n{}{}",
-        layer("crust", 1.5, 12.6),
-        layer("soft", 10.0, 8.4)
-    );
+    let text =
+        format!("[ground]\ngroundwater_depth_m = 0.0\n{}{}", layer("crust", 1.5, 12.6), layer("soft", 10.0, 8.4));
     let p = fixtures::project(&text);
     let engine = Engine::new(&p);
     let field = engine.field(&engine.initial_state());
@@ -108,7 +105,15 @@ fn ru_slope(ru: f64) -> Project {
 /// 20,000 slices: surface 5 m up to x = 100, the 2:1 face to x = 110, then
 /// 0; u = ru·W/b; a negative effective normal force taken as zero.
 fn by_hand(c: Circle, ru: f64) -> (f64, f64) {
-    let top = |x: f64| if x <= 100.0 { 5.0 } else if x <= 110.0 { 5.0 - (x - 100.0) / 2.0 } else { 0.0 };
+    let top = |x: f64| {
+        if x <= 100.0 {
+            5.0
+        } else if x <= 110.0 {
+            5.0 - (x - 100.0) / 2.0
+        } else {
+            0.0
+        }
+    };
     let arc = |x: f64| c.yc_m - (c.r_m * c.r_m - (x - c.xc_m).powi(2)).max(0.0).sqrt();
     let cross = |mut inside: f64, mut outside: f64| {
         for _ in 0..100 {
@@ -129,11 +134,9 @@ fn by_hand(c: Circle, ru: f64) -> (f64, f64) {
         })
         .collect();
     let drive: f64 = slices.iter().map(|(w, s, _)| w * s).sum();
-    let ordinary: f64 = slices
-        .iter()
-        .map(|(w, _, cos)| coh * b / cos + (w * cos - ru * w / cos).max(0.0) * tan_phi)
-        .sum::<f64>()
-        / drive;
+    let ordinary: f64 =
+        slices.iter().map(|(w, _, cos)| coh * b / cos + (w * cos - ru * w / cos).max(0.0) * tan_phi).sum::<f64>()
+            / drive;
     let mut fs = ordinary;
     for _ in 0..200 {
         fs = slices

@@ -141,3 +141,21 @@ fn infinite_slope_with_cohesion_and_ru_by_hand() {
     let fs = infinite_slope_fs(5.0, 30f64.to_radians().tan(), 20.0, 3.0, 0.5f64.atan(), 0.2);
     assert!((fs - 1.07436).abs() < 1e-5, "{fs}");
 }
+
+#[test]
+fn cohesionless_slope_with_pore_pressure_ratio() {
+    // Closed form (Skempton & DeLory 1957): a c' = 0 slope with ru has
+    // FS = m − n·ru with m = tan φ'/tan β and n = m sec²β; Bishop &
+    // Morgenstern's (1960) stability coefficients for c'/γH = 0 reduce to
+    // these (from memory: their table values were not confirmed here).
+    // φ' = 34°, 2:1 face, ru = 0.2: m = 1.3490, n = 1.6862, FS = 1.0118;
+    // the governing FS of the full search within ± 0.02 (no circle lower).
+    let mut p = fill_on_rigid_base(0.0, 34.0, 5.0, 2.0);
+    p.stability.fill_ru = 0.2;
+    let field = uniform_su(500.0);
+    let r = search(&Section::new(&p, 5.0, &field)).unwrap();
+    let m = 34f64.to_radians().tan() * 2.0;
+    let expect = m - 1.25 * m * 0.2;
+    assert!((r.governing_fs() - expect).abs() < 0.02, "{} vs {expect}", r.governing_fs());
+    assert!(r.critical.fs > expect - 0.02, "a circle at {} is below the closed form", r.critical.fs);
+}

@@ -56,18 +56,30 @@ fn sand_slope() -> Project {
 #[test]
 fn small_m_alpha_falls_back_to_the_ordinary_method_and_is_counted() {
     // Regression, issue 14 item 6: a circle whose m_α fell below 0.2 was
-    // dropped with only a count. At this circle's exit sin α = −√21/5 =
-    // −0.917 and cos α = 0.4, so m_α = cos α + sin α tan φ'/F =
-    // 0.4 − 0.642/F < 0.2 for any F < 3.2:
-    // it must be evaluated by the Ordinary method (the stated fallback)
-    // and flagged.
-    let p = sand_slope();
-    let field = uniform_su(1.0);
-    let s = Section::new(&p, 5.0, &field);
-    let r = s.analyse(Circle { xc_m: 112.0, yc_m: 2.0, r_m: 5.0 }).unwrap();
-    assert!(r.fs_ordinary < 3.2, "{}", r.fs_ordinary);
-    assert_eq!(r.method, Method::OrdinarySmallMAlpha);
-    assert_eq!(r.fs, r.fs_ordinary);
+    // dropped with only a count. Hand numbers, φ' = 20° (tan 0.364), R =
+    // 10 m: a driving slice (W = 100 kN, sin α = 0.5) and an exit slice
+    // (W = 1 kN, sin α = −0.9, cos α = 0.436). Bishop's iteration settles
+    // near F ≈ 0.86, where the exit slice's m_α = 0.436 − 0.9 × 0.364/F ≈
+    // 0.06 < 0.2: the stated fallback (the Ordinary method) must be taken.
+    let tan_phi = 20f64.to_radians().tan();
+    let slice = |w: f64, sin_a: f64| SliceData {
+        b: 1.0,
+        w,
+        sin_a,
+        cos_a: (1.0 - sin_a * sin_a).sqrt(),
+        coh: 0.0,
+        tan_phi,
+        u: 0.0,
+    };
+    let drive = 10.0 * (100.0 * 0.5 - 0.9);
+    assert_eq!(bishop(&[slice(100.0, 0.5), slice(1.0, -0.9)], drive, 10.0, 0.0, 0.8), Err(Method::OrdinarySmallMAlpha));
+    // With a gentle exit (sin α = −0.3) Bishop's method stands.
+    assert!(bishop(&[slice(100.0, 0.5), slice(1.0, -0.3)], 10.0 * 49.7, 10.0, 0.0, 0.8).is_ok());
+    // The fallback is counted and reported, also when it is the critical one.
+    let p = taylor_project(20.0, 18.0, 5.0, 2.0);
+    let field = uniform_su(20.0);
+    let mut r = Section::new(&p, 5.0, &field).analyse(Circle { xc_m: 104.0, yc_m: 9.0, r_m: 13.0 }).unwrap();
+    r.method = Method::OrdinarySmallMAlpha;
     let mut d = Diagnostics::default();
     d.record(&Ok(r.clone()));
     d.record_critical(&r);
