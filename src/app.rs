@@ -93,7 +93,12 @@ fn check(path: &Path, step: f64, json: bool) -> Result<String> {
     let p = input::load(path)?;
     let s = crate::ground::summary(&p, step);
     let src = path.display().to_string();
-    if json { report::json::envelope("check", &p, &src, &s) } else { Ok(report::text::check(&p, &s, &src)) }
+    let warnings = crate::plausibility::design_warnings(&Engine::new(&p));
+    if json {
+        report::json::envelope_with_warnings("check", &p, &src, &s, &warnings)
+    } else {
+        Ok(report::text::with_warnings(report::text::check(&p, &s, &src), &warnings))
+    }
 }
 
 fn assess_cmd(path: &Path, tail: i64, csv: Option<&Path>, json: bool) -> Result<String> {
@@ -141,22 +146,24 @@ fn stability(path: &Path, height: f64, date: Option<&str>, circle: Option<&str>,
     let field = engine.field(&st);
     let section = Section::new(&p, height, &field);
     let src = path.display().to_string();
+    let warnings = crate::plausibility::design_warnings(&engine);
     match circle {
         Some(text) => {
             let c = parse_circle(text)?;
             let r = section.analyse(c).map_err(|why| Error::Usage(format!("circle {text} cannot be analysed: {why}; a circle must cut the ground surface twice below its centre, move towards the toe and stay above the stiff base")))?;
             if json {
-                report::json::envelope("stability", &p, &src, &r)
+                report::json::envelope_with_warnings("stability", &p, &src, &r, &warnings)
             } else {
-                Ok(report::text::stability_circle(&p, height, &when, &r))
+                Ok(report::text::with_warnings(report::text::stability_circle(&p, height, &when, &r), &warnings))
             }
         }
         None => {
             let r = search::search(&section)?;
             if json {
-                report::json::envelope("stability", &p, &src, &r)
+                report::json::envelope_with_warnings("stability", &p, &src, &r, &warnings)
             } else {
-                Ok(report::text::stability_search(&p, height, &when, placed, &r))
+                let out = report::text::stability_search(&p, height, &when, placed, &r);
+                Ok(report::text::with_warnings(out, &warnings))
             }
         }
     }
@@ -372,10 +379,11 @@ fn plan(path: Option<&Path>, readings_file: Option<&Path>, outs: &PlanOutputs, j
     }
     let engine = Engine::new(&p);
     let runner = Runner::new(&engine);
-    let plan = with_progress(|tick| match start {
-        Some((st, earliest)) => planner::plan_from(&runner, st, earliest, tick),
-        None => planner::plan_with_progress(&runner, tick),
-    })?;
+    let (st, earliest) = start.unwrap_or_else(|| (engine.initial_state(), 0));
+    let plan = match with_progress(|tick| planner::plan_or_reach(&runner, st, earliest, tick))? {
+        planner::Planned::Built(plan) => plan,
+        planner::Planned::Unbuildable(u) => return Err(unbuildable(&p, &source, &u, json)),
+    };
     let rep = PlanReport { project: &p, plan: &plan, source, source_sha256: report::sha256_hex(text.as_bytes()) };
     for (kind, out) in &files {
         let bytes = match *kind {
@@ -390,6 +398,17 @@ fn plan(path: Option<&Path>, readings_file: Option<&Path>, outs: &PlanOutputs, j
         String::from_utf8(report::json::Json.serialize(&rep)?).map_err(|e| Error::Computation(e.to_string()))
     } else {
         Ok(report::text::plan(&rep))
+    }
+}
+
+/// The error for a target that cannot be reached, carrying the partial
+/// timetable to the highest crest (text or JSON) for standard output; no
+/// files are written.
+fn unbuildable(p: &Project, source: &str, u: &crate::schedule::finish::Unbuildable, json: bool) -> Error {
+    let report = if json { report::json::envelope("plan", p, source, u) } else { Ok(report::text::unbuildable(p, u)) };
+    match report {
+        Ok(report) => Error::Unbuildable { reason: u.reason.clone(), report },
+        Err(e) => e,
     }
 }
 

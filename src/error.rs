@@ -49,6 +49,10 @@ pub enum Error {
     /// A computation could not produce a trustworthy answer.
     #[error("{0}")]
     Computation(String),
+    /// The target height cannot be reached at the FS target; `report` (for
+    /// standard output) shows how far it can go and why not further.
+    #[error("{reason}")]
+    Unbuildable { reason: String, report: String },
 }
 
 impl Error {
@@ -56,7 +60,15 @@ impl Error {
     pub fn exit_code(&self) -> i32 {
         match self {
             Error::Input { .. } | Error::Usage(_) | Error::Read { .. } => 2,
-            Error::Write { .. } | Error::Computation(_) => 1,
+            Error::Write { .. } | Error::Computation(_) | Error::Unbuildable { .. } => 1,
+        }
+    }
+
+    /// What to print on standard output before the error, if anything.
+    pub fn report(&self) -> Option<&str> {
+        match self {
+            Error::Unbuildable { report, .. } => Some(report),
+            _ => None,
         }
     }
 

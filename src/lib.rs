@@ -19,6 +19,7 @@ pub mod load;
 pub mod model;
 pub mod monitoring;
 pub mod output;
+pub mod plausibility;
 pub mod random;
 pub mod report;
 pub mod response;

@@ -1,5 +1,6 @@
 //! fillpace command-line entry point: parse arguments, run the command,
-//! print the result or the error once, exit 0 / 1 (failed computation) /
+//! print the result (or, when the target cannot be reached, how far it
+//! can go) and the error once, exit 0 / 1 (failed computation) /
 //! 2 (bad input).
 
 use clap::Parser;
@@ -9,6 +10,9 @@ fn main() {
     match fillpace::app::run(&cli.command) {
         Ok(text) => print!("{text}"),
         Err(e) => {
+            if let Some(report) = e.report() {
+                print!("{report}");
+            }
             eprintln!("error: {e}");
             std::process::exit(e.exit_code());
         }

@@ -136,7 +136,8 @@ fn assess_writes_series_and_flags_the_unsafe_lift() {
     assert_eq!(last["safe"], false);
     assert!(last["safe_from"].as_str().unwrap() > last["proposed_start"].as_str().unwrap());
     let text = std::fs::read_to_string(&csv).unwrap();
-    assert!(text.starts_with("date,height_m,placed_m"));
+    assert!(text.starts_with("# stage geometry: full-footprint"), "{text}");
+    assert!(text.lines().nth(1).unwrap().starts_with("date,height_m,placed_m"));
     assert!(text.lines().count() > 300);
 }
 
@@ -173,7 +174,10 @@ fn plan_outputs_csv_and_an_icalendar_that_parses() {
     let plan = json_result(&out.stdout);
     let stages = plan["stages"].as_array().unwrap();
     let holds = stages.iter().filter(|s| !s["release"].is_null()).count();
-    assert_eq!(std::fs::read_to_string(&csv).unwrap().lines().count(), stages.len() + 1);
+    let table = std::fs::read_to_string(&csv).unwrap();
+    // A comment naming the stage geometry, the header row, one row a stage.
+    assert!(table.starts_with("# stage geometry: full-footprint"), "{table}");
+    assert_eq!(table.lines().count(), stages.len() + 2);
     // General-purpose iCalendar parser (icalendar crate, RFC 5545).
     let text = std::fs::read_to_string(&ics).unwrap();
     let unfolded = icalendar::parser::unfold(&text);
@@ -252,4 +256,23 @@ fn out_folder_receives_all_formats() {
     for f in ["plan.csv", "plan.ics", "plan.pdf", "plan.json"] {
         assert!(folder.join(f).metadata().unwrap().len() > 100, "{f}");
     }
+}
+
+#[test]
+fn every_output_names_the_stage_geometry() {
+    // Issue 14, what to build 1: every report states the stage geometry.
+    let out = fillpace().args(["plan", DEMO, "--json"]).output().unwrap();
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["project"]["stage_shape"], "full-footprint");
+    assert_eq!(v["result"]["stage_shape"], "full-footprint");
+    fillpace()
+        .args(["stability", DEMO, "--height", "2"])
+        .assert()
+        .success()
+        .stdout(predicate::str::contains("Stage geometry: full-footprint"));
+    fillpace()
+        .args(["check", DEMO])
+        .assert()
+        .success()
+        .stdout(predicate::str::contains("Stage geometry: full-footprint"));
 }

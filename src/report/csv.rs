@@ -17,7 +17,7 @@ fn opt<T: std::fmt::Display>(v: Option<T>) -> String {
 
 /// The first line of every CSV: a comment naming the stage geometry used.
 fn geometry_comment(shape: crate::model::StageShape) -> String {
-    format!("# stage geometry: {}\n", field(shape.describe()))
+    format!("# stage geometry: {}\n", shape.describe())
 }
 
 /// The plan's stages as CSV.

@@ -14,6 +14,10 @@ struct Envelope<'a, T: Serialize> {
     command: &'a str,
     project: Head<'a>,
     result: &'a T,
+    /// Plausibility warnings of commands whose result has no warnings of
+    /// its own (check, stability); left out when empty.
+    #[serde(skip_serializing_if = "<[String]>::is_empty")]
+    warnings: &'a [String],
     cautions: Vec<String>,
 }
 
@@ -28,6 +32,17 @@ struct Head<'a> {
 
 /// Pretty JSON of `result` in the envelope.
 pub fn envelope<T: Serialize>(command: &str, project: &Project, source: &str, result: &T) -> Result<String> {
+    envelope_with_warnings(command, project, source, result, &[])
+}
+
+/// `envelope` with warnings beside the result.
+pub fn envelope_with_warnings<T: Serialize>(
+    command: &str,
+    project: &Project,
+    source: &str,
+    result: &T,
+    warnings: &[String],
+) -> Result<String> {
     let e = Envelope {
         fillpace: env!("CARGO_PKG_VERSION"),
         command,
@@ -38,6 +53,7 @@ pub fn envelope<T: Serialize>(command: &str, project: &Project, source: &str, re
             stage_shape: project.embankment.stage_shape.label(),
         },
         result,
+        warnings,
         cautions: super::cautions(),
     };
     serde_json::to_string_pretty(&e)

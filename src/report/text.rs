@@ -71,6 +71,15 @@ fn cautions_block() -> String {
     out
 }
 
+/// A terminal report with `warnings` inserted before its caution notes.
+pub fn with_warnings(report: String, warnings: &[String]) -> String {
+    let lines: String = warnings.iter().map(|w| format!("warning: {w}\n")).collect();
+    match report.rfind("\nCAUTIONS\n") {
+        Some(at) => format!("{}{lines}{}", &report[..at], &report[at..]),
+        None => report + &lines,
+    }
+}
+
 fn wrap(text: &str, width: usize, indent: &str) -> String {
     let mut out = String::new();
     let mut len = 0;
@@ -343,6 +352,38 @@ pub fn plan(r: &PlanReport) -> String {
         "Effort: {} slip-circle searches, {} consolidation steps.\n",
         pl.effort.stability_searches, pl.effort.consolidation_steps
     ));
+    for w in &pl.warnings {
+        out.push_str(&format!("warning: {w}\n"));
+    }
+    out.push_str(&cautions_block());
+    out
+}
+
+/// `fillpace plan` when the target height cannot be reached: how far it
+/// can go, the timetable to there and what stops the next lift.
+pub fn unbuildable(p: &Project, u: &crate::schedule::finish::Unbuildable) -> String {
+    let (pl, b) = (&u.partial_plan, &u.blocking);
+    let mut out = header(p, "Lift timetable (target not reachable)");
+    out.push_str(&format!(
+        "CANNOT BE BUILT to {:.2} m with FS ≥ {:.2}. Highest crest reachable at the FS target: {:.2} m.\n",
+        u.target_height_m, u.fs_target, u.highest_crest_m
+    ));
+    out.push_str(&format!(
+        "Governing mechanism: the thinnest next lift ({:.2} m on the {:.2} m crest) has FS {:.3} even with the clay fully consolidated under the fill already placed; critical circle ({:.2}, {:.2}) m, radius {:.2} m, lowest point {:.2} m below original ground in {}.\n",
+        b.lift_m, b.on_crest_m, b.fs, b.circle.xc_m, b.circle.yc_m, b.circle.r_m, b.circle_depth_m, b.mechanism
+    ));
+    out.push_str(&format!("  {}\n\n", wrap(&u.reason, 76, "  ")));
+    if pl.stages.is_empty() {
+        out.push_str("Not even the first lift can be placed.\n");
+    } else {
+        out.push_str("Timetable to the highest crest:\n");
+        let mut t = Table::new(&super::STAGE_COLUMNS);
+        for s in &pl.stages {
+            t.row(super::stage_cells(s));
+        }
+        out.push_str(&t.render());
+        out.push_str(&format!("\nLast lift ends {}; FS then {:.2}.\n", pl.finish, pl.fs_finish));
+    }
     for w in &pl.warnings {
         out.push_str(&format!("warning: {w}\n"));
     }

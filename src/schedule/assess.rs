@@ -149,6 +149,9 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
     }
     warnings.extend(r.engine.convergence_warning());
     warnings.extend(r.stability_warnings());
+    warnings.extend(crate::plausibility::input_warnings(p));
+    let (placed, s) = (st.placed_m, st.settlement_centre_m);
+    warnings.extend(crate::plausibility::strain_warning(r.engine, &st, placed, s, "the proposed sequence"));
     Ok(Assessment {
         mode: p.analysis.mode,
         stage_shape: p.embankment.stage_shape,

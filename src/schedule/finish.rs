@@ -99,6 +99,9 @@ pub(super) fn totals(
     }
     let f = settlement::forecast(r.engine, st, loading_start_day(r, start, &stages));
     warnings.extend(forecast_warnings(r, &f));
+    warnings.extend(crate::plausibility::input_warnings(p));
+    let placed = st.height_m + f.final_primary_m;
+    warnings.extend(crate::plausibility::strain_warning(r.engine, st, placed, f.final_primary_m, "the final profile"));
     let areas = r.engine.fill_areas(st);
     let design = crate::load::area(&crate::load::profile(e, e.design_height_m));
     let full = crate::load::area(&crate::load::profile(e, p.max_height_m()));
