@@ -1,7 +1,8 @@
 //! Benchmarks of the three engines on the demo site (run with
 //! `cargo bench --bench engines`). Each case is repeated and the median
 //! wall time reported with its throughput. Not a test: nothing here asserts
-//! a time.
+//! a time. `FILLPACE_BENCH_ONLY=response` runs case 1 only (e.g. under
+//! `valgrind --tool=callgrind`, whose instruction counts repeat exactly).
 
 use fillpace::response::Engine;
 use fillpace::schedule::{Effort, Runner, planner};
@@ -51,6 +52,9 @@ fn main() {
         t.as_secs_f64() * 1e3,
         node_steps / t.as_secs_f64() / 1e6
     );
+    if std::env::var("FILLPACE_BENCH_ONLY").is_ok_and(|v| v == "response") {
+        return;
+    }
 
     // 2. One full slip-circle search on the demo section at 6 m.
     let st = e.initial_state();

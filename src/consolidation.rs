@@ -54,6 +54,14 @@ pub struct Element {
     pub mv_lin: f64,
 }
 
+/// log10 x by the natural logarithm, which costs the C library about half
+/// as much as its base-10 one; the two differ at most in the last bits
+/// (relative 3e-16), far below the storage iteration's tolerance (the
+/// module tests compare the step with a plain one using `f64::log10`).
+fn log10(x: f64) -> f64 {
+    x.ln() * std::f64::consts::LOG10_E
+}
+
 /// Convergence tolerance of the storage iteration, kPa.
 const PICARD_TOL_KPA: f64 = 1e-3;
 /// Iteration limit of the storage iteration (the last iterate is kept and
@@ -94,19 +102,43 @@ pub struct ColumnState {
     /// step (empty after a change of load).
     du_prev: Vec<f64>,
     dt_prev: f64,
+    /// Scratch vectors of the step (no meaning between steps).
+    work: Scratch,
 }
 
-/// A trial solution of a step and the strains at the step's start, for the
-/// secant storage.
-#[derive(Clone, Copy)]
-struct Trial<'a> {
-    u: &'a [f64],
+/// Scratch vectors of a column step, kept with the state so that a step
+/// does not allocate. A clone starts empty (the next step sizes it again).
+#[derive(Debug, Default)]
+struct Scratch {
+    /// K = k/γw per element, m²/(kPa·day).
+    k: Vec<f64>,
+    /// σ'v at each node at the start of the step (after the load change), kPa.
+    s_old: Vec<f64>,
+    /// Per node: log10 σ'max and log10 σ' (at least 1e-3 kPa) at the start
+    /// of the step, and log10 σ' of the trial solution.
+    log_smax: Vec<f64>,
+    log_s: Vec<f64>,
+    log_new: Vec<f64>,
     /// Strain at each element's (top, bottom) end at the start of the step.
-    eps_old: &'a [[f64; 2]],
-    /// log10 σ'max at each node at the start of the step.
-    log_smax: &'a [f64],
-    /// log10 σ' of the trial at each node (at least 1e-3 kPa).
-    log_s: &'a [f64],
+    eps_old: Vec<[f64; 2]>,
+    /// The parts of the tridiagonal system that are the same in every pass
+    /// of a step: sub- and super-diagonal, θ(up + down + r) on the
+    /// diagonal, (1 − θ)·flux on the right-hand side.
+    lower: Vec<f64>,
+    upper: Vec<f64>,
+    diag: Vec<f64>,
+    rhs: Vec<f64>,
+    /// Diagonal and right-hand side of one pass; the solution replaces `d`.
+    b: Vec<f64>,
+    d: Vec<f64>,
+    /// The storage iteration's current iterate of u at the end of the step.
+    u: Vec<f64>,
+}
+
+impl Clone for Scratch {
+    fn clone(&self) -> Scratch {
+        Scratch::default()
+    }
 }
 
 impl Column {
@@ -125,8 +157,8 @@ impl Column {
                 h_m: w[1].z_m - w[0].z_m,
                 clay: m.clay,
                 sp0: [a.sigma_p0_kpa, b.sigma_p0_kpa],
-                log_s0: [a.sigma_v0_eff_kpa.log10(), b.sigma_v0_eff_kpa.log10()],
-                log_sp0: [a.sigma_p0_kpa.log10(), b.sigma_p0_kpa.log10()],
+                log_s0: [log10(a.sigma_v0_eff_kpa), log10(b.sigma_v0_eff_kpa)],
+                log_sp0: [log10(a.sigma_p0_kpa), log10(b.sigma_p0_kpa)],
                 mv_lin,
             });
         }
@@ -144,6 +176,7 @@ impl Column {
             implicit_left: 0,
             du_prev: Vec::new(),
             dt_prev: 0.0,
+            work: Scratch::default(),
         }
     }
 
@@ -190,31 +223,31 @@ impl Column {
     }
 
     /// Storage mv·h/2 of element e at its end `end` (0 top, 1 bottom). With
-    /// `u_new` (a trial solution of the step) in stress-dependent mode, mv is
-    /// the secant (ε(σ'new) − ε(σ'old)) / (σ'new − σ'old) of the e–log σ'
-    /// law, so that the step conserves volume exactly (the modified Picard
-    /// scheme of Celia, Bouloutas & Zarba 1990); without it, the tangent at
-    /// the start of the step.
-    fn storage(&self, st: &ColumnState, e: usize, end: usize, u_new: Option<Trial>) -> f64 {
+    /// `trial` (the iterate `w.u` of the step's solution) in stress-dependent
+    /// mode, mv is the secant (ε(σ'new) − ε(σ'old)) / (σ'new − σ'old) of the
+    /// e–log σ' law, so that the step conserves volume exactly (the modified
+    /// Picard scheme of Celia, Bouloutas & Zarba 1990); without it, the
+    /// tangent at the start of the step.
+    fn storage(&self, st: &ColumnState, w: &Scratch, e: usize, end: usize, trial: bool) -> f64 {
         let el = &self.elements[e];
-        let Some(c) = el.clay else { return 0.0 };
+        let Some(c) = &el.clay else { return 0.0 };
         let i = e + end;
-        let mv = match (self.mode, u_new) {
+        let mv = match (self.mode, trial) {
             (ConsolidationMode::Linear, _) => el.mv_lin,
-            (ConsolidationMode::StressDependent, None) => {
-                ground::mv_tangent(&c, self.sigma_eff(st, i), el.sp0[end].max(st.smax[i]))
+            (ConsolidationMode::StressDependent, false) => {
+                ground::mv_tangent(c, w.s_old[i], el.sp0[end].max(st.smax[i]))
             }
-            (ConsolidationMode::StressDependent, Some(t)) => {
-                let s_old = self.sigma_eff(st, i);
-                let s_new = s_old + st.u[i] - t.u[i];
+            (ConsolidationMode::StressDependent, true) => {
+                let s_old = w.s_old[i];
+                let s_new = s_old + st.u[i] - w.u[i];
                 let sp = el.sp0[end].max(st.smax[i]);
                 if (s_new - s_old).abs() < 1e-6 {
-                    ground::mv_tangent(&c, s_old, sp)
+                    ground::mv_tangent(c, s_old, sp)
                 } else {
-                    let l_s = t.log_s[i];
-                    let l_smax = if s_new > st.smax[i] { l_s } else { t.log_smax[i] };
-                    let eps_new = ground::strain_log10(&c, el.log_s0[end], el.log_sp0[end], l_smax, l_s);
-                    (eps_new - t.eps_old[e][end]) / (s_new - s_old)
+                    let l_s = w.log_new[i];
+                    let l_smax = if s_new > st.smax[i] { l_s } else { w.log_smax[i] };
+                    let eps_new = ground::strain_log10(c, el.log_s0[end], el.log_sp0[end], l_smax, l_s);
+                    (eps_new - w.eps_old[e][end]) / (s_new - s_old)
                 }
             }
         };
@@ -241,6 +274,16 @@ impl Column {
         rule: PorePressureRule,
         dt_days: f64,
     ) -> bool {
+        let theta = self.apply_load(st, new_load, rule);
+        let converged = self.diffuse(st, dt_days, theta);
+        self.raise_smax(st);
+        converged
+    }
+
+    /// Take up new total stress increments, generating excess pore pressure
+    /// by `rule`; returns the step's θ (1 on a step with a load change and
+    /// the two after it, else 0.5).
+    fn apply_load(&self, st: &mut ColumnState, new_load: &[crate::load::Stress], rule: PorePressureRule) -> f64 {
         let mut changed = false;
         let mut jump: f64 = 0.0;
         for (i, new) in new_load.iter().enumerate() {
@@ -266,14 +309,17 @@ impl Column {
         }
         let theta = if st.implicit_left > 0 { 1.0 } else { 0.5 };
         st.implicit_left = st.implicit_left.saturating_sub(1);
-        let converged = self.diffuse(st, dt_days, theta);
+        theta
+    }
+
+    /// Record σ'max after a step.
+    fn raise_smax(&self, st: &mut ColumnState) {
         for i in 0..self.nodes.len() {
             let s = self.sigma_eff(st, i);
             if s > st.smax[i] {
                 st.smax[i] = s;
             }
         }
-        converged
     }
 
     /// One θ-scheme step of the diffusion–sink equation. Conductivities are
@@ -284,101 +330,145 @@ impl Column {
     /// crosses σ'p within a step.
     /// Returns whether the iteration converged.
     fn diffuse(&self, st: &mut ColumnState, dt: f64, theta: f64) -> bool {
-        let ne = self.elements.len();
-        let k: Vec<f64> = (0..ne).map(|e| self.conductivity(st, e)).collect();
-        let mut converged = self.mode != ConsolidationMode::StressDependent;
+        let mut w = std::mem::take(&mut st.work);
+        self.prepare(st, &mut w, theta);
+        let stress_dependent = self.mode == ConsolidationMode::StressDependent;
         // First iterate: under constant load, the previous step's change
         // scaled to this step (the storage iteration then usually needs one
         // pass); after a change of load, the step with the tangent storage.
-        let mut u = if !converged && st.du_prev.len() == st.u.len() && st.dt_prev > 0.0 {
+        if stress_dependent && st.du_prev.len() == st.u.len() && st.dt_prev > 0.0 {
             let f = dt / st.dt_prev;
-            st.u.iter().zip(&st.du_prev).map(|(u, d)| u + f * d).collect()
+            w.u.clear();
+            w.u.extend(st.u.iter().zip(&st.du_prev).map(|(u, d)| u + f * d));
         } else {
-            self.solve_step(st, &k, dt, theta, None)
-        };
-        if !converged {
-            // Strains at the start of the step and log10 σ'max, the same in
-            // every pass.
-            let log_smax: Vec<f64> = st.smax.iter().map(|s| s.log10()).collect();
-            let mut log_new = vec![0.0; ne + 1];
-            let log_s: Vec<f64> = (0..=ne).map(|i| self.sigma_eff(st, i).max(1e-3).log10()).collect();
-            let eps_old: Vec<[f64; 2]> = (0..ne)
-                .map(|e| {
-                    [0, 1].map(|end| self.strain_at(e, end, log_smax[e + end].max(log_s[e + end]), log_s[e + end]))
-                })
-                .collect();
-            let (mut omega, mut prev): (f64, f64) = (1.0, f64::INFINITY);
-            for it in 0..PICARD_MAX {
-                // log10 σ' of the trial at each node, shared by both
-                // elements that meet there.
-                for (i, l) in log_new.iter_mut().enumerate() {
-                    let s_old = self.sigma_eff(st, i);
-                    *l = (s_old + st.u[i] - u[i]).max(1e-3).log10();
-                }
-                let trial = Trial { u: &u, eps_old: &eps_old, log_smax: &log_smax, log_s: &log_new };
-                let next = self.solve_step(st, &k, dt, theta, Some(trial));
-                let residual = next.iter().zip(&u).map(|(a, b)| (a - b).abs()).fold(0.0, f64::max);
-                if residual < PICARD_TOL_KPA {
-                    u = next;
-                    converged = true;
-                    break;
-                }
-                // Where σ' crosses σ'p the secant mv changes steeply with
-                // the trial solution and plain iteration oscillates: the
-                // relaxation factor is halved whenever the residual falls
-                // by less than 10% in a pass (down to 1/256).
-                if it >= PICARD_UNDAMPED && residual > 0.9 * prev {
-                    omega = (0.5 * omega).max(1.0 / 256.0);
-                }
-                prev = residual;
-                for (o, n) in u.iter_mut().zip(&next) {
-                    *o += omega * (n - *o);
-                }
-            }
+            self.solve_pass(st, &mut w, dt, false);
+            w.u.clone_from(&w.d);
         }
-        if self.mode == ConsolidationMode::StressDependent {
+        let converged = !stress_dependent || self.iterate(st, &mut w, dt);
+        if stress_dependent {
             st.du_prev.clear();
-            st.du_prev.extend(u.iter().zip(&st.u).map(|(n, o)| n - o));
+            st.du_prev.extend(w.u.iter().zip(&st.u).map(|(n, o)| n - o));
             st.dt_prev = dt;
         }
-        st.u.copy_from_slice(&u);
+        st.u.copy_from_slice(&w.u);
+        st.work = w;
         converged
     }
 
-    /// Assemble and solve one θ-step from `st` with conductances K = k/γw per
-    /// element and the storage of `storage(…, trial)`; returns the new u.
-    fn solve_step(&self, st: &ColumnState, k: &[f64], dt: f64, theta: f64, trial: Option<Trial>) -> Vec<f64> {
-        let n = self.nodes.len();
-        let ne = self.elements.len();
-        let (mut a, mut b, mut c, mut d) = (vec![0.0; n], vec![0.0; n], vec![0.0; n], vec![0.0; n]);
+    /// The storage iteration of a stress-dependent step from the first
+    /// iterate in `w.u`; the answer is left in `w.u`. Returns whether it
+    /// converged.
+    fn iterate(&self, st: &ColumnState, w: &mut Scratch, dt: f64) -> bool {
+        self.start_strains(st, w);
+        let (mut omega, mut prev): (f64, f64) = (1.0, f64::INFINITY);
+        for it in 0..PICARD_MAX {
+            // log10 σ' of the trial at each free node, shared by both
+            // elements that meet there.
+            for i in 0..self.nodes.len() {
+                if !self.fixed[i] {
+                    w.log_new[i] = log10((w.s_old[i] + st.u[i] - w.u[i]).max(1e-3));
+                }
+            }
+            self.solve_pass(st, w, dt, true);
+            let residual = w.d.iter().zip(&w.u).map(|(a, b)| (a - b).abs()).fold(0.0, f64::max);
+            if residual < PICARD_TOL_KPA {
+                std::mem::swap(&mut w.u, &mut w.d);
+                return true;
+            }
+            // Where σ' crosses σ'p the secant mv changes steeply with
+            // the trial solution and plain iteration oscillates: the
+            // relaxation factor is halved whenever the residual falls
+            // by less than 10% in a pass (down to 1/256).
+            if it >= PICARD_UNDAMPED && residual > 0.9 * prev {
+                omega = (0.5 * omega).max(1.0 / 256.0);
+            }
+            prev = residual;
+            for (o, n) in w.u.iter_mut().zip(&w.d) {
+                *o += omega * (n - *o);
+            }
+        }
+        false
+    }
+
+    /// log10 σ'max, log10 σ' and the strains at the start of the step, the
+    /// same in every pass (at free nodes, the only ones with storage).
+    fn start_strains(&self, st: &ColumnState, w: &mut Scratch) {
+        for i in 0..self.nodes.len() {
+            if !self.fixed[i] {
+                w.log_smax[i] = log10(st.smax[i]);
+                w.log_s[i] = log10(w.s_old[i].max(1e-3));
+            }
+        }
+        for (e, eps) in w.eps_old.iter_mut().enumerate() {
+            for (end, eps) in eps.iter_mut().enumerate() {
+                let i = e + end;
+                if !self.fixed[i] {
+                    *eps = self.strain_at(e, end, w.log_smax[i].max(w.log_s[i]), w.log_s[i]);
+                }
+            }
+        }
+    }
+
+    /// Conductances, σ' at the start of the step and the parts of the
+    /// θ-scheme's tridiagonal system that do not depend on the storage.
+    fn prepare(&self, st: &ColumnState, w: &mut Scratch, theta: f64) {
+        let (n, ne) = (self.nodes.len(), self.elements.len());
+        w.k.clear();
+        w.k.extend((0..ne).map(|e| self.conductivity(st, e)));
+        w.s_old.clear();
+        w.s_old.extend((0..n).map(|i| self.sigma_eff(st, i)));
+        for v in [&mut w.log_smax, &mut w.log_s, &mut w.log_new, &mut w.lower, &mut w.upper, &mut w.diag] {
+            v.resize(n, 0.0);
+        }
+        for v in [&mut w.rhs, &mut w.b, &mut w.d] {
+            v.resize(n, 0.0);
+        }
+        w.eps_old.resize(ne, [0.0; 2]);
+        let (k, u) = (&w.k, &st.u);
         for i in 0..n {
             if self.fixed[i] {
-                b[i] = 1.0;
+                (w.lower[i], w.upper[i], w.diag[i], w.rhs[i]) = (0.0, 0.0, 1.0, 0.0);
                 continue;
             }
             let up = if i > 0 { k[i - 1] / self.elements[i - 1].h_m } else { 0.0 };
             let down = if i < ne { k[i] / self.elements[i].h_m } else { 0.0 };
-            let mut s = 0.0;
             let mut r = 0.0;
             if i > 0 {
-                s += self.storage(st, i - 1, 1, trial);
                 r += self.sink(i - 1, i, k[i - 1]);
             }
             if i < ne {
-                s += self.storage(st, i, 0, trial);
                 r += self.sink(i, i, k[i]);
             }
-            let u = &st.u;
             let uu = if i > 0 { u[i - 1] } else { 0.0 };
             let ud = if i + 1 < n { u[i + 1] } else { 0.0 };
             let flux = down * (ud - u[i]) - up * (u[i] - uu) - r * u[i];
-            a[i] = -theta * up;
-            c[i] = -theta * down;
-            b[i] = s / dt + theta * (up + down + r);
-            d[i] = s / dt * u[i] + (1.0 - theta) * flux;
+            w.lower[i] = -theta * up;
+            w.upper[i] = -theta * down;
+            w.diag[i] = theta * (up + down + r);
+            w.rhs[i] = (1.0 - theta) * flux;
         }
-        thomas(&a, &mut b, &c, &mut d);
-        d
+    }
+
+    /// Assemble and solve one pass of the θ-step with the storage of
+    /// `storage(…, trial)`; the new u is left in `w.d`.
+    fn solve_pass(&self, st: &ColumnState, w: &mut Scratch, dt: f64, trial: bool) {
+        let ne = self.elements.len();
+        for i in 0..self.nodes.len() {
+            if self.fixed[i] {
+                (w.b[i], w.d[i]) = (1.0, 0.0);
+                continue;
+            }
+            let mut s = 0.0;
+            if i > 0 {
+                s += self.storage(st, w, i - 1, 1, trial);
+            }
+            if i < ne {
+                s += self.storage(st, w, i, 0, trial);
+            }
+            w.b[i] = s / dt + w.diag[i];
+            w.d[i] = s / dt * st.u[i] + w.rhs[i];
+        }
+        thomas(&w.lower, &mut w.b, &w.upper, &mut w.d);
     }
 
     /// Radial sink conductance of element e's half-cell at node i, given the
@@ -397,16 +487,21 @@ impl Column {
     /// Settlement of the column, m (positive down).
     pub fn settlement(&self, st: &ColumnState) -> f64 {
         let mut s = 0.0;
+        // (node, log10 max(σ'max, σ'), log10 σ') of the last node evaluated,
+        // shared by the two elements that meet there.
+        let mut logs = (usize::MAX, 0.0, 0.0);
         for (e, el) in self.elements.iter().enumerate() {
-            let Some(c) = el.clay else { continue };
+            let Some(c) = &el.clay else { continue };
             for end in 0..2 {
                 let i = e + end;
                 let se = self.sigma_eff(st, i);
                 let eps = match self.mode {
                     ConsolidationMode::Linear => el.mv_lin * (se - self.nodes[i].sigma_v0_eff_kpa),
                     ConsolidationMode::StressDependent => {
-                        let s0 = self.nodes[i].sigma_v0_eff_kpa;
-                        ground::strain(&c, s0, el.sp0[end], st.smax[i].max(se), se)
+                        if logs.0 != i {
+                            logs = (i, log10(st.smax[i].max(se)), log10(se.max(1e-3)));
+                        }
+                        ground::strain_log10(c, el.log_s0[end], el.log_sp0[end], logs.1, logs.2)
                     }
                 };
                 s += 0.5 * el.h_m * eps;
@@ -526,6 +621,9 @@ fn thomas(a: &[f64], b: &mut [f64], c: &[f64], d: &mut [f64]) {
         d[i] = (d[i] - c[i] * d[i + 1]) / b[i];
     }
 }
+
+#[cfg(test)]
+mod reference;
 
 #[cfg(test)]
 mod tests {
