@@ -591,9 +591,13 @@ fn sequence(
                 format!("= {start} is before project.start_date ({})", info.start_date),
             );
         }
-        if let Some(prev) = out.last() {
+        // The overlap check needs a valid rate and thickness (bad values are
+        // reported above and would give a meaningless day count).
+        let rate_ok = (0.0..=5.0).contains(&k.placement_rate_m_per_day) && k.placement_rate_m_per_day > 0.0;
+        if let Some(prev) = out.last().filter(|p| rate_ok && p.thickness_m > 0.0 && p.thickness_m <= k.lift_max_m) {
             let days = (prev.thickness_m / k.placement_rate_m_per_day).ceil() as i64;
-            if start <= prev.start + chrono::Duration::days(days.max(1) - 1) {
+            let last_day = crate::schedule::calendar::shift(prev.start, days.max(1) - 1, "the end of a lift");
+            if last_day.is_ok_and(|end| start <= end) {
                 c.bad(
                     &format!("{key}.start_date"),
                     format!(
