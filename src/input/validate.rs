@@ -42,7 +42,7 @@ impl Check<'_> {
         if !v.is_finite() {
             self.bad(key, format!("= {v} is not a finite number; allowed: {low_text} ≤ {high}"));
         } else if !ok_low || v > high {
-            self.bad(key, format!("= {v} is out of range; allowed: {low_text} ≤ {high}"));
+            self.bad(key, format!("= {} is out of range; allowed: {low_text} ≤ {high}", show(v)));
         }
         v
     }
@@ -92,6 +92,12 @@ impl Check<'_> {
             },
         }
     }
+}
+
+/// A number as written in a message: plain, or in exponent form when very
+/// large or very small (1e300, not three hundred digits).
+fn show(v: f64) -> String {
+    if v != 0.0 && !(1e-6..1e9).contains(&v.abs()) { format!("{v:e}") } else { format!("{v}") }
 }
 
 /// Validate the whole raw project.
@@ -612,7 +618,10 @@ fn sequence(
     }
     let limit = e.design_height_m + e.surcharge_height_m;
     if total > limit + 1e-9 {
-        c.bad("sequence", format!("lifts add up to {total:.2} m, above design height plus surcharge ({limit:.2} m)"));
+        c.bad(
+            "sequence",
+            format!("lifts add up to {} m, above design height plus surcharge ({limit:.2} m)", show((total * 100.0).round() / 100.0)),
+        );
     }
     out
 }
