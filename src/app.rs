@@ -15,6 +15,7 @@ use crate::schedule::{Runner, assess, planner};
 use crate::stability::{Circle, Section, search};
 use crate::{input, output};
 use chrono::NaiveDate;
+use clap::CommandFactory;
 use std::path::{Path, PathBuf};
 
 /// The bundled demo project (examples/kestrel-fen.toml).
@@ -22,8 +23,29 @@ pub const DEMO: &str = include_str!("../examples/kestrel-fen.toml");
 /// The commented starter project written by `fillpace new`.
 pub const TEMPLATE: &str = include_str!("../templates/project.toml");
 
+/// Whether progress bars are suppressed (`--quiet`); set by `run_with`.
+static QUIET: std::sync::atomic::AtomicBool = std::sync::atomic::AtomicBool::new(false);
+
 /// Run one command; returns what to print on standard output.
 pub fn run(cmd: &Command) -> Result<String> {
+    run_with(cmd, false)
+}
+
+/// Run one command; with `quiet` (for scripts) no progress bars are drawn
+/// and the `warning:` lines of the terminal text are left out. JSON output,
+/// files and errors are the same either way.
+pub fn run_with(cmd: &Command, quiet: bool) -> Result<String> {
+    if quiet {
+        QUIET.store(true, std::sync::atomic::Ordering::Relaxed);
+    }
+    let text = dispatch(cmd)?;
+    if quiet && !cmd.json() {
+        return Ok(text.split_inclusive('\n').filter(|l| !l.starts_with("warning: ")).collect());
+    }
+    Ok(text)
+}
+
+fn dispatch(cmd: &Command) -> Result<String> {
     match cmd {
         Command::New { dir, json } => new(dir, *json),
         Command::Check { project, step, json } => check(project, *step, *json),
@@ -64,6 +86,31 @@ pub fn run(cmd: &Command) -> Result<String> {
                 Ok(report::text::log_verified(&v))
             }
         }
+        Command::Completions { shell, json } => {
+            let mut buf = Vec::new();
+            clap_complete::generate(*shell, &mut crate::cli::Cli::command(), "fillpace", &mut buf);
+            generated(buf, "completions", "script", *json)
+        }
+        Command::Man { json } => {
+            let mut buf = Vec::new();
+            clap_mangen::Man::new(crate::cli::Cli::command())
+                .render(&mut buf)
+                .map_err(|e| Error::Computation(format!("the manual page could not be rendered: {e}")))?;
+            generated(buf, "man", "roff", *json)
+        }
+    }
+}
+
+/// Text generated from the command-line definitions, as is or in JSON
+/// under `field`.
+fn generated(bytes: Vec<u8>, command: &str, field: &str, json: bool) -> Result<String> {
+    let text = String::from_utf8(bytes).map_err(|e| Error::Computation(format!("{command}: not UTF-8: {e}")))?;
+    if json {
+        let mut v = serde_json::json!({ "fillpace": env!("CARGO_PKG_VERSION"), "command": command });
+        v[field] = text.into();
+        Ok(format!("{v}\n"))
+    } else {
+        Ok(text)
     }
 }
 
@@ -121,7 +168,7 @@ fn assess_cmd(path: &Path, tail: i64, csv: Option<&Path>, json: bool) -> Result<
     let runner = Runner::new(&engine);
     let a = assess::assess(&runner, tail)?;
     if let Some(out) = csv {
-        output::write_atomic(out, report::csv::series(&a).as_bytes())?;
+        output::write_atomic(out, &report::csv::series(&a)?)?;
     }
     if json {
         report::json::envelope("assess", &p, &path.display().to_string(), &a)
@@ -216,7 +263,7 @@ fn parse_circle(text: &str) -> Result<Circle> {
 /// None when standard error is not a terminal (nothing is drawn when piped).
 fn terminal_bar(len: u64, template: &str) -> Option<indicatif::ProgressBar> {
     use std::io::IsTerminal;
-    if !std::io::stderr().is_terminal() {
+    if QUIET.load(std::sync::atomic::Ordering::Relaxed) || !std::io::stderr().is_terminal() {
         return None;
     }
     let bar = indicatif::ProgressBar::new(len);
@@ -267,7 +314,7 @@ fn compare(path: &Path, vary: &[String], csv: Option<&Path>, pdf: Option<&Path>,
     let c = with_counter(total, "planning variants", |tick| crate::compare::compare(&doc, &axes, tick))?;
     let rep = report::CompareReport { project: &p, comparison: &c, source: doc.file.clone() };
     if let Some(out) = csv {
-        output::write_atomic(out, report::csv::comparison(&c, p.embankment.stage_shape).as_bytes())?;
+        output::write_atomic(out, &report::csv::comparison(&c, p.embankment.stage_shape)?)?;
     }
     if let Some(out) = pdf {
         output::write_atomic(out, &report::pdf::comparison(&rep, report::today())?)?;
@@ -388,7 +435,7 @@ fn plan(path: Option<&Path>, readings_file: Option<&Path>, outs: &PlanOutputs, j
     for (kind, out) in &files {
         let bytes = match *kind {
             "csv" => report::csv::Csv.serialize(&rep)?,
-            "ics" => report::ics::Ics.serialize(&rep)?,
+            "ics" => report::ics::Ics { written: report::now_utc() }.serialize(&rep)?,
             "pdf" => report::pdf::Pdf { report_date: report::today() }.serialize(&rep)?,
             _ => report::json::Json.serialize(&rep)?,
         };

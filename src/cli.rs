@@ -9,6 +9,10 @@ use std::path::PathBuf;
 #[derive(Debug, Parser)]
 #[command(name = "fillpace", version, about, propagate_version = true)]
 pub struct Cli {
+    /// For scripts: no progress bars and no `warning:` lines on the terminal
+    /// (results, files and errors are unchanged; warnings stay in --json).
+    #[arg(long, global = true)]
+    pub quiet: bool,
     #[command(subcommand)]
     pub command: Command,
 }
@@ -190,6 +194,60 @@ pub enum Command {
     /// The audit log of release decisions.
     #[command(subcommand)]
     Log(LogCommand),
+    /// Print a shell completion script (generated from these definitions).
+    #[command(
+        after_help = "Example:\n  fillpace completions bash > ~/.local/share/bash-completion/completions/fillpace\n  fillpace completions zsh > ~/.zfunc/_fillpace"
+    )]
+    Completions {
+        /// The shell to complete for.
+        shell: clap_complete::Shell,
+        /// Print JSON ({"script": ...}).
+        #[arg(long)]
+        json: bool,
+    },
+    /// Print the manual page (roff, generated from these definitions).
+    #[command(after_help = "Example:\n  fillpace man > fillpace.1 && man ./fillpace.1")]
+    Man {
+        /// Print JSON ({"roff": ...}).
+        #[arg(long)]
+        json: bool,
+    },
+}
+
+impl Command {
+    /// The command's name as typed (`log verify` for the subcommand).
+    pub fn name(&self) -> &'static str {
+        match self {
+            Command::New { .. } => "new",
+            Command::Check { .. } => "check",
+            Command::Assess { .. } => "assess",
+            Command::Stability { .. } => "stability",
+            Command::Plan { .. } => "plan",
+            Command::Compare { .. } => "compare",
+            Command::Risk { .. } => "risk",
+            Command::Release { .. } => "release",
+            Command::Log(LogCommand::Verify { .. }) => "log verify",
+            Command::Completions { .. } => "completions",
+            Command::Man { .. } => "man",
+        }
+    }
+
+    /// Whether `--json` was given (errors are then printed as JSON too).
+    pub fn json(&self) -> bool {
+        match self {
+            Command::New { json, .. }
+            | Command::Check { json, .. }
+            | Command::Assess { json, .. }
+            | Command::Stability { json, .. }
+            | Command::Plan { json, .. }
+            | Command::Compare { json, .. }
+            | Command::Risk { json, .. }
+            | Command::Release { json, .. }
+            | Command::Log(LogCommand::Verify { json, .. })
+            | Command::Completions { json, .. }
+            | Command::Man { json } => *json,
+        }
+    }
 }
 
 #[derive(Debug, Subcommand)]

@@ -53,6 +53,10 @@ pub enum Error {
     /// standard output) shows how far it can go and why not further.
     #[error("{reason}")]
     Unbuildable { reason: String, report: String },
+    /// A date computed from a day count lies outside the dates the calendar
+    /// can represent (day `day` counted from `start`).
+    #[error("day {day} after {start} is outside the representable calendar; {context}")]
+    DateOutOfRange { start: chrono::NaiveDate, day: i64, context: &'static str },
 }
 
 impl Error {
@@ -60,7 +64,7 @@ impl Error {
     pub fn exit_code(&self) -> i32 {
         match self {
             Error::Input { .. } | Error::Usage(_) | Error::Read { .. } => 2,
-            Error::Write { .. } | Error::Computation(_) | Error::Unbuildable { .. } => 1,
+            Error::Write { .. } | Error::Computation(_) | Error::Unbuildable { .. } | Error::DateOutOfRange { .. } => 1,
         }
     }
 
@@ -70,6 +74,41 @@ impl Error {
             Error::Unbuildable { report, .. } => Some(report),
             _ => None,
         }
+    }
+
+    /// Short machine-readable name of the kind of error.
+    pub fn kind(&self) -> &'static str {
+        match self {
+            Error::Read { .. } => "read",
+            Error::Input { .. } => "input",
+            Error::Usage(_) => "usage",
+            Error::Write { .. } => "write",
+            Error::Computation(_) => "computation",
+            Error::DateOutOfRange { .. } => "date-out-of-range",
+        }
+    }
+
+    /// The error as one JSON object (printed on standard output under
+    /// `--json`): kind, exit code, message, and for input errors the file
+    /// and each issue's line, key and message.
+    pub fn to_json(&self, command: &str) -> serde_json::Value {
+        let mut error = serde_json::json!({
+            "kind": self.kind(),
+            "exit_code": self.exit_code(),
+            "message": self.to_string(),
+        });
+        match self {
+            Error::Input { file, issues } => {
+                error["file"] = file.as_str().into();
+                error["issues"] = issues
+                    .iter()
+                    .map(|i| serde_json::json!({ "line": i.line, "key": i.key, "message": i.message }))
+                    .collect();
+            }
+            Error::Read { path, .. } | Error::Write { path, .. } => error["file"] = path.display().to_string().into(),
+            _ => {}
+        }
+        serde_json::json!({ "fillpace": env!("CARGO_PKG_VERSION"), "command": command, "error": error })
     }
 
     /// A single input issue.

@@ -114,12 +114,26 @@ fn stability_rejects_bad_heights_and_circles() {
 
 #[test]
 fn stability_of_one_user_circle() {
-    let out =
-        fillpace().args(["stability", DEMO, "--height", "3", "--json", "--circle", "29.5,4.2,8.7"]).output().unwrap();
+    // The critical circle of the search, given back as a user circle, must
+    // reproduce the search's FS (the same circle through the same analysis;
+    // the JSON carries the circle to full precision).
+    let search = fillpace().args(["stability", DEMO, "--height", "3", "--json"]).output().unwrap();
+    let crit = json_result(&search.stdout)["critical"].clone();
+    let c = &crit["circle"];
+    let text = format!("{},{},{}", c["xc_m"], c["yc_m"], c["r_m"]);
+    let out = fillpace().args(["stability", DEMO, "--height", "3", "--json", "--circle", &text]).output().unwrap();
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     let r = json_result(&out.stdout);
-    assert!(r["fs"].as_f64().unwrap() > 0.5);
-    assert!(r["slices"].as_u64().unwrap() >= 30);
+    let (fs, fs_crit) = (r["fs"].as_f64().unwrap(), crit["fs"].as_f64().unwrap());
+    assert!((fs - fs_crit).abs() < 1e-9, "user circle FS {fs} vs critical {fs_crit}");
+    assert_eq!(r["slices"], crit["slices"]);
+    // Any other circle is no lower than the critical one (the search
+    // minimises FS; a circle shifted 1 m towards the toe).
+    let shifted = format!("{},{},{}", c["xc_m"].as_f64().unwrap() + 1.0, c["yc_m"], c["r_m"]);
+    let out = fillpace().args(["stability", DEMO, "--height", "3", "--json", "--circle", &shifted]).output().unwrap();
+    if out.status.success() {
+        assert!(json_result(&out.stdout)["fs"].as_f64().unwrap() >= fs_crit - 1e-9);
+    }
 }
 
 #[test]
@@ -136,9 +150,21 @@ fn assess_writes_series_and_flags_the_unsafe_lift() {
     assert_eq!(last["safe"], false);
     assert!(last["safe_from"].as_str().unwrap() > last["proposed_start"].as_str().unwrap());
     let text = std::fs::read_to_string(&csv).unwrap();
-    assert!(text.starts_with("# stage geometry: full-footprint"), "{text}");
-    assert!(text.lines().nth(1).unwrap().starts_with("date,height_m,placed_m"));
-    assert!(text.lines().count() > 300);
+    let mut lines = text.lines();
+    assert!(lines.next().unwrap().starts_with("# fillpace "), "caution line first");
+    assert!(lines.next().unwrap().starts_with("# stage geometry: full-footprint"), "{text}");
+    assert!(lines.next().unwrap().starts_with("date,height_m,placed_m"));
+    // A row on every whole day the time steps reach (every day while
+    // filling, every rest step while resting), to 365 days (the default
+    // --tail-days) after the end of the last lift.
+    let step = load(DEMO).analysis.rest_step_days.ceil() as i64;
+    let dates: Vec<chrono::NaiveDate> = lines.map(|l| l.split(',').next().unwrap().parse().unwrap()).collect();
+    for w in dates.windows(2) {
+        assert!((1..=step).contains(&(w[1] - w[0]).num_days()), "gap {} to {}", w[0], w[1]);
+    }
+    let last_end: chrono::NaiveDate = lifts[4]["end"].as_str().unwrap().parse().unwrap();
+    let tail = (*dates.last().unwrap() - last_end).num_days();
+    assert!((365..=366).contains(&tail), "series ends {tail} days after the last lift");
 }
 
 #[test]
@@ -175,15 +201,40 @@ fn plan_outputs_csv_and_an_icalendar_that_parses() {
     let stages = plan["stages"].as_array().unwrap();
     let holds = stages.iter().filter(|s| !s["release"].is_null()).count();
     let table = std::fs::read_to_string(&csv).unwrap();
-    // A comment naming the stage geometry, the header row, one row a stage.
-    assert!(table.starts_with("# stage geometry: full-footprint"), "{table}");
-    assert_eq!(table.lines().count(), stages.len() + 2);
+    // The caution line, a comment naming the stage geometry, the header
+    // row, one row a stage.
+    assert!(table.lines().nth(1).unwrap().starts_with("# stage geometry: full-footprint"), "{table}");
+    assert_eq!(table.lines().count(), stages.len() + 3);
     // General-purpose iCalendar parser (icalendar crate, RFC 5545).
     let text = std::fs::read_to_string(&ics).unwrap();
     let unfolded = icalendar::parser::unfold(&text);
     let cal = icalendar::parser::read_calendar(&unfolded).expect("RFC 5545 calendar");
-    let events = cal.components.iter().filter(|c| c.name == "VEVENT").count();
-    assert_eq!(events, stages.len() + holds);
+    let events: Vec<_> = cal.components.iter().filter(|c| c.name == "VEVENT").collect();
+    assert_eq!(events.len(), stages.len() + holds);
+    // DTSTAMP is the time of writing (today, UTC), every event carries a
+    // SEQUENCE, and each lift event says to stop on any sign of distress.
+    let today = chrono::Utc::now().format("%Y%m%d").to_string();
+    let prop = |e: &icalendar::parser::Component, name: &str| {
+        e.properties.iter().find(|p| p.name == name).map(|p| p.val.to_string()).unwrap_or_default()
+    };
+    for e in &events {
+        assert!(prop(e, "DTSTAMP").starts_with(&today), "DTSTAMP {}", prop(e, "DTSTAMP"));
+        assert!(prop(e, "SEQUENCE").parse::<i64>().unwrap() > 0);
+        if prop(e, "SUMMARY").starts_with("Lift") {
+            assert!(prop(e, "DESCRIPTION").contains("Stop filling on any sign of distress"));
+        }
+    }
+    // Stable UIDs: a second export has the same UIDs and a SEQUENCE no lower.
+    let ics2 = dir.path().join("again.ics");
+    fillpace().args(["plan", DEMO, "--ics"]).arg(&ics2).assert().success();
+    let text2 = std::fs::read_to_string(&ics2).unwrap();
+    let unfolded2 = icalendar::parser::unfold(&text2);
+    let cal2 = icalendar::parser::read_calendar(&unfolded2).unwrap();
+    let events2: Vec<_> = cal2.components.iter().filter(|c| c.name == "VEVENT").collect();
+    for (a, b) in events.iter().zip(&events2) {
+        assert_eq!(prop(a, "UID"), prop(b, "UID"));
+        assert!(prop(b, "SEQUENCE").parse::<i64>().unwrap() >= prop(a, "SEQUENCE").parse::<i64>().unwrap());
+    }
 }
 
 #[test]
@@ -206,8 +257,32 @@ fn output_over_an_input_is_refused() {
 #[test]
 fn help_and_version() {
     fillpace().arg("--version").assert().success().stdout(predicate::str::contains(env!("CARGO_PKG_VERSION")));
-    for cmd in ["new", "check", "assess", "stability", "plan"] {
-        fillpace().args([cmd, "--help"]).assert().success().stdout(predicate::str::contains("Example"));
+    // Every command of the clap definition, subcommands included, has a
+    // help page ending with an example.
+    use clap::CommandFactory;
+    fn leaves(c: &clap::Command, prefix: &[String], out: &mut Vec<Vec<String>>) {
+        for s in c.get_subcommands().filter(|s| s.get_name() != "help") {
+            let mut path = prefix.to_vec();
+            path.push(s.get_name().to_string());
+            if s.has_subcommands() {
+                leaves(s, &path, out);
+            } else {
+                out.push(path);
+            }
+        }
+    }
+    let mut all = Vec::new();
+    leaves(&fillpace::cli::Cli::command(), &[], &mut all);
+    let names: Vec<String> = all.iter().map(|p| p.join(" ")).collect();
+    for expected in ["new", "check", "assess", "stability", "plan", "compare", "risk", "release", "log verify"] {
+        assert!(names.iter().any(|n| n == expected), "{expected} missing from {names:?}");
+    }
+    for path in &all {
+        let out = fillpace().args(path).arg("--help").output().unwrap();
+        assert!(out.status.success(), "{path:?}");
+        let help = String::from_utf8_lossy(&out.stdout);
+        assert!(help.contains("Example:\n  fillpace "), "{path:?} help has no example:\n{help}");
+        assert!(help.contains("--quiet"), "{path:?} help lacks the global --quiet");
     }
 }
 
@@ -246,6 +321,21 @@ fn plan_pdf_has_every_section_stage_hash_and_caution() {
     assert!(flat.contains(&sha), "SHA-256 missing");
     assert!(flat.contains("licensed geotechnical engineer"));
     assert!(flat.contains(&format!("Page 1 of {}", pages.len())));
+    // Program version on every page's title block; the metadata carries the
+    // time of writing (this year, not 1970) and the version.
+    let version = format!("fillpace {}", env!("CARGO_PKG_VERSION"));
+    for p in &pages {
+        assert!(doc.extract_text(&[*p]).unwrap().contains(&version), "page {p} lacks {version}");
+    }
+    let info = doc.trailer.get(b"Info").and_then(|o| o.as_reference()).and_then(|r| doc.get_dictionary(r)).unwrap();
+    let created = String::from_utf8_lossy(info.get(b"CreationDate").unwrap().as_str().unwrap()).into_owned();
+    let year = chrono::Utc::now().format("%Y").to_string();
+    assert!(created.trim_start_matches("D:").starts_with(&year), "CreationDate {created}");
+    // PDF text strings here are UTF-16BE with a byte-order mark (ISO 32000-1 §7.9.2.2).
+    let producer = info.get(b"Producer").unwrap().as_str().unwrap();
+    let units: Vec<u16> = producer.strip_prefix(&[0xFE, 0xFF]).unwrap_or(producer).chunks(2).map(|c| u16::from_be_bytes([c[0], c[c.len() - 1]])).collect();
+    let producer = if producer.starts_with(&[0xFE, 0xFF]) { String::from_utf16_lossy(&units) } else { String::from_utf8_lossy(producer).into_owned() };
+    assert!(producer.contains(&version), "Producer {producer}");
 }
 
 #[test]
@@ -275,4 +365,117 @@ fn every_output_names_the_stage_geometry() {
         .assert()
         .success()
         .stdout(predicate::str::contains("Stage geometry: full-footprint"));
+}
+
+/// Write `text` with `edit` applied to the demo into a temporary folder.
+fn demo_variant(dir: &std::path::Path, name: &str, edit: impl Fn(&str) -> String) -> std::path::PathBuf {
+    let path = dir.join(name);
+    std::fs::write(&path, edit(&std::fs::read_to_string(root(DEMO)).unwrap())).unwrap();
+    path
+}
+
+#[test]
+fn zero_placement_rate_and_huge_lift_are_refused_not_panics() {
+    // Issue 16 §1: both used to panic in date arithmetic (exit 101).
+    let dir = tempfile::tempdir().unwrap();
+    let rate0 = demo_variant(dir.path(), "rate0.toml", |t| {
+        t.replace("placement_rate_m_per_day = 0.25", "placement_rate_m_per_day = 0")
+    });
+    let line = std::fs::read_to_string(&rate0).unwrap().lines().position(|l| l.starts_with("placement_rate")).unwrap() + 1;
+    for cmd in ["check", "assess", "plan"] {
+        let out = fillpace().arg(cmd).arg(&rate0).output().unwrap();
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert_eq!(out.status.code(), Some(2), "{cmd}: {err}");
+        assert!(err.contains(&format!("rate0.toml:{line}: construction.placement_rate_m_per_day")), "{err}");
+        assert!(!err.contains("panicked"), "{err}");
+    }
+    let huge = demo_variant(dir.path(), "huge.toml", |t| t.replacen("thickness_m = 2.5", "thickness_m = 1e300", 1));
+    let out = fillpace().arg("check").arg(&huge).output().unwrap();
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2), "{err}");
+    assert!(err.contains("sequence[0].thickness_m = 1e300 is out of range"), "{err}");
+}
+
+#[test]
+fn closed_pipe_ends_quietly_and_a_full_disk_is_one_line() {
+    use std::io::Read;
+    use std::process::{Command, Stdio};
+    // The reader takes nothing and closes the pipe (as `| head -0` would).
+    let mut child = Command::new(env!("CARGO_BIN_EXE_fillpace"))
+        .args(["check", &root(DEMO).display().to_string()])
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    drop(child.stdout.take());
+    let status = child.wait().unwrap();
+    let mut err = String::new();
+    child.stderr.take().unwrap().read_to_string(&mut err).unwrap();
+    assert_eq!(status.code(), Some(0), "{err}");
+    assert!(err.is_empty(), "{err}");
+    // /dev/full: every write fails with ENOSPC (Linux).
+    if let Ok(full) = std::fs::OpenOptions::new().write(true).open("/dev/full") {
+        let out = Command::new(env!("CARGO_BIN_EXE_fillpace"))
+            .args(["check", &root(DEMO).display().to_string()])
+            .stdout(full)
+            .output()
+            .unwrap();
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert_eq!(out.status.code(), Some(1), "{err}");
+        assert_eq!(err.lines().count(), 1, "{err}");
+        assert!(err.starts_with("error: cannot write standard output"), "{err}");
+    }
+}
+
+#[test]
+fn json_errors_are_one_object_on_stdout() {
+    let out = fillpace().args(["check", "tests/data/bad/sequence-lift-too-thick.toml", "--json"]).output().unwrap();
+    assert_eq!(out.status.code(), Some(2));
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).expect("one JSON object");
+    assert_eq!(v["command"], "check");
+    assert_eq!(v["error"]["exit_code"], 2);
+    assert_eq!(v["error"]["kind"], "input");
+    let issue = &v["error"]["issues"][0];
+    assert!(issue["key"].as_str().unwrap().starts_with("sequence"), "{issue}");
+    assert!(issue["line"].as_u64().unwrap() > 0);
+    assert!(String::from_utf8_lossy(&out.stderr).starts_with("error: "));
+    // A usage error too, with the same exit code as without --json.
+    let out = fillpace().args(["stability", DEMO, "--height", "50", "--json"]).output().unwrap();
+    assert_eq!(out.status.code(), Some(2));
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert!(v["error"]["message"].as_str().unwrap().contains("--height"));
+}
+
+#[test]
+fn completions_and_man_page_come_from_the_definitions() {
+    for shell in ["bash", "zsh", "fish", "elvish", "powershell"] {
+        let out = fillpace().args(["completions", shell]).output().unwrap();
+        assert!(out.status.success(), "{shell}");
+        let s = String::from_utf8_lossy(&out.stdout);
+        for word in ["stability", "max-failure-probability", "verify"] {
+            assert!(s.contains(word), "{shell} completions lack {word}");
+        }
+    }
+    fillpace().args(["completions", "tcsh"]).assert().code(2);
+    let man = fillpace().arg("man").output().unwrap();
+    assert!(man.status.success());
+    let roff = String::from_utf8_lossy(&man.stdout);
+    assert!(roff.starts_with(".ie") || roff.contains(".TH fillpace"), "{}", &roff[..roff.len().min(200)]);
+    for word in ["release", "compare", "quiet"] {
+        assert!(roff.contains(word), "man page lacks {word}");
+    }
+}
+
+#[test]
+fn quiet_drops_warning_lines_only() {
+    // The template's plan carries a warning line.
+    let loud = fillpace().args(["plan", "templates/project.toml"]).output().unwrap();
+    let quiet = fillpace().args(["plan", "templates/project.toml", "--quiet"]).output().unwrap();
+    assert!(loud.status.success() && quiet.status.success());
+    let (loud, quiet) = (String::from_utf8_lossy(&loud.stdout), String::from_utf8_lossy(&quiet.stdout));
+    assert!(loud.lines().any(|l| l.starts_with("warning: ")), "no warning to suppress:\n{loud}");
+    let kept: String = loud.split_inclusive('\n').filter(|l| !l.starts_with("warning: ")).collect();
+    assert_eq!(quiet, kept);
+    assert!(quiet.contains("CAUTIONS") && quiet.contains("Lift timetable"));
+    assert!(quiet.trim_end().ends_with(&format!("fillpace {}", env!("CARGO_PKG_VERSION"))), "version footer");
 }

@@ -56,7 +56,7 @@ fn demo_plan_is_safe_and_not_needlessly_slow() {
             let prev = lifts[k - 1];
             let earlier = s.start - chrono::Duration::days(7);
             let cal = fillpace::schedule::calendar::Calendar::new(p.info.start_date, c);
-            let earlier_start = cal.next_workable(cal.day_of(earlier)).map(|d| cal.date(d));
+            let earlier_start = cal.next_workable(cal.day_of(earlier)).and_then(|d| cal.date(d).ok());
             if prev.rest_days > c.min_rest_days as i64 + 7 && earlier_start < Some(s.start) {
                 let fs_early = replay_fs(&p, &done, earlier, s.thickness_m);
                 assert!(fs_early < target, "lift {} could start a week earlier (FS {fs_early})", s.number);

@@ -39,3 +39,29 @@ fn check_corpus_replays() {
         + replay("fuzz/regressions/check", fillpace::fuzzing::check);
     assert!(n >= 5, "only {n} inputs");
 }
+
+#[test]
+fn plan_corpus_replays() {
+    let n = replay("fuzz/corpus/plan", fillpace::fuzzing::plan) + replay("fuzz/regressions/plan", fillpace::fuzzing::plan);
+    assert!(n >= 5, "only {n} inputs");
+}
+
+#[test]
+fn stability_corpus_replays() {
+    let n = replay("fuzz/corpus/stability", fillpace::fuzzing::stability)
+        + replay("fuzz/regressions/stability", fillpace::fuzzing::stability);
+    assert!(n >= 5, "only {n} inputs");
+}
+
+/// The engine targets must reach the engines: every seed of the corpus
+/// makes a valid project (a seed that fails validation tests nothing).
+#[test]
+fn engine_seeds_make_valid_projects() {
+    for dir in ["fuzz/corpus/plan", "fuzz/corpus/stability"] {
+        for entry in std::fs::read_dir(Path::new(env!("CARGO_MANIFEST_DIR")).join(dir)).unwrap() {
+            let file = entry.unwrap().path();
+            let bytes = std::fs::read(&file).unwrap();
+            assert!(fillpace::fuzzing::extreme_project(&bytes[1..]).is_some(), "{} is not valid", file.display());
+        }
+    }
+}

@@ -44,7 +44,7 @@ impl Check<'_> {
         if !v.is_finite() {
             self.bad(key, format!("= {v} is not a finite number; allowed: {low_text} ≤ {high}"));
         } else if !ok_low || v > high {
-            self.bad(key, format!("= {v} is out of range; allowed: {low_text} ≤ {high}"));
+            self.bad(key, format!("= {} is out of range; allowed: {low_text} ≤ {high}", show(v)));
         }
         v
     }
@@ -94,6 +94,12 @@ impl Check<'_> {
             },
         }
     }
+}
+
+/// A number as written in a message: plain, or in exponent form when very
+/// large or very small (1e300, not three hundred digits).
+fn show(v: f64) -> String {
+    if v != 0.0 && !(1e-6..1e9).contains(&v.abs()) { format!("{v:e}") } else { format!("{v}") }
 }
 
 /// Validate the whole raw project.
@@ -608,9 +614,13 @@ fn sequence(
                 format!("= {start} is before project.start_date ({})", info.start_date),
             );
         }
-        if let Some(prev) = out.last() {
+        // The overlap check needs a valid rate and thickness (bad values are
+        // reported above and would give a meaningless day count).
+        let rate_ok = (0.0..=5.0).contains(&k.placement_rate_m_per_day) && k.placement_rate_m_per_day > 0.0;
+        if let Some(prev) = out.last().filter(|p| rate_ok && p.thickness_m > 0.0 && p.thickness_m <= k.lift_max_m) {
             let days = (prev.thickness_m / k.placement_rate_m_per_day).ceil() as i64;
-            if start <= prev.start + chrono::Duration::days(days.max(1) - 1) {
+            let last_day = crate::schedule::calendar::shift(prev.start, days.max(1) - 1, "the end of a lift");
+            if last_day.is_ok_and(|end| start <= end) {
                 c.bad(
                     &format!("{key}.start_date"),
                     format!(
@@ -625,7 +635,10 @@ fn sequence(
     }
     let limit = e.design_height_m + e.surcharge_height_m;
     if total > limit + 1e-9 {
-        c.bad("sequence", format!("lifts add up to {total:.2} m, above design height plus surcharge ({limit:.2} m)"));
+        c.bad(
+            "sequence",
+            format!("lifts add up to {} m, above design height plus surcharge ({limit:.2} m)", show((total * 100.0).round() / 100.0)),
+        );
     }
     out
 }

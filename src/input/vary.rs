@@ -112,6 +112,12 @@ impl Document {
         Ok(())
     }
 
+    /// The (changed) document as TOML text; comments and layout of the
+    /// original file are not kept.
+    pub fn to_text(&self) -> Result<String> {
+        toml::to_string(&self.table).map_err(|e| Error::Computation(format!("{} as TOML: {e}", self.file)))
+    }
+
     /// Remove a top-level key (a table or array of tables) if present.
     pub fn remove(&mut self, key: &str) {
         self.table.remove(key);

@@ -1,23 +1,50 @@
-//! CSV output (RFC 4180, comma-separated, header row, ISO 8601 dates, SI
-//! units in the column names): the plan's stage table and the assessment's
-//! daily time series.
+//! CSV output (RFC 4180 via the `csv` crate: comma-separated, header row,
+//! any field holding a comma, quote, CR or LF quoted; ISO 8601 dates, SI
+//! units in the column names): the plan's stage table, the assessment's
+//! daily time series and the design-option table. Each file starts with
+//! comment lines (`# `): the program version and the caution, then the
+//! stage geometry used; read it with the comment character `#` (e.g.
+//! pandas `comment="#"`).
 
 use super::{Exporter, PlanReport};
-use crate::error::Result;
+use crate::error::{Error, Result};
+use crate::model::StageShape;
 use crate::schedule::assess::Assessment;
-
-/// Quote a field if it needs it.
-fn field(s: &str) -> String {
-    if s.contains([',', '"', '\n']) { format!("\"{}\"", s.replace('"', "\"\"")) } else { s.to_string() }
-}
 
 fn opt<T: std::fmt::Display>(v: Option<T>) -> String {
     v.map(|x| x.to_string()).unwrap_or_default()
 }
 
-/// The first line of every CSV: a comment naming the stage geometry used.
-fn geometry_comment(shape: crate::model::StageShape) -> String {
+/// The comment line that opens every CSV file written by fillpace.
+pub fn caution_line() -> String {
+    format!("# {}: {}\n", super::program_version(), super::SHORT_CAUTION)
+}
+
+/// The comment line naming the stage geometry used.
+fn geometry_line(shape: StageShape) -> String {
     format!("# stage geometry: {}\n", shape.describe())
+}
+
+/// The caution line, the geometry line (if any), then `head` and `rows` as
+/// RFC 4180 records.
+fn table<R: IntoIterator<Item = Vec<String>>>(
+    shape: Option<StageShape>,
+    head: &[String],
+    rows: R,
+) -> Result<Vec<u8>> {
+    let fail = |e: &dyn std::fmt::Display| Error::Computation(format!("CSV output failed: {e}"));
+    let mut lines = caution_line();
+    lines.push_str(&shape.map(geometry_line).unwrap_or_default());
+    let mut w = csv::WriterBuilder::new().comment(Some(b'#')).from_writer(lines.into_bytes());
+    w.write_record(head).map_err(|e| fail(&e))?;
+    for r in rows {
+        w.write_record(&r).map_err(|e| fail(&e))?;
+    }
+    w.into_inner().map_err(|e| fail(&e))
+}
+
+fn strings(names: &[&str]) -> Vec<String> {
+    names.iter().map(|s| s.to_string()).collect()
 }
 
 /// The plan's stages as CSV.
@@ -25,48 +52,61 @@ pub struct Csv;
 
 impl Exporter for Csv {
     fn serialize(&self, r: &PlanReport) -> Result<Vec<u8>> {
-        let mut out = geometry_comment(r.plan.stage_shape);
-        out.push_str(
-            "stage,kind,start,end,thickness_m,height_after_m,placed_after_m,fs_end,mechanism,circle_depth_m,su_governing_kpa,rest_days,release,fs_release,peak_excess_kpa,degree_centre,settlement_centre_m,design_fill_after_m3_per_m,makeup_fill_after_m3_per_m,surcharge_fill_after_m3_per_m\n",
-        );
-        for s in &r.plan.stages {
-            let kind = s.kind.key();
+        let head = strings(&[
+            "stage",
+            "kind",
+            "start",
+            "end",
+            "thickness_m",
+            "height_after_m",
+            "placed_after_m",
+            "fs_end",
+            "mechanism",
+            "circle_depth_m",
+            "su_governing_kpa",
+            "rest_days",
+            "release",
+            "fs_release",
+            "peak_excess_kpa",
+            "degree_centre",
+            "settlement_centre_m",
+            "design_fill_after_m3_per_m",
+            "makeup_fill_after_m3_per_m",
+            "surcharge_fill_after_m3_per_m",
+        ]);
+        let rows = r.plan.stages.iter().map(|s| {
             let a = &s.fill_after_m3_per_m;
-            out.push_str(&format!(
-                "{},{},{},{},{:.3},{:.3},{:.3},{:.3},{},{:.2},{:.2},{},{},{},{:.2},{:.4},{:.4},{:.2},{:.2},{:.2}\n",
-                s.number,
-                kind,
-                s.start,
-                s.end,
-                s.thickness_m,
-                s.height_after_m,
-                s.placed_after_m,
-                s.fs_end,
-                field(&s.mechanism),
-                s.circle_depth_m,
-                s.su_governing_kpa,
-                s.rest_days,
+            vec![
+                s.number.to_string(),
+                s.kind.key().to_string(),
+                s.start.to_string(),
+                s.end.to_string(),
+                format!("{:.3}", s.thickness_m),
+                format!("{:.3}", s.height_after_m),
+                format!("{:.3}", s.placed_after_m),
+                format!("{:.3}", s.fs_end),
+                s.mechanism.clone(),
+                format!("{:.2}", s.circle_depth_m),
+                format!("{:.2}", s.su_governing_kpa),
+                s.rest_days.to_string(),
                 opt(s.release),
                 opt(s.fs_release.map(|f| format!("{f:.3}"))),
-                s.peak_excess_kpa,
-                s.degree_centre,
-                s.settlement_centre_m,
-                a.design_m2,
-                a.makeup_m2,
-                a.surcharge_m2
-            ));
-        }
-        Ok(out.into_bytes())
+                format!("{:.2}", s.peak_excess_kpa),
+                format!("{:.4}", s.degree_centre),
+                format!("{:.4}", s.settlement_centre_m),
+                format!("{:.2}", a.design_m2),
+                format!("{:.2}", a.makeup_m2),
+                format!("{:.2}", a.surcharge_m2),
+            ]
+        });
+        table(Some(r.plan.stage_shape), &head, rows)
     }
 }
 
 /// The assessment's daily series as CSV: one column per (column, depth)
 /// excess pore pressure and per depth centreline strength.
-pub fn series(a: &Assessment) -> String {
-    let mut head = vec!["date", "height_m", "placed_m", "settlement_centre_m", "degree_centre", "fs"]
-        .into_iter()
-        .map(String::from)
-        .collect::<Vec<_>>();
+pub fn series(a: &Assessment) -> Result<Vec<u8>> {
+    let mut head = strings(&["date", "height_m", "placed_m", "settlement_centre_m", "degree_centre", "fs"]);
     for c in &a.columns {
         for z in &a.depths_m {
             head.push(format!("u_excess_kpa[{} z={z:.2}]", c.name));
@@ -75,10 +115,7 @@ pub fn series(a: &Assessment) -> String {
     for z in &a.depths_m {
         head.push(format!("su_centre_kpa[z={z:.2}]"));
     }
-    let mut out = geometry_comment(a.stage_shape);
-    out.push_str(&head.iter().map(|h| field(h)).collect::<Vec<_>>().join(","));
-    out.push('\n');
-    for r in &a.series {
+    let rows = a.series.iter().map(|r| {
         let mut row = vec![
             r.date.to_string(),
             format!("{:.3}", r.height_m),
@@ -89,24 +126,31 @@ pub fn series(a: &Assessment) -> String {
         ];
         row.extend(r.excess_kpa.iter().flatten().map(|u| format!("{u:.2}")));
         row.extend(r.su_centre_kpa.iter().map(|s| format!("{s:.2}")));
-        out.push_str(&row.join(","));
-        out.push('\n');
-    }
-    out
+        row
+    });
+    table(Some(a.stage_shape), &head, rows)
 }
 
 /// The design-option table as CSV, sorted as printed.
-pub fn comparison(c: &crate::compare::Comparison, shape: crate::model::StageShape) -> String {
-    let mut out = geometry_comment(shape);
-    out.push_str(
-        "variant,settings,lifts,finish,duration_days,min_fs,final_settlement_m,residual_settlement_m,fill_volume_m3_per_m,drain_length_m_per_m,not_buildable\n",
-    );
-    for v in &c.variants {
+pub fn comparison(c: &crate::compare::Comparison, shape: StageShape) -> Result<Vec<u8>> {
+    let head = strings(&[
+        "variant",
+        "settings",
+        "lifts",
+        "finish",
+        "duration_days",
+        "min_fs",
+        "final_settlement_m",
+        "residual_settlement_m",
+        "fill_volume_m3_per_m",
+        "drain_length_m_per_m",
+        "not_buildable",
+    ]);
+    let rows = c.variants.iter().map(|v| {
         let o = v.outcome.as_ref();
-        out.push_str(&format!(
-            "{},{},{},{},{},{},{},{},{},{},{}\n",
-            v.number,
-            field(&v.label),
+        vec![
+            v.number.to_string(),
+            v.label.clone(),
             opt(o.map(|o| o.lifts)),
             opt(o.map(|o| o.finish)),
             opt(o.map(|o| o.duration_days)),
@@ -115,8 +159,33 @@ pub fn comparison(c: &crate::compare::Comparison, shape: crate::model::StageShap
             opt(o.map(|o| format!("{:.4}", o.residual_settlement_m))),
             opt(o.map(|o| format!("{:.2}", o.fill_volume_m3_per_m))),
             opt(o.map(|o| format!("{:.1}", o.drain_length_m_per_m))),
-            field(v.reason.as_deref().unwrap_or("")),
-        ));
+            v.reason.clone().unwrap_or_default(),
+        ]
+    });
+    table(Some(shape), &head, rows)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn special_characters_are_quoted_and_the_caution_comes_first() {
+        // RFC 4180 §2 rules 6 and 7: fields with CR, LF, comma or quote are
+        // enclosed in quotes, and a quote inside is doubled; `#` is quoted
+        // too, as the comment character of the caution line.
+        let head = strings(&["a", "b"]);
+        let rows = vec![strings(&["x\ry", "p,q"]), strings(&["say \"hi\"", "line\nbreak"]), strings(&["#1", "2"])];
+        let text = String::from_utf8(table(None, &head, rows).unwrap()).unwrap();
+        let mut lines = text.splitn(2, '\n');
+        let first = lines.next().unwrap();
+        assert!(first.starts_with("# fillpace ") && first.contains("monitoring governs"), "{first}");
+        assert_eq!(lines.next().unwrap(), "a,b\n\"x\ry\",\"p,q\"\n\"say \"\"hi\"\"\",\"line\nbreak\"\n\"#1\",2\n");
+        // and a general-purpose reader gives the fields back unchanged
+        let mut rd = csv::ReaderBuilder::new().comment(Some(b'#')).from_reader(text.as_bytes());
+        let recs: Vec<csv::StringRecord> = rd.records().map(|r| r.unwrap()).collect();
+        assert_eq!(&recs[0][0], "x\ry");
+        assert_eq!(&recs[1][1], "line\nbreak");
+        assert_eq!(&recs[2][0], "#1");
     }
-    out
 }

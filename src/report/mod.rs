@@ -247,11 +247,23 @@ pub fn sha256_hex(bytes: &[u8]) -> String {
     sha2::Sha256::digest(bytes).iter().map(|b| format!("{b:02x}")).collect()
 }
 
-/// Now (UTC) from the system clock.
+/// Now (UTC) from the system clock, to the second.
 pub fn now_utc() -> chrono::NaiveDateTime {
-    let secs = std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map_or(0, |d| d.as_secs());
-    chrono::DateTime::from_timestamp(secs as i64, 0).map_or(chrono::NaiveDateTime::MIN, |t| t.naive_utc())
+    use chrono::Timelike;
+    let now = chrono::Utc::now().naive_utc();
+    now.with_nanosecond(0).unwrap_or(now)
 }
+
+/// The program and its version, "fillpace 0.1.0", printed on every report:
+/// the terminal footer, the PDF title block and metadata, the CSV comment
+/// line and the iCalendar PRODID.
+pub fn program_version() -> String {
+    format!("fillpace {}", env!("CARGO_PKG_VERSION"))
+}
+
+/// The caution in one line, for outputs with room for a line only (the CSV
+/// comment line, calendar events).
+pub const SHORT_CAUTION: &str = "prediction from uncertain soil parameters; field monitoring governs; stop filling on any sign of distress; not for use on site until checked and signed by the engineer of record";
 
 /// Today's date (UTC) from the system clock, for title blocks.
 pub fn today() -> chrono::NaiveDate {

@@ -68,6 +68,7 @@ fn cautions_block() -> String {
     for c in super::cautions() {
         out.push_str(&format!("  * {}\n", wrap(&c, 76, "    ")));
     }
+    out.push_str(&format!("\n{}\n", super::program_version()));
     out
 }
 

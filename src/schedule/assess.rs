@@ -98,7 +98,7 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
                 "sequence[{i}].start_date = {} is before lift {} is finished on {}; move it to a later date",
                 lift.start,
                 i,
-                r.calendar.date(st.day.ceil() as i64 - 1)
+                r.calendar.date(st.day.ceil() as i64 - 1)?
             )));
         }
         {
@@ -119,7 +119,7 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
             None
         } else {
             match earliest_safe_day(r, &before, r.next_workable(day)?, lift.thickness_m, &mut effort) {
-                Ok(d) => Some(r.calendar.date(d)),
+                Ok(d) => Some(r.calendar.date(d)?),
                 Err(Error::Computation(why)) => {
                     warnings.push(format!("lift {}: {why}", i + 1));
                     None
@@ -130,8 +130,8 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
         lifts.push(AssessedLift {
             number: i + 1,
             proposed_start: lift.start,
-            start: r.calendar.date(a),
-            end: r.calendar.date(b),
+            start: r.calendar.date(a)?,
+            end: r.calendar.date(b)?,
             thickness_m: lift.thickness_m,
             height_after_m: st.height_m,
             fs_end: fs,
@@ -143,6 +143,8 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
         });
     }
     let end = st.day.ceil() as i64 + tail_days;
+    // The last recorded day must have a date (the recorder skips none then).
+    r.calendar.date(end)?;
     {
         let mut rec = recorder(r, &depths, &mut series, &mut effort);
         r.rest_until(&mut st, end, &mut rec);
@@ -179,6 +181,8 @@ fn recorder<'a>(
         if (st.day - day).abs() > 1e-6 || series.last().is_some_and(|l| r.calendar.day_of(l.date) >= day as i64) {
             return;
         }
+        // Days up to the checked last day of the run always have a date.
+        let Ok(date) = r.calendar.date(day as i64) else { return };
         let e = r.engine;
         let fs = if day as i64 >= next_fs && st.placed_m > 0.0 {
             next_fs = (day as i64 / FS_EVERY_DAYS + 1) * FS_EVERY_DAYS;
@@ -187,7 +191,7 @@ fn recorder<'a>(
             None
         };
         series.push(SeriesRow {
-            date: r.calendar.date(day as i64),
+            date,
             height_m: st.height_m,
             placed_m: st.placed_m,
             settlement_centre_m: st.settlement_centre_m,

@@ -3,8 +3,9 @@
 //! count calendar days from the project start date (day 0); consolidation
 //! runs on every calendar day.
 
+use crate::error::{Error, Result};
 use crate::model::Construction;
-use chrono::{Datelike, Duration, NaiveDate};
+use chrono::{Datelike, NaiveDate, TimeDelta};
 
 /// Horizon over which workable days are tabulated, days (40 years).
 const HORIZON_DAYS: usize = 40 * 366;
@@ -24,8 +25,7 @@ impl Calendar {
     pub fn new(start: NaiveDate, c: &Construction) -> Calendar {
         let mut workable = Vec::with_capacity(HORIZON_DAYS);
         let mut credit = c.weather_downtime_fraction;
-        for k in 0..HORIZON_DAYS {
-            let d = start + Duration::days(k as i64);
+        for d in start.iter_days().take(HORIZON_DAYS) {
             let working = c.working_days.contains(&d.weekday()) && c.holidays.binary_search(&d).is_err();
             let mut place = false;
             if working {
@@ -51,9 +51,10 @@ impl Calendar {
         self.workable[from.min(self.workable.len())..].iter().position(|w| *w).map(|p| (from + p) as i64)
     }
 
-    /// Calendar date of day `k`.
-    pub fn date(&self, k: i64) -> NaiveDate {
-        self.start + Duration::days(k)
+    /// Calendar date of day `k`; an error (never a panic) when the date
+    /// cannot be represented.
+    pub fn date(&self, k: i64) -> Result<NaiveDate> {
+        shift(self.start, k, "a lift, rest or record date")
     }
 
     /// Day number of a date.
@@ -67,10 +68,30 @@ impl Calendar {
     }
 }
 
+/// `start` moved by `days` (negative: earlier), checked: an error names the
+/// day count and what was being dated instead of overflowing.
+pub fn shift(start: NaiveDate, days: i64, context: &'static str) -> Result<NaiveDate> {
+    TimeDelta::try_days(days)
+        .and_then(|d| start.checked_add_signed(d))
+        .ok_or(Error::DateOutOfRange { start, day: days, context })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
     use chrono::Weekday;
+
+    #[test]
+    fn far_dates_are_an_error_not_a_panic() {
+        // chrono represents years −262143…262142 (its documented range);
+        // 10^12 days is about 2.7 billion years, beyond it either way.
+        let start = NaiveDate::from_ymd_opt(2030, 1, 7).unwrap();
+        let cal = Calendar::new(start, &construction(0.0, vec![]));
+        assert!(matches!(cal.date(i64::MAX), Err(Error::DateOutOfRange { .. })));
+        assert!(matches!(cal.date(-1_000_000_000_000), Err(Error::DateOutOfRange { .. })));
+        assert_eq!(cal.date(6).unwrap(), NaiveDate::from_ymd_opt(2030, 1, 13).unwrap());
+        assert_eq!(cal.date(-1).unwrap(), NaiveDate::from_ymd_opt(2030, 1, 6).unwrap());
+    }
 
     fn construction(downtime: f64, holidays: Vec<NaiveDate>) -> Construction {
         Construction {

@@ -195,7 +195,7 @@ pub fn plan_or_reach(r: &Runner, start: State, earliest: i64, progress: &mut dyn
         advance_to(r, &mut stages, &mut st, start_day, Some(rested), &mut fig, &mut effort)?;
         let (a, b) = r.place(&mut st, lift, &mut |s| fig.record_if(r, s))?;
         let crit = r.stability(&st, &mut effort)?;
-        stages.push(stage(r, stages.len() + 1, StageKind::Lift, a, b, lift, &st, crit));
+        stages.push(stage(r, stages.len() + 1, StageKind::Lift, a, b, lift, &st, crit)?);
         earliest = b + 1 + p.construction.min_rest_days as i64;
         progress(st.height_m / top);
     }
@@ -207,7 +207,7 @@ pub fn plan_or_reach(r: &Runner, start: State, earliest: i64, progress: &mut dyn
         let change = -p.embankment.surcharge_height_m;
         let (a, b) = r.place(&mut st, change, &mut |s| fig.record_if(r, s))?;
         let crit = r.stability(&st, &mut effort)?;
-        stages.push(stage(r, stages.len() + 1, StageKind::SurchargeRemoval, a, b, change, &st, crit));
+        stages.push(stage(r, stages.len() + 1, StageKind::SurchargeRemoval, a, b, change, &st, crit)?);
     }
     finish_plan(r, &start, stages, &st, effort, warnings, fig).map(Planned::Built)
 }
@@ -250,7 +250,7 @@ fn advance_to(
     }
     if let Some(prev) = stages.last_mut() {
         close_rest(r, prev, st, start, effort)?;
-        fig.profile(r.engine, st, format!("release after stage {} ({})", prev.number, r.calendar.date(start)));
+        fig.profile(r.engine, st, format!("release after stage {} ({})", prev.number, r.calendar.date(start)?));
     }
     Ok(())
 }
@@ -508,7 +508,7 @@ fn unreachable_height(r: &Runner, st: &State, lift: f64, rested: i64) -> Error {
 /// `start`): release date, FS, degree and settlement at release.
 fn close_rest(r: &Runner, prev: &mut Stage, s: &State, start: i64, effort: &mut Effort) -> Result<()> {
     prev.rest_days = start - r.calendar.day_of(prev.end) - 1;
-    prev.release = Some(r.calendar.date(start));
+    prev.release = Some(r.calendar.date(start)?);
     prev.fs_release = if r.detail { Some(r.stability(s, effort)?.governing_fs()) } else { None };
     prev.degree_centre = r.engine.degree_centre(s);
     prev.settlement_centre_m = s.settlement_centre_m;
@@ -525,15 +525,15 @@ pub(super) fn stage(
     change: f64,
     st: &State,
     crit: SearchResult,
-) -> Stage {
+) -> Result<Stage> {
     let c = &crit.critical;
     let field = r.engine.field(st);
     let su = field.sample(c.circle.xc_m, c.depth_m.max(0.0));
-    Stage {
+    Ok(Stage {
         number,
         kind,
-        start: r.calendar.date(a),
-        end: r.calendar.date(b),
+        start: r.calendar.date(a)?,
+        end: r.calendar.date(b)?,
         thickness_m: change,
         height_after_m: st.height_m,
         placed_after_m: st.placed_m,
@@ -549,5 +549,5 @@ pub(super) fn stage(
         settlement_centre_m: st.settlement_centre_m,
         fill_after_m3_per_m: r.engine.fill_areas(st),
         critical: Some(crit),
-    }
+    })
 }

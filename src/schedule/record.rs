@@ -86,7 +86,8 @@ impl Figures {
         if (st.day - day).abs() > 1e-6 {
             return;
         }
-        let date = cal.date(day as i64);
+        // Placements stop at the calendar horizon, whose dates exist.
+        let Ok(date) = cal.date(day as i64) else { return };
         if self.days.last().is_some_and(|d| d.date >= date) {
             return;
         }

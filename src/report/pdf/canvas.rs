@@ -2,11 +2,12 @@
 //! the embedded DejaVu Sans Condensed (regular and bold; Bitstream Vera
 //! licence in assets/fonts), lines with dash patterns, rectangles, filled
 //! polygons and markers, all in shades of grey so the report prints in black
-//! and white. Text widths come from the font's own advance widths.
+//! and white. Text widths come from the font's own advance widths, as
+//! printpdf parsed them for embedding (the font is read once).
 
 use printpdf::{
-    Color, FontId, Greyscale, Line, LineDashPattern, LinePoint, Mm, Op, PaintMode, PdfFontHandle, Point, Polygon,
-    PolygonRing, Pt, TextItem, WindingOrder,
+    Color, FontId, Greyscale, Line, LineDashPattern, LinePoint, Mm, Op, PaintMode, ParsedFont, PdfFontHandle, Point,
+    Polygon, PolygonRing, Pt, TextItem, WindingOrder,
 };
 
 pub const REGULAR_TTF: &[u8] = include_bytes!("../../../assets/fonts/DejaVuSansCondensed.ttf");
@@ -39,27 +40,28 @@ pub enum Marker {
 pub struct Fonts {
     pub regular: FontId,
     pub bold: FontId,
-    regular_face: ttf_parser::Face<'static>,
-    bold_face: ttf_parser::Face<'static>,
+    regular_face: ParsedFont,
+    bold_face: ParsedFont,
 }
 
 impl Fonts {
-    pub fn new(regular: FontId, bold: FontId) -> Fonts {
-        Fonts {
-            regular,
-            bold,
-            regular_face: ttf_parser::Face::parse(REGULAR_TTF, 0).expect("bundled font parses"),
-            bold_face: ttf_parser::Face::parse(BOLD_TTF, 0).expect("bundled font parses"),
-        }
+    /// The document's font ids with the parsed faces they were added from.
+    pub fn new(regular: (FontId, ParsedFont), bold: (FontId, ParsedFont)) -> Fonts {
+        Fonts { regular: regular.0, bold: bold.0, regular_face: regular.1, bold_face: bold.1 }
     }
 
-    /// Width of `s` at `size_pt`, mm.
+    /// Width of `s` at `size_pt`, mm (a character the font lacks counts
+    /// half an em).
     pub fn width(&self, s: &str, size_pt: f32, bold: bool) -> f32 {
         let face = if bold { &self.bold_face } else { &self.regular_face };
-        let upem = face.units_per_em() as f32;
+        let upem = f32::from(face.units_per_em.max(1));
         let units: f32 = s
             .chars()
-            .map(|c| face.glyph_index(c).and_then(|g| face.glyph_hor_advance(g)).unwrap_or(upem as u16 / 2) as f32)
+            .map(|c| {
+                face.lookup_glyph_index(u32::from(c))
+                    .and_then(|g| face.get_glyph_width(g))
+                    .map_or(0.5 * upem, f32::from)
+            })
             .sum();
         units / upem * size_pt / PT_PER_MM
     }

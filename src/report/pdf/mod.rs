@@ -124,6 +124,19 @@ pub fn risk(r: &RiskReport, date: chrono::NaiveDate) -> Result<Vec<u8>> {
     })
 }
 
+/// The document information: creation, modification and metadata dates are
+/// the time of writing (UTC); creator and producer name the program version.
+fn stamp_metadata(info: &mut printpdf::PdfDocumentInfo) {
+    let secs = crate::report::now_utc().and_utc().timestamp();
+    if let Ok(now) = printpdf::OffsetDateTime::from_unix_timestamp(secs) {
+        info.creation_date = now;
+        info.modification_date = now;
+        info.metadata_date = now;
+    }
+    info.creator = crate::report::program_version();
+    info.producer = crate::report::program_version();
+}
+
 /// An A4-landscape document of `pages` pages, each drawn by `draw(canvas,
 /// index)`, with the bundled fonts embedded (subset).
 fn document(name: &str, pages: usize, mut draw: impl FnMut(&mut Canvas, usize)) -> Result<Vec<u8>> {
@@ -133,7 +146,8 @@ fn document(name: &str, pages: usize, mut draw: impl FnMut(&mut Canvas, usize)) 
         .ok_or_else(|| Error::Computation("the bundled regular font could not be read".into()))?;
     let bold = ParsedFont::from_bytes(canvas::BOLD_TTF, 0, &mut warn)
         .ok_or_else(|| Error::Computation("the bundled bold font could not be read".into()))?;
-    let fonts = Fonts::new(doc.add_font(&regular), doc.add_font(&bold));
+    let fonts = Fonts::new((doc.add_font(&regular), regular), (doc.add_font(&bold), bold));
+    stamp_metadata(&mut doc.metadata.info);
     let mut out = Vec::with_capacity(pages);
     for i in 0..pages {
         let mut c = Canvas::new(&fonts);

@@ -61,6 +61,7 @@ pub fn frame(c: &mut Canvas, t: &Title, heading: &str, page: usize, pages: usize
     c.text(cols[0] + 2.0, y + 5.0, 7.0, false, &format!("Revision {}", info.revision));
     c.text(cols[0] + 2.0, y + 10.0, 7.0, false, &format!("Date {}", t.date));
     c.text(cols[0] + 2.0, y + 15.0, 8.0, true, &format!("Page {page} of {pages}"));
+    c.text(cols[0] + 2.0, y + 19.0, 5.5, false, &crate::report::program_version());
     let box_w = (x + w - cols[1]) / 3.0;
     for (i, role) in ["Prepared", "Checked", "Approved"].iter().enumerate() {
         let bx = cols[1] + i as f32 * box_w;

@@ -1,0 +1,3 @@
+//! Fuzz target `plan`: see fillpace::fuzzing::plan.
+#![no_main]
+libfuzzer_sys::fuzz_target!(|data: &[u8]| fillpace::fuzzing::plan(data));
