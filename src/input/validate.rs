@@ -12,6 +12,9 @@ use chrono::{NaiveDate, Weekday};
 mod uncertain;
 use uncertain::uncertainty;
 
+#[cfg(test)]
+mod tests;
+
 /// Lower bound kind of an allowed range.
 #[derive(Clone, Copy)]
 enum Low {

@@ -26,12 +26,29 @@ struct Head<'a> {
 
 /// Pretty JSON of `result` in the envelope.
 pub fn envelope<T: Serialize>(command: &str, project: &Project, source: &str, result: &T) -> Result<String> {
+    with_cautions(command, project, source, result, super::cautions())
+}
+
+/// The Monte Carlo result in the envelope, its own caution first among the
+/// caution notes.
+pub fn risk<T: Serialize>(project: &Project, source: &str, result: &T) -> Result<String> {
+    let cautions = std::iter::once(super::RISK_CAUTION.to_string()).chain(super::cautions()).collect();
+    with_cautions("risk", project, source, result, cautions)
+}
+
+fn with_cautions<T: Serialize>(
+    command: &str,
+    project: &Project,
+    source: &str,
+    result: &T,
+    cautions: Vec<String>,
+) -> Result<String> {
     let e = Envelope {
         fillpace: env!("CARGO_PKG_VERSION"),
         command,
         project: Head { title: &project.info.title, reference: &project.info.reference, source },
         result,
-        cautions: super::cautions(),
+        cautions,
     };
     serde_json::to_string_pretty(&e)
         .map(|mut s| {
