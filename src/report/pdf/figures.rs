@@ -315,10 +315,11 @@ fn section_ground(
         let mut poly: Vec<(f32, f32)> = xs.iter().map(|&x| (f.tx(x), f.ty(sink(x, top)))).collect();
         poly.extend(xs.iter().rev().map(|&x| (f.tx(x), f.ty(if base { -bottom } else { sink(x, bottom) }))));
         c.fill(&poly, if base { 0.55 } else { shades[i % shades.len()] }, false);
+        let level = |z: f64| crate::report::fixed(-z, 2);
         let label = if base {
-            format!("{} (below {:.2} m)", l.name, -top)
+            format!("{} (below {} m)", l.name, level(top))
         } else {
-            format!("{} ({:.2} to {:.2} m)", l.name, -top, -bottom)
+            format!("{} ({} to {} m)", l.name, level(top), level(bottom))
         };
         c.text(f.tx(f.x_min) + 1.5, f.ty(sink(f.x_min, 0.5 * (top + bottom.min(depth)))) + 1.0, 6.5, false, &label);
         top = bottom;
@@ -330,7 +331,7 @@ fn section_ground(
         wy - 1.0,
         6.5,
         false,
-        &format!("▽ groundwater {:.2} m", -p.ground.groundwater_depth_m),
+        &format!("▽ groundwater {} m", crate::report::fixed(-p.ground.groundwater_depth_m, 2)),
     );
 }
 
@@ -441,10 +442,11 @@ fn section_axes(c: &mut Canvas, f: &Frame) {
     c.text_up(left - 10.0, f.ty(f.y_min), 7.0, "level relative to original ground (m)");
     c.line((f.tx(f.x_min), bottom), (f.tx(f.x_max), bottom), 0.3, Dash::Solid, 0.0);
     let step = nice_step(f.x_max - f.x_min, 12.0);
+    let decimals = if (step - step.round()).abs() > 1e-9 { 1 } else { 0 };
     let mut x = (f.x_min / step).ceil() * step;
     while x <= f.x_max + 1e-9 {
         c.line((f.tx(x), bottom), (f.tx(x), bottom + 1.2), 0.3, Dash::Solid, 0.0);
-        c.text_center(f.tx(x), bottom + 4.0, 6.5, false, &crate::report::fixed(x, 0));
+        c.text_center(f.tx(x), bottom + 4.0, 6.5, false, &crate::report::fixed(x, decimals));
         x += step;
     }
     c.text_center(f.tx(0.5 * (f.x_min + f.x_max)), bottom + 8.0, 7.0, false, "offset from the centreline (m)");
