@@ -98,7 +98,7 @@ fn settlement_chart(c: &mut Canvas, ctx: &Ctx, y: f32) {
     let settl: Vec<(f64, f64)> =
         pl.figures.days.iter().map(|d| (days_since(ctx, d.date), d.settlement_centre_m)).collect();
     let finish = days_since(ctx, pl.finish);
-    let life_end = finish + p.info.design_life_years as f64 * crate::model::DAYS_PER_YEAR;
+    let life_end = finish + p.info.design_life_years * crate::model::DAYS_PER_YEAR;
     let s_life = pl.settlement_at_finish_m + pl.residual_settlement_m;
     Chart {
         x: MARGIN + 14.0,
