@@ -22,6 +22,8 @@ use std::path::{Path, PathBuf};
 pub const DEMO: &str = include_str!("../examples/kestrel-fen.toml");
 /// The commented starter project written by `fillpace new`.
 pub const TEMPLATE: &str = include_str!("../templates/project.toml");
+/// What `fillpace new` says after writing the template.
+const NEW_CAUTION: &str = "CAUTION: the values in the template are placeholders, not advice. Every result of fillpace\nis a prediction from uncertain parameters; field monitoring governs, and a licensed\ngeotechnical engineer must check and sign any schedule or release before it is used on site.";
 
 /// Whether progress bars are suppressed (`--quiet`); set by `run_with`.
 static QUIET: std::sync::atomic::AtomicBool = std::sync::atomic::AtomicBool::new(false);
@@ -127,10 +129,10 @@ fn new(dir: &Path, json: bool) -> Result<String> {
     if json {
         return Ok(format!(
             "{}\n",
-            serde_json::json!({ "fillpace": env!("CARGO_PKG_VERSION"), "command": "new", "written": path })
+            serde_json::json!({ "fillpace": env!("CARGO_PKG_VERSION"), "command": "new", "written": path, "cautions": report::cautions() })
         ));
     }
-    Ok(format!("wrote {}\nnext: fillpace check {}\n", path.display(), path.display()))
+    Ok(format!("wrote {}\nnext: fillpace check {}\n\n{NEW_CAUTION}\n", path.display(), path.display()))
 }
 
 fn check(path: &Path, step: f64, json: bool) -> Result<String> {
@@ -356,7 +358,7 @@ fn risk(
     if let Some(out) = pdf {
         output::write_atomic(out, &report::pdf::risk(&rep, report::today())?)?;
     }
-    if json { report::json::envelope("risk", &p, &doc.file, &result) } else { Ok(report::text::risk(&rep)) }
+    if json { report::json::risk(&p, &doc.file, &result) } else { Ok(report::text::risk(&rep)) }
 }
 
 /// Where `plan` writes its files.

@@ -5,7 +5,8 @@ use clap::{Parser, Subcommand};
 use std::path::PathBuf;
 
 /// Staged construction of embankments on soft clay: consolidation, strength
-/// gain, stability and the fastest safe lift timetable.
+/// gain, stability and the fastest lift timetable that meets the FS target
+/// (a prediction for the engineer of record to check, not a release).
 #[derive(Debug, Parser)]
 #[command(name = "fillpace", version, about, propagate_version = true)]
 pub struct Cli {
@@ -79,8 +80,8 @@ pub enum Command {
         #[arg(long)]
         json: bool,
     },
-    /// Plan the fastest safe lift timetable (the bundled demo when no
-    /// project is given).
+    /// Plan the fastest lift timetable that meets the FS target (the bundled
+    /// demo when no project is given).
     #[command(
         after_help = "Example:\n  fillpace plan\n  fillpace plan examples/kestrel-fen.toml --csv plan.csv --ics holds.ics"
     )]

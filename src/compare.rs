@@ -220,11 +220,19 @@ mod tests {
 
     #[test]
     fn drain_length_follows_the_pattern_area() {
-        // Demo: base half-width to the berm toe, 14 m drains at 1.5 m
-        // triangular: 2·B/2·14 / (0.866·1.5²) m/m.
+        // Hand calculation on the demo section: half crest 8 m; 2H:1V slope
+        // from 7.0 m down to the 2.5 m berm, 9 m; berm 10 m; 2H:1V slope to
+        // the ground, 5 m: half base width 32 m. Drains 14 m long at 1.5 m
+        // triangular serve (√3/2)·1.5² = 1.9486 m² each (Hansbo 1981), so
+        // 2 × 32 × 14 / 1.9486 = 459.83 m of drain per metre run.
         let p = crate::input::parse(crate::app::DEMO, "demo").unwrap();
-        let half = crate::load::profile(&p.embankment, p.embankment.design_height_m).last().unwrap().0;
-        let expected = 2.0 * half * 14.0 / (3f64.sqrt() / 2.0 * 2.25);
-        assert!((drain_length_per_m(&p) - expected).abs() < 1e-9);
+        assert!((drain_length_per_m(&p) - 459.83).abs() < 0.01, "{}", drain_length_per_m(&p));
+        // Square grid at 2 m: 4 m² each, 2 × 32 × 14 / 4 = 224 m/m.
+        let mut q = p.clone();
+        if let Some(d) = q.drains.as_mut() {
+            d.pattern = DrainPattern::Square;
+            d.spacing_m = 2.0;
+        }
+        assert!((drain_length_per_m(&q) - 224.0).abs() < 1e-9, "{}", drain_length_per_m(&q));
     }
 }

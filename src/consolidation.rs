@@ -631,13 +631,15 @@ mod tests {
 
     #[test]
     fn hansbo_mu_worked_case() {
-        // Hansbo (1981): 100 × 4 mm band drain (dw = 52 mm, Rixner et al. 1986),
-        // triangular spacing 1.5 m (de = 1.575 m), no smear: μ = 2.6608;
-        // smear ratio 2 with kh/ks = 2: μ = 3.3539.
+        // Computed from Hansbo's (1981) formula for μ (by hand, not read
+        // from a published table): 100 × 4 mm band drain (dw = 52 mm, Rixner
+        // et al. 1986), triangular spacing 1.5 m (de = 1.575 m), no smear:
+        // μ = 2.6608; smear ratio 2 with kh/ks = 2: μ = 3.3539.
         let n = 1.05 * 1.5 / 0.052;
         assert!((hansbo_mu(n, 1.0, 1.0, None) - 2.6608).abs() < 5e-4);
         assert!((hansbo_mu(n, 2.0, 2.0, None) - 3.3539).abs() < 5e-4);
-        // U_h = 1 − exp(−8 T_h/μ), ch = 2 m²/year, t = 0.5 year:
+        // Computed from Hansbo's (1981) formula U_h = 1 − exp(−8 T_h/μ),
+        // ch = 2 m²/year, t = 0.5 year:
         let th = 2.0 * 0.5 / (1.575f64 * 1.575);
         let uh = |mu: f64| 1.0 - (-8.0 * th / mu).exp();
         assert!((uh(2.6608) - 0.702).abs() < 0.001);
@@ -646,7 +648,8 @@ mod tests {
 
     #[test]
     fn barron_ideal_drain_factor() {
-        // Barron (1948) F(n): n = 10 → 1.5783, n = 50 → 3.1637.
+        // Computed from Barron's (1948) formula F(n) = n²/(n² − 1) ln n −
+        // (3n² − 1)/(4n²): n = 10 → 1.5783, n = 50 → 3.1637.
         assert!((barron_f(10.0) - 1.5783).abs() < 1e-4);
         assert!((barron_f(50.0) - 3.1637).abs() < 1e-4);
         // Hansbo's simplified μ (no smear, no well resistance) tends to F(n)
@@ -805,8 +808,10 @@ mod tests {
 
     #[test]
     fn combined_flow_close_to_carrillo() {
-        // Carrillo (1942): 1 − U = (1 − Uv)(1 − Uh); Zhu & Yin (2004) report
-        // Carrillo within about 3% of exact combined solutions.
+        // Carrillo (1942): 1 − U = (1 − Uv)(1 − Uh), computed from the
+        // formula with Terzaghi's Uv and Hansbo's Uh. The 3% tolerance: exact
+        // combined solutions differ from Carrillo's product by about that
+        // much (Zhu & Yin 2004, from memory; not confirmed).
         let drains = "[drains]\npattern = \"square\"\nspacing_m = 2.0\ndiameter_mm = 50\ndepth_m = 10\n";
         let p = fixtures::uniform_clay(10.0, 3.6525, "drained", drains);
         let col = Column::new(&p, 0.0);

@@ -256,8 +256,11 @@ mod tests {
 
     #[test]
     fn osterberg_embankment_factor() {
-        // Osterberg (1957) chart, a/z = 1, b/z = 1: I = 0.455 for one half of
-        // the embankment (crest half-width b, slope width a) at its centreline.
+        // Computed from Osterberg's (1957) formula (the closed form behind
+        // his chart, not a chart reading): I = [((a + b)/a)(α1 + α2) −
+        // (b/a)α2]/π with a/z = b/z = 1, α2 = atan 1, α1 = atan 2 − atan 1:
+        // I = (2·1.10715 − 0.78540)/π = 0.4548 for one half of the
+        // embankment (crest half-width b, slope width a) at its centreline.
         // Half embankment = uniform strip 0..b plus falling ramp b..a+b.
         let z = 1.0;
         let s = uniform_strip(1.0, 0.0, 1.0, 0.0, z).sz + piece(1.0, 1.0, 2.0, 0.0, 0.0, z).sz;

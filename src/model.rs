@@ -548,6 +548,9 @@ pub struct MonitoringRules {
 }
 
 impl Default for MonitoringRules {
+    /// Common practice, not from a single published source: limits of the
+    /// order used on staged embankments on soft clay, to be confirmed by the
+    /// engineer of record for each site (README, "References").
     fn default() -> Self {
         MonitoringRules {
             pore_rise_limit_kpa: 3.0,

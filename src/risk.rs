@@ -535,3 +535,42 @@ fn summarise(
         realisations: all,
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_linear_case_gives_the_lognormal_distribution_of_fs() {
+        // tests/data/phi0-single-lift.toml: φ = 0 clay without strength gain
+        // under strengthless fill, so every circle's FS is proportional to
+        // su0 and FS = X·F1 with X lognormal (mean 1, CoV 0.3): ln FS is
+        // normal with mean ln F1 + μ and sd σ, σ² = ln(1 + 0.3²), μ = −σ²/2
+        // (general statistics). Its q-th percentile is F1·exp(μ + σ z_q),
+        // z_0.9 = 1.281552 (Abramowitz & Stegun 1964, Table 26.5); a sample
+        // percentile has standard error σ√(q(1 − q)/n)/φ(z_q) in ln FS and
+        // the lognormal index β = E[ln FS]/sd[ln FS] about √(1 + β²/2)/√n
+        // (general statistics); 4 standard errors are allowed.
+        let text = include_str!("../tests/data/phi0-single-lift.toml");
+        let doc = Document::parse(text, "phi0.toml").unwrap();
+        let p = crate::input::parse(text, "phi0.toml").unwrap();
+        let engine = Engine::new(&p);
+        let plan = planner::plan(&Runner::new(&engine)).unwrap();
+        let n = 400;
+        let opts = RiskOptions { runs: n, seed: 3, threads: Some(1) };
+        let r = run(&doc, &p, &plan, opts, None, &|| {}).unwrap();
+        let f1 = plan.stages[0].fs_end;
+        let s2 = (1.0f64 + 0.3 * 0.3).ln();
+        let (mu, sigma) = (-0.5 * s2, s2.sqrt());
+        let density = |z: f64| (-0.5 * z * z).exp() / std::f64::consts::TAU.sqrt();
+        let st = &r.stages[0];
+        for (q, z, got) in [(0.1, -1.281_552, st.fs.p10), (0.5, 0.0, st.fs.p50), (0.9, 1.281_552, st.fs.p90)] {
+            let expected = f1 * (mu + sigma * z).exp();
+            let se = sigma * (q * (1.0 - q) / n as f64).sqrt() / density(z);
+            assert!((got / expected).ln().abs() < 4.0 * se, "P{}: {got} against {expected}", 100.0 * q);
+        }
+        let beta = (f1.ln() + mu) / sigma;
+        let got = st.beta_lognormal.unwrap();
+        assert!((got - beta).abs() < 4.0 * (1.0 + 0.5 * beta * beta).sqrt() / (n as f64).sqrt(), "β {got} vs {beta}");
+    }
+}

@@ -147,8 +147,8 @@ fn assess_writes_series_and_flags_the_unsafe_lift() {
     assert_eq!(lifts.len(), 5);
     // The demo's proposed fourth lift is too early: flagged with a date.
     let last = &lifts[3];
-    assert_eq!(last["safe"], false);
-    assert!(last["safe_from"].as_str().unwrap() > last["proposed_start"].as_str().unwrap());
+    assert_eq!(last["meets_target"], false);
+    assert!(last["meets_target_from"].as_str().unwrap() > last["proposed_start"].as_str().unwrap());
     let text = std::fs::read_to_string(&csv).unwrap();
     let mut lines = text.lines();
     assert!(lines.next().unwrap().starts_with("# fillpace "), "caution line first");
@@ -305,7 +305,7 @@ fn plan_pdf_has_every_section_stage_hash_and_caution() {
         "Staging diagram",
         "Cross-section",
         "Inputs",
-        "Method statement",
+        "Methods and assumptions",
         "CAUTION NOTES",
         "MONITORING PLAN",
         "Prepared",

@@ -293,13 +293,23 @@ proptest! {
             "SP1,2027-04-06T09:00,2.400".into(),
             "fill,2027-04-10T17:00,1.5".into(),
         ];
+        // A row that starts with a known id could be a valid reading (or
+        // put a valid one out of order); every other non-blank row is
+        // garbage and must be refused at its own line, the (at + 2)-th of
+        // the file (the header is line 1).
+        let first = row.split(',').next().unwrap_or("").trim().to_string();
+        prop_assume!(!p.instruments.iter().any(|i| i.id == first) && first != "fill");
         lines.insert(at + 1, row.clone());
         let text = lines.join("\n");
+        let line = at + 2;
         match fillpace::monitoring::readings::parse(&text, "r.csv", &p) {
-            Ok(r) => prop_assert!(r.readings.len() + r.fill.len() >= 4),
+            Ok(r) => {
+                prop_assert!(row.trim().is_empty(), "garbage row `{row}` at line {line} accepted");
+                prop_assert_eq!(r.readings.len() + r.fill.len(), 4);
+            }
             Err(fillpace::error::Error::Input { issues, .. }) => {
                 prop_assert!(!row.trim().is_empty());
-                prop_assert!(issues.iter().any(|i| i.line.is_some()), "{issues:?}");
+                prop_assert!(issues.iter().any(|i| i.line == Some(line)), "not refused at line {line}: {issues:?}");
             }
             Err(e) => prop_assert!(false, "unexpected error {e}"),
         }

@@ -14,6 +14,9 @@ mod uncertain;
 use embankment::embankment;
 use uncertain::uncertainty;
 
+#[cfg(test)]
+mod tests;
+
 /// Lower bound kind of an allowed range.
 #[derive(Clone, Copy)]
 enum Low {

@@ -43,6 +43,24 @@ pub fn envelope_with_warnings<T: Serialize>(
     result: &T,
     warnings: &[String],
 ) -> Result<String> {
+    with_cautions(command, project, source, result, warnings, super::cautions())
+}
+
+/// The Monte Carlo result in the envelope, its own caution first among the
+/// caution notes.
+pub fn risk<T: Serialize>(project: &Project, source: &str, result: &T, warnings: &[String]) -> Result<String> {
+    let cautions = std::iter::once(super::RISK_CAUTION.to_string()).chain(super::cautions()).collect();
+    with_cautions("risk", project, source, result, warnings, cautions)
+}
+
+fn with_cautions<T: Serialize>(
+    command: &str,
+    project: &Project,
+    source: &str,
+    result: &T,
+    warnings: &[String],
+    cautions: Vec<String>,
+) -> Result<String> {
     let e = Envelope {
         fillpace: env!("CARGO_PKG_VERSION"),
         command,
@@ -54,7 +72,7 @@ pub fn envelope_with_warnings<T: Serialize>(
         },
         result,
         warnings,
-        cautions: super::cautions(),
+        cautions,
     };
     serde_json::to_string_pretty(&e)
         .map(|mut s| {

@@ -20,6 +20,12 @@ pub fn cautions() -> Vec<String> {
     parse_cautions(include_str!("../../templates/cautions.txt"))
 }
 
+/// The one-line caution at the foot of every PDF page
+/// (templates/caution-footer.txt).
+pub fn caution_footer() -> String {
+    parse_cautions(include_str!("../../templates/caution-footer.txt")).join(" ")
+}
+
 fn parse_cautions(text: &str) -> Vec<String> {
     text.split("\n\n")
         .map(|p| p.lines().filter(|l| !l.trim_start().starts_with('#')).map(str::trim).collect::<Vec<_>>().join(" "))
@@ -211,12 +217,29 @@ pub const STAGE_COLUMNS: [&str; 15] = [
     "peak Δu kPa",
     "U centre",
     "settl. m",
-    "mechanism / su",
+    "circle lowest point: su kPa",
 ];
 
-/// `v` with `d` decimals (the one number formatter of the reports).
+/// `v` with `d` decimals (the one number formatter of the reports); a value
+/// that rounds to zero is printed without a minus sign ("0.00", not
+/// "-0.00").
 pub fn fixed(v: f64, d: usize) -> String {
-    format!("{v:.d$}")
+    let s = format!("{v:.d$}");
+    match s.strip_prefix('-') {
+        Some(rest) if rest.chars().all(|c| c == '0' || c == '.') => rest.to_string(),
+        _ => s,
+    }
+}
+
+/// Where the governing circle bottoms out and the clay strength there:
+/// "Soft clay at 3.2 m: 18.4" (layer, depth below original ground, su kPa);
+/// a circle whose lowest point lies in the fill has no clay strength to show.
+pub fn circle_bottom(s: &crate::schedule::planner::Stage) -> String {
+    if s.circle_depth_m > 0.0 {
+        format!("{} at {:.1} m: {:.1}", s.mechanism, s.circle_depth_m, s.su_governing_kpa)
+    } else {
+        format!("{} (above original ground)", s.mechanism)
+    }
 }
 
 /// One stage as the cells of `STAGE_COLUMNS`.
@@ -237,7 +260,7 @@ pub fn stage_cells(s: &crate::schedule::planner::Stage) -> Vec<String> {
         f(s.peak_excess_kpa, 1),
         format!("{:.0}%", 100.0 * s.degree_centre),
         f(s.settlement_centre_m, 3),
-        format!("{} / {:.1} kPa", s.mechanism, s.su_governing_kpa),
+        circle_bottom(s),
     ]
 }
 
@@ -291,5 +314,21 @@ mod tests {
             assert!(c.contains(needle), "missing {needle}");
         }
         assert!(!c.contains('#'));
+    }
+
+    #[test]
+    fn numbers_that_round_to_zero_have_no_sign() {
+        assert_eq!(super::fixed(-0.0001, 2), "0.00");
+        assert_eq!(super::fixed(-0.0, 1), "0.0");
+        assert_eq!(super::fixed(-0.006, 2), "-0.01");
+        assert_eq!(super::fixed(2.5, 0), "2");
+    }
+
+    #[test]
+    fn the_footer_is_one_short_caution() {
+        // One line of A4 landscape at 6.5 pt holds about 200 characters.
+        let f = super::caution_footer();
+        assert!(f.contains("monitoring governs") && f.contains("checked and signed"), "{f}");
+        assert!(!f.contains('#') && !f.contains('\n') && f.len() < 180, "{f}");
     }
 }

@@ -179,7 +179,7 @@ pub fn assess(p: &Project, a: &Assessment) -> String {
         "crest m",
         "FS end",
         "verdict",
-        "safe from",
+        "meets target from",
         "peak Δu kPa",
         "U centre",
         "settl. m",
@@ -192,8 +192,8 @@ pub fn assess(p: &Project, a: &Assessment) -> String {
             f(l.thickness_m, 2),
             f(l.height_after_m, 2),
             f(l.fs_end, 2),
-            if l.safe { "ok".into() } else { "BELOW TARGET".into() },
-            match (l.safe, l.safe_from) {
+            if l.meets_target { "meets target".into() } else { "BELOW TARGET".into() },
+            match (l.meets_target, l.meets_target_from) {
                 (true, _) => "-".into(),
                 (false, Some(d)) => d.to_string(),
                 (false, None) => "never (20 y)".into(),

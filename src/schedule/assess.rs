@@ -1,7 +1,7 @@
 //! Check of a proposed lift sequence (the `[[sequence]]` of the project
 //! file): run the ground response through it, compute FS at the end of each
 //! lift and at regular intervals, flag every lift below the construction
-//! target with the earliest date from which that lift would be safe, and
+//! target with the earliest date from which that lift would meet it, and
 //! keep a daily time series of the response for CSV export.
 
 use super::planner::earliest_safe_day;
@@ -26,11 +26,11 @@ pub struct AssessedLift {
     pub thickness_m: f64,
     pub height_after_m: f64,
     pub fs_end: f64,
-    /// FS ≥ construction target.
-    pub safe: bool,
-    /// For an unsafe lift: earliest start from which it would be safe (None
-    /// when it is not safe within 20 years; see the warnings).
-    pub safe_from: Option<NaiveDate>,
+    /// FS ≥ construction target (a computed prediction, not a release).
+    pub meets_target: bool,
+    /// For a lift below the target: earliest start from which it would meet
+    /// it (None when it does not within 20 years; see the warnings).
+    pub meets_target_from: Option<NaiveDate>,
     pub peak_excess_kpa: f64,
     pub degree_centre: f64,
     pub settlement_centre_m: f64,
@@ -65,7 +65,8 @@ pub struct Assessment {
     pub lifts: Vec<AssessedLift>,
     pub series: Vec<SeriesRow>,
     pub effort: Effort,
-    /// Notes that do not stop the assessment (e.g. a lift never safe).
+    /// Notes that do not stop the assessment (e.g. a lift that never meets
+    /// the target).
     pub warnings: Vec<String>,
 }
 
@@ -114,8 +115,8 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
         if let Some(last) = series.last_mut() {
             last.fs = Some(fs);
         }
-        let safe = fs >= p.criteria.fs_construction;
-        let safe_from = if safe {
+        let meets_target = fs >= p.criteria.fs_construction;
+        let meets_target_from = if meets_target {
             None
         } else {
             match earliest_safe_day(r, &before, r.next_workable(day)?, lift.thickness_m, &mut effort) {
@@ -135,8 +136,8 @@ pub fn assess(r: &Runner, tail_days: i64) -> Result<Assessment> {
             thickness_m: lift.thickness_m,
             height_after_m: st.height_m,
             fs_end: fs,
-            safe,
-            safe_from,
+            meets_target,
+            meets_target_from,
             peak_excess_kpa: r.engine.peak_excess(&st),
             degree_centre: r.engine.degree_centre(&st),
             settlement_centre_m: st.settlement_centre_m,

@@ -1,7 +1,7 @@
 //! Time on site: the working calendar, and the runner that drives the ground
 //! response engine through lifts and rests day by day (fill placed only on
 //! workable days at the construction rate; consolidation every calendar
-//! day). The planner (fastest safe timetable) and the check of a proposed
+//! day). The planner (fastest timetable meeting the FS target) and the check of a proposed
 //! sequence build on it.
 
 pub mod assess;

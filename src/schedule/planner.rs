@@ -1,8 +1,10 @@
-//! The planner: the fastest safe lift timetable. From the current state it
-//! takes the thickest lift (minimum to maximum, in the configured increment)
-//! whose factor of safety at the end of placement meets the construction
-//! target; if even the thinnest lift is unsafe it rests for the shortest
-//! whole number of days after which it is safe. FS falls monotonically with
+//! The planner: the fastest lift timetable that meets the FS target. From
+//! the current state it takes the thickest lift (minimum to maximum, in the
+//! configured increment) whose factor of safety at the end of placement
+//! meets the construction target; if even the thinnest lift falls below the
+//! target it rests for the shortest whole number of days after which it
+//! meets it. ("Meets the target" is a computed prediction, never a
+//! statement that a lift is safe: the engineer of record releases each one.) FS falls monotonically with
 //! lift thickness and rises with rest (strength only grows as excess pore
 //! pressure dissipates), so both searches bisect rather than try every
 //! value. After design height plus surcharge it holds until the removal
@@ -551,3 +553,6 @@ pub(super) fn stage(
         critical: Some(crit),
     })
 }
+
+#[cfg(test)]
+mod tests;

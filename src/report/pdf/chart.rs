@@ -35,6 +35,8 @@ pub enum XAxis {
         max: f64,
     },
     Linear(Axis),
+    /// Whole numbers (e.g. stage numbers): ticks only at integers.
+    Count(Axis),
 }
 
 /// A chart in a frame at (x, y) mm, w × h mm.
@@ -79,20 +81,39 @@ fn tick_label(v: f64, step: f64) -> String {
     format!("{v:.decimals$}")
 }
 
-/// Month-start ticks between two dates (every 1, 2, 3 or 6 months).
+/// Date ticks between two dates (days since `start`): Mondays every one
+/// or two weeks for a span under about three months, else month starts
+/// every 1, 2, 3 or 6 months, or year starts every 1, 2, 5 or 10 years, so
+/// that a short programme still gets several ticks.
+fn date_ticks(start: NaiveDate, min: f64, max: f64) -> Vec<(f64, String)> {
+    let span = max - min;
+    if span <= 92.0 {
+        let every = if span <= 45.0 { 7 } else { 14 };
+        let first = start + Duration::days(min.ceil() as i64);
+        let monday = first + Duration::days((7 - first.weekday().num_days_from_monday() as i64) % 7);
+        return (0..)
+            .map(|k| monday + Duration::days(k * every))
+            .map(|d| ((d - start).num_days() as f64, d))
+            .take_while(|(x, _)| *x <= max)
+            .map(|(x, d)| (x, d.format("%d %b").to_string()))
+            .collect();
+    }
+    month_ticks(start, min, max)
+}
+
 fn month_ticks(start: NaiveDate, min: f64, max: f64) -> Vec<(f64, String)> {
     let months = (max - min) / 30.44;
-    let every = [1, 2, 3, 6, 12].into_iter().find(|m| months / *m as f64 <= 12.0).unwrap_or(12);
+    let every = [1, 2, 3, 6, 12, 24, 60, 120].into_iter().find(|m| months / *m as f64 <= 12.0).unwrap_or(120);
     let first = start + Duration::days(min.floor() as i64);
     let mut d = NaiveDate::from_ymd_opt(first.year(), first.month(), 1).unwrap_or(first);
     let mut out = Vec::new();
-    for _ in 0..400 {
+    for _ in 0..2000 {
         let x = (d - start).num_days() as f64;
         if x > max {
             break;
         }
-        if x >= min && (d.month0() as i32) % every == 0 {
-            out.push((x, d.format("%Y-%m").to_string()));
+        if x >= min && (d.year() * 12 + d.month0() as i32) % every == 0 {
+            out.push((x, d.format(if every >= 12 { "%Y" } else { "%Y-%m" }).to_string()));
         }
         d = if d.month() == 12 {
             NaiveDate::from_ymd_opt(d.year() + 1, 1, 1).unwrap_or(d)
@@ -107,7 +128,7 @@ impl Chart {
     fn x_range(&self) -> (f64, f64) {
         match &self.x_axis {
             XAxis::Dates { min, max, .. } => (*min, *max),
-            XAxis::Linear(a) => (a.min, a.max),
+            XAxis::Linear(a) | XAxis::Count(a) => (a.min, a.max),
         }
     }
 
@@ -126,11 +147,7 @@ impl Chart {
     pub fn draw(&self, c: &mut Canvas) {
         c.text(self.x, self.y - 3.0, 9.0, true, &self.title);
         self.grid_and_ticks(c);
-        for (x, label) in &self.vlines {
-            let px = self.px(*x);
-            c.line((px, self.y), (px, self.y + self.h), 0.25, Dash::Dotted, 0.4);
-            c.text_up(px - 0.6, self.y + self.h - 1.0, 5.5, label);
-        }
+        self.vlines(c);
         for s in &self.series {
             let pts: Vec<(f32, f32)> = s.points.iter().map(|&(x, y)| (self.px(x), self.py(y, s.right))).collect();
             if !s.markers_only {
@@ -147,12 +164,33 @@ impl Chart {
         self.legend(c);
     }
 
+    /// Vertical marker lines with their labels reading upwards from the
+    /// bottom; a label that would overlap one drawn close to its left is
+    /// stacked above it instead.
+    fn vlines(&self, c: &mut Canvas) {
+        const SIZE: f32 = 7.0;
+        let mut marks: Vec<(f32, &str)> = self.vlines.iter().map(|(x, l)| (self.px(*x), l.as_str())).collect();
+        marks.sort_by(|a, b| a.0.total_cmp(&b.0));
+        let mut placed: Vec<(f32, f32)> = Vec::new();
+        for (px, label) in marks {
+            c.line((px, self.y), (px, self.y + self.h), 0.25, Dash::Dotted, 0.4);
+            let len = c.fonts.width(label, SIZE, false);
+            let base = placed
+                .iter()
+                .filter(|(x, _)| px - x < 2.8)
+                .map(|(_, top)| top - 1.5)
+                .fold(self.y + self.h - 1.0, f32::min);
+            c.text_up(px - 0.8, base, SIZE, label);
+            placed.push((px, base - len));
+        }
+    }
+
     fn grid_and_ticks(&self, c: &mut Canvas) {
         let (x0, x1) = self.x_range();
         let bottom = self.y + self.h;
         match &self.x_axis {
             XAxis::Dates { start, label, .. } => {
-                for (x, text) in month_ticks(*start, x0, x1) {
+                for (x, text) in date_ticks(*start, x0, x1) {
                     let px = self.px(x);
                     c.line((px, self.y), (px, bottom), 0.1, Dash::Solid, 0.8);
                     c.text_center(px, bottom + 3.5, 6.5, false, &text);
@@ -165,6 +203,17 @@ impl Chart {
                     let px = self.px(t);
                     c.line((px, self.y), (px, bottom), 0.1, Dash::Solid, 0.8);
                     c.text_center(px, bottom + 3.5, 6.5, false, &tick_label(t, step));
+                }
+                c.text_center(self.x + 0.5 * self.w, bottom + 7.5, 7.0, false, &a.label);
+            }
+            XAxis::Count(a) => {
+                let step = nice_step(a.max - a.min, 12.0).max(1.0).ceil();
+                let mut t = a.min.ceil();
+                while t <= a.max + 1e-9 {
+                    let px = self.px(t);
+                    c.line((px, self.y), (px, bottom), 0.1, Dash::Solid, 0.8);
+                    c.text_center(px, bottom + 3.5, 6.5, false, &format!("{t:.0}"));
+                    t += step;
                 }
                 c.text_center(self.x + 0.5 * self.w, bottom + 7.5, 7.0, false, &a.label);
             }
@@ -219,5 +268,21 @@ mod tests {
         assert_eq!(nice_step(7.5, 5.0), 2.0);
         assert_eq!(nice_step(0.9, 5.0), 0.2);
         assert_eq!(ticks(0.0, 1.0, 4.0), vec![0.0, 0.25, 0.5, 0.75, 1.0]);
+    }
+
+    #[test]
+    fn a_short_programme_gets_weekly_ticks_and_a_long_one_yearly() {
+        // 2027-04-05 is a Monday (calendar): a 40-day span gets Mondays
+        // every week, 6 of them (days 0, 7, …, 35).
+        let start = NaiveDate::from_ymd_opt(2027, 4, 5).unwrap();
+        let t = date_ticks(start, 0.0, 40.0);
+        assert_eq!(t.iter().map(|x| x.0).collect::<Vec<_>>(), vec![0.0, 7.0, 14.0, 21.0, 28.0, 35.0]);
+        assert_eq!(t[1].1, "12 Apr");
+        // 32 years: ticks every 5 years on 1 January, labelled by year.
+        let t = date_ticks(start, 0.0, 32.0 * 365.25);
+        assert_eq!(
+            t.iter().map(|x| x.1.as_str()).collect::<Vec<_>>(),
+            vec!["2030", "2035", "2040", "2045", "2050", "2055"]
+        );
     }
 }

@@ -1,7 +1,8 @@
 //! The PDF schedule report (printpdf): a title block with signature boxes on
 //! every page, summary, lift timetable split across pages with repeated
 //! headers, figures drawn as vector graphics, inputs with the project file's
-//! SHA-256, method statement, caution notes and monitoring plan. A4
+//! SHA-256, methods and assumptions, caution notes and monitoring plan, and
+//! a caution footer with the program version on every page of every PDF. A4
 //! landscape, black and grey only, fonts embedded (DejaVu Sans Condensed).
 //! The hold-point release certificate shares the title block and charts.
 
@@ -9,6 +10,7 @@ mod canvas;
 mod certificate;
 mod chart;
 mod figures;
+mod more_inputs;
 mod options;
 mod pages;
 
@@ -31,6 +33,7 @@ enum Kind {
     FiguresPore,
     Section,
     Inputs,
+    MoreInputs,
     Methods,
     Cautions,
 }
@@ -44,7 +47,8 @@ impl Kind {
             Kind::FiguresPore => "Pore pressure and strength gain",
             Kind::Section => "Cross-section at the governing stage",
             Kind::Inputs => "Inputs",
-            Kind::Methods => "Method statement",
+            Kind::MoreInputs => "Inputs (continued): strength, calendar, sequence, instruments",
+            Kind::Methods => "Methods and assumptions",
             Kind::Cautions => "Cautions and monitoring plan",
         }
     }
@@ -63,6 +67,7 @@ impl Exporter for Pdf {
             Kind::FiguresPore,
             Kind::Section,
             Kind::Inputs,
+            Kind::MoreInputs,
             Kind::Methods,
             Kind::Cautions,
         ]);
@@ -81,6 +86,7 @@ impl Exporter for Pdf {
                 Kind::FiguresPore => figures::figures_pore_strength(c, &ctx),
                 Kind::Section => figures::cross_section(c, &ctx),
                 Kind::Inputs => pages::inputs(c, &ctx),
+                Kind::MoreInputs => more_inputs::more_inputs(c, &ctx),
                 Kind::Methods => pages::methods(c),
                 Kind::Cautions => pages::cautions_and_monitoring(c, &ctx),
             }
@@ -137,6 +143,14 @@ fn stamp_metadata(info: &mut printpdf::PdfDocumentInfo) {
     info.producer = crate::report::program_version();
 }
 
+/// The caution footer (templates/caution-footer.txt) and the program
+/// version, below the title block of every page of every PDF.
+fn footer(c: &mut Canvas) {
+    let y = pages::BLOCK_TOP + 24.5;
+    c.text(pages::MARGIN, y, 6.5, true, &crate::report::caution_footer());
+    c.text_right(PAGE_W - pages::MARGIN, y, 6.5, false, &crate::report::program_version());
+}
+
 /// An A4-landscape document of `pages` pages, each drawn by `draw(canvas,
 /// index)`, with the bundled fonts embedded (subset).
 fn document(name: &str, pages: usize, mut draw: impl FnMut(&mut Canvas, usize)) -> Result<Vec<u8>> {
@@ -152,6 +166,7 @@ fn document(name: &str, pages: usize, mut draw: impl FnMut(&mut Canvas, usize)) 
     for i in 0..pages {
         let mut c = Canvas::new(&fonts);
         draw(&mut c, i);
+        footer(&mut c);
         out.push(PdfPage::new(Mm(PAGE_W), Mm(PAGE_H), c.ops));
     }
     doc.with_pages(out);

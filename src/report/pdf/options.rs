@@ -229,7 +229,7 @@ pub fn risk_charts(c: &mut Canvas, r: &RiskReport) {
         w,
         h,
         title: "FS at the end of each stage of the timetable".into(),
-        x_axis: XAxis::Linear(Axis { label: "stage".into(), min: 0.5, max: n + 0.5 }),
+        x_axis: XAxis::Count(Axis { label: "stage".into(), min: 0.5, max: n + 0.5 }),
         left: Axis {
             label: "factor of safety".into(),
             min: ((fs_lo - 0.1) * 10.0).floor() / 10.0,

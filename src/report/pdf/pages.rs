@@ -1,5 +1,5 @@
 //! The pages of the PDF schedule: title block, summary, lift timetable,
-//! figures, inputs, method statement, cautions and monitoring plan. Each
+//! figures, inputs, methods and assumptions, cautions and monitoring plan. Each
 //! function draws one kind of page on a canvas; `super::Pdf` assembles them.
 
 use super::canvas::{Canvas, Dash, PAGE_H, PAGE_W};
@@ -181,15 +181,17 @@ pub fn summary(c: &mut Canvas, ctx: &Ctx) {
     let mut y = table(c, MARGIN, CONTENT_TOP + 4.0, &[("Item", 55.0, false), ("Value", 150.0, false)], &rows, 8.0);
     y += 6.0;
     if let Some(s) = min_stage {
+        let bottom = if s.circle_depth_m > 0.0 {
+            format!(
+                "passes {:.1} m below original ground with its lowest point in the {}, where su is {:.1} kPa",
+                s.circle_depth_m, s.mechanism, s.su_governing_kpa
+            )
+        } else {
+            format!("stays above original ground, its lowest point in the {}", s.mechanism)
+        };
         let sentence = format!(
-            "Governing mechanism: at the end of stage {} (crest {:.2} m) the critical slip circle passes {:.1} m below original ground with its lowest point in the {}, where su is {:.1} kPa; FS = {:.2} against a target of {:.2}.",
-            s.number,
-            s.height_after_m,
-            s.circle_depth_m,
-            s.mechanism,
-            s.su_governing_kpa,
-            s.fs_end,
-            p.criteria.fs_construction
+            "Governing mechanism: at the end of stage {} (crest {:.2} m) the critical slip circle {bottom}; FS = {:.2} against a target of {:.2}.",
+            s.number, s.height_after_m, s.fs_end, p.criteria.fs_construction
         );
         y = c.paragraph(MARGIN, y, 250.0, 8.5, &sentence) + 3.0;
     }
@@ -276,7 +278,11 @@ pub fn inputs(c: &mut Canvas, ctx: &Ctx) {
                         cl.c_alpha,
                         cl.cv_m2_per_day * DAYS_PER_YEAR,
                         cl.ch_m2_per_day * DAYS_PER_YEAR,
-                        if cl.strength.su0_points.is_empty() { String::new() } else { " · measured su0 floor".into() }
+                        if cl.strength.su0_points.is_empty() {
+                            String::new()
+                        } else {
+                            " · su0 measured (next page)".into()
+                        }
                     ),
                 )
             }
@@ -365,7 +371,7 @@ pub fn inputs(c: &mut Canvas, ctx: &Ctx) {
             None => "Drains: none.".into(),
         },
         format!(
-            "Construction: {} m per working day; lifts {}–{} m in steps of {} m; minimum rest {} days; working days {}; weather downtime {:.0}%; {} holiday dates.",
+            "Construction: {} m per working day; lifts {}–{} m in steps of {} m; minimum rest {} days; working days {}; weather downtime {:.0}%; holidays as listed on the next page ({} days).",
             k.placement_rate_m_per_day,
             k.lift_min_m,
             k.lift_max_m,
@@ -416,7 +422,7 @@ pub fn inputs(c: &mut Canvas, ctx: &Ctx) {
     c.text(MARGIN + 30.0, y, 7.5, false, &ctx.r.source_sha256);
 }
 
-/// Method statement and assumptions.
+/// Methods and assumptions (not a contractor's method statement).
 pub fn methods(c: &mut Canvas) {
     let items = [
         (
@@ -449,7 +455,7 @@ pub fn methods(c: &mut Canvas) {
         ),
         (
             "Timetable",
-            "Thickest safe lift at each stage by bisection over lift thicknesses; shortest rest to the day by bracketing and false position, relying on FS falling with lift thickness and rising with rest; working-day calendar with holidays and weather downtime; consolidation on every calendar day.",
+            "Thickest lift meeting the FS target at each stage by bisection over lift thicknesses; shortest rest to the day by bracketing and false position, relying on FS falling with lift thickness and rising with rest; working-day calendar with holidays and weather downtime; consolidation on every calendar day.",
         ),
     ];
     let assumptions = "Assumptions and limits: plane strain section (long embankment); saturated clay; horizontally layered ground; small-strain consolidation; stability checked undrained at the end of each placement on circular surfaces only (non-circular failures along thin weak layers are not found); parameters are best estimates without partial factors. Outside these limits the results are not valid.";
