@@ -28,6 +28,7 @@ approximations, the parameters and the commands that made the committed files.
 import argparse
 import datetime as dt
 import math
+import os
 import random
 import sys
 import tomllib
@@ -498,6 +499,8 @@ def reading_times(prj, args):
     while t <= end:
         out.append(t)
         t += dt.timedelta(days=args.every)
+    if not out:
+        raise InputError(f"--end {args.end} is before the first reading time {t}")
     return out
 
 
@@ -508,8 +511,9 @@ def rows(prj, args):
     steps = increments([(d, h) for d, h, _ in fill])
     cols = build_columns(prj, args, steps)
     rng = random.Random(args.seed) if args.seed is not None else None
-    out = [(t, FILL_ID, f"{h:.2f}") for _, h, t in fill]
-    for time in reading_times(prj, args):
+    times = reading_times(prj, args)
+    out = [(t, FILL_ID, f"{h:.2f}") for _, h, t in fill if t <= times[-1]]
+    for time in times:
         day = (time - start).total_seconds() / 86400.0
         for inst in prj["instrument"]:
             if time.date() < inst["baseline_date"]:
@@ -639,8 +643,6 @@ def main(argv=None):
             tmp = args.out + ".tmp"
             with open(tmp, "w", encoding="utf-8") as f:
                 write(prj, args, f)
-            import os
-
             os.replace(tmp, args.out)
     except (InputError, KeyError, ValueError, OSError, tomllib.TOMLDecodeError) as e:
         print(f"textbook_readings: {args.project}: {e}", file=sys.stderr)
