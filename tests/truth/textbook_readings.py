@@ -576,7 +576,7 @@ def self_test():
          "Poulos & Davis (1974) uniform strip: (1/pi)(alpha + sin alpha), alpha = pi/2: 0.81831 (hand)"),
         ("strip solution vs numerical integration of Flamant", sigma_z(_trapezoid(3.0, 2.0, 1.0), 4.0, 2.5),
          _flamant_numeric(_trapezoid(3.0, 2.0, 1.0), 4.0, 2.5), 1e-6, "Flamant line load integrated by Simpson's rule"),
-    ]
+    ] + _model_checks()
     failed = 0
     for what, got, want, tol, src in checks:
         ok = abs(got - want) <= tol
@@ -584,6 +584,34 @@ def self_test():
         print(f"{'ok  ' if ok else 'FAIL'} {what}: {got:.6f} (expected {want:.6f} +- {tol:g}; {src})")
     print(f"{len(checks) - failed} of {len(checks)} checks pass")
     return 0 if failed == 0 else 1
+
+
+def _model_checks():
+    """Physical bounds of the whole model on a one-sublayer clay under a
+    very wide embankment (Δσv = q at its mid-depth)."""
+    clay = {"name": "clay", "kind": "clay", "thickness_m": SUBLAYER_M, "unit_weight_kn_m3": 16.0,
+            "saturated_unit_weight_kn_m3": 16.0, "e0": 2.0, "cc": 1.0, "cr": 0.1, "pop_kpa": 20.0,
+            "cv_m2_per_year": 1.0}
+    prj = {"ground": {"groundwater_depth_m": 0.0, "base_drainage": "drained",
+                      "layers": [clay, {"name": "sand", "kind": "sand", "thickness_m": 2.0, "unit_weight_kn_m3": 20.0}]},
+           "embankment": {"design_height_m": 5.0, "crest_width_m": 2000.0, "side_slope_h_per_v": 2.0,
+                          "fill_unit_weight_kn_m3": 20.0}}
+    steps = [(0.0, 0.0, 5.0)]
+
+    def column(rate):
+        return Column(Stratum(prj, rate, 1.0), 0.0, steps, [0.125])
+
+    c1, c2 = column(1.0), column(2.0)
+    return [
+        ("model: excess just after loading = Δσv", c1.excess(1e-9, 0.125), 100.0, 1e-3,
+         "physical bound: no dissipation at t = 0+ (q = 20 x 5 = 100 kPa)"),
+        ("model: excess after 1e6 days", c1.excess(1e6, 0.125), 0.0, 1e-9, "physical bound: full dissipation"),
+        ("model: final settlement", c1.settlement(1e6), 0.069060, 2e-6,
+         "hand, e-log: s'0 = 0.125 x 6.19 = 0.774, s'p = 20.774, s' = 100.774 kPa; "
+         "0.25 [0.1 log(26.848) + 1.0 log(4.8510)] / 3 = 0.06906 m"),
+        ("model: rate x2 at 0.1 day = rate x1 at 0.2 day", c2.settlement(0.1), c1.settlement(0.2), 1e-12,
+         "time factors scale with cv t"),
+    ]
 
 
 def _erfc_branch(zr, tv):
