@@ -465,19 +465,32 @@ def parse_fill(text, start):
     return out
 
 
-def instrument_value(inst, prj, cols, t, ratio, tip_settles):
-    """True reading (instrument units) of an instrument at day t."""
+def instrument_value(inst, prj, cols, t, args):
+    """Reading (instrument units) of an instrument at day t: the model's,
+    plus the injected anomaly when `--distress-from` is given."""
     kind, unit = inst["kind"], inst["units"]
     if kind == "piezometer":
         col, d = cols[inst["offset_m"]], inst["depth_m"]
-        s_tip = col.settlement(t, below=d) if tip_settles else 0.0
-        u = u_hydrostatic(prj["ground"], d + s_tip) + col.excess(t, d)
+        s_tip = col.settlement(t, below=d) if not args.no_tip_settlement else 0.0
+        u = u_hydrostatic(prj["ground"], d + s_tip) + excess_with_distress(col, d, t, args)
         return u / TO_SI[unit]
     if kind == "settlement-plate":
         return inst["baseline_value"] - cols[inst["offset_m"]].settlement(t) / TO_SI[unit]
     if kind == "lateral-marker":
-        return inst["baseline_value"] + ratio * cols[0.0].settlement(t) / TO_SI[unit]
+        move = args.lateral_ratio * cols[0.0].settlement(t)
+        if args.distress_day is not None and t > args.distress_day:
+            move += 0.5 * args.lateral_accel_mm_per_day2 * (t - args.distress_day) ** 2 / 1000.0
+        return inst["baseline_value"] + move / TO_SI[unit]
     raise InputError(f"[[instrument]] {inst['id']}: kind = \"{kind}\" is not modelled")
+
+
+def excess_with_distress(col, d, t, args):
+    """Excess pore pressure (kPa); an injected anomaly (not modelled) from
+    `--distress-from`: dissipation stops and the excess rises at a constant
+    net rate."""
+    if args.distress_day is None or t <= args.distress_day:
+        return col.excess(t, d)
+    return col.excess(args.distress_day, d) + args.pore_rise_kpa_per_week * (t - args.distress_day) / 7.0
 
 
 def build_columns(prj, args, steps):
@@ -512,13 +525,16 @@ def rows(prj, args):
     cols = build_columns(prj, args, steps)
     rng = random.Random(args.seed) if args.seed is not None else None
     times = reading_times(prj, args)
+    args.distress_day = None
+    if args.distress_from is not None:
+        args.distress_day = (parse_time(args.distress_from) - start).total_seconds() / 86400.0
     out = [(t, FILL_ID, f"{h:.2f}") for _, h, t in fill if t <= times[-1]]
     for time in times:
         day = (time - start).total_seconds() / 86400.0
         for inst in prj["instrument"]:
             if time.date() < inst["baseline_date"]:
                 continue
-            v = instrument_value(inst, prj, cols, day, args.lateral_ratio, not args.no_tip_settlement)
+            v = instrument_value(inst, prj, cols, day, args)
             unit, dec = inst["units"], DECIMALS[inst["units"]]
             if rng is not None:
                 v += rng.gauss(0.0, PRECISION_SI[inst["kind"]] / TO_SI[unit])
@@ -532,6 +548,11 @@ def rows(prj, args):
 def write(prj, args, out):
     noise = "noise-free" if args.seed is None else f"Gaussian noise seed {args.seed}"
     cmd = " ".join(["python3", "tests/truth/textbook_readings.py"] + sys.argv[1:])
+    if args.distress_from is not None:
+        noise += (
+            f"; INJECTED from {args.distress_from}: excess pore pressure stops dissipating and rises "
+            f"{args.pore_rise_kpa_per_week} kPa/week, toe acceleration {args.lateral_accel_mm_per_day2} mm/day2"
+        )
     out.write(
         f"# INVENTED readings from the independent textbook model (not fillpace's engine): rate x{args.rate}, "
         f"compressibility x{args.compressibility}, {noise}, lateral ratio {args.lateral_ratio}.\n"
@@ -654,6 +675,11 @@ def main(argv=None):
     ap.add_argument("--first", help="first reading time (default: earliest baseline date 09:00)")
     ap.add_argument("--end", default=DEMO_END, help="last reading time, the hold point (default %(default)s)")
     ap.add_argument("--every", type=float, default=3.0, help="days between readings (default 3)")
+    ap.add_argument("--distress-from", help="TIME from which to inject the anomaly below (not modelled)")
+    ap.add_argument("--pore-rise-kpa-per-week", type=float, default=2.5,
+                    help="injected net rise of every piezometer's excess (default %(default)s)")
+    ap.add_argument("--lateral-accel-mm-per-day2", type=float, default=0.05,
+                    help="injected acceleration of every toe marker (default %(default)s)")
     ap.add_argument("--no-tip-settlement", action="store_true", help="piezometer tips do not settle with the ground")
     ap.add_argument("--out", help="output CSV (default: standard output)")
     ap.add_argument("--self-test", action="store_true", help="run the checks against published values and exit")
