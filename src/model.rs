@@ -522,7 +522,7 @@ impl Default for MonitoringRules {
             asaoka_interval_days: 7.0,
             piezometer_sd_kpa: 2.0,
             settlement_sd_m: 0.01,
-            lateral_sd_m: 0.003,
+            lateral_sd_m: 0.002,
             required: Vec::new(),
             min_per_kind: [1, 1, 1],
             max_age_days: [7.0, 7.0, 7.0],

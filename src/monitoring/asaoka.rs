@@ -239,14 +239,21 @@ mod tests {
     }
 
     #[test]
-    fn coefficient_from_beta1() {
-        // cv = −(5/12) H² ln β1 / Δt (Asaoka 1978): H = 5 m, Δt = 6 d and
-        // β1 = e^(−0.1) give cv = 5/12 · 25 · 0.1 / 6 m²/day.
-        let t: Vec<f64> = (0..30).map(|k| 6.0 * k as f64).collect();
-        let s: Vec<f64> = t.iter().map(|t| 1.0 - (-t / 60.0).exp()).collect();
-        let a = asaoka(&t, &s, 6.0, Drainage::Vertical { path_m: 5.0 });
-        let expect = 5.0 / 12.0 * 25.0 * 0.1 / 6.0 * crate::model::DAYS_PER_YEAR;
-        assert!((a.coefficient_m2_per_year.unwrap() - expect).abs() < 1e-6 * expect);
+    fn coefficient_of_a_terzaghi_first_mode_record() {
+        // A record that is exactly the first mode of Terzaghi's solution for
+        // cv = 2 m²/yr and drainage path H = 5 m decays with
+        // τ = 4H²/(π² cv) (Terzaghi 1943, closed form). Asaoka's (1978)
+        // parabolic-isochrone coefficient 5/12 then returns cv × 5π²/48
+        // (= 1.028 cv: 5/12 against 4/π², both published), not the code's
+        // own number.
+        let (cv_year, h) = (2.0, 5.0);
+        let cv_day = cv_year / crate::model::DAYS_PER_YEAR;
+        let tau = 4.0 * h * h / (std::f64::consts::PI.powi(2) * cv_day);
+        let t: Vec<f64> = (0..40).map(|k| 6.0 * k as f64).collect();
+        let s: Vec<f64> = t.iter().map(|t| 0.8 * (1.0 - (-t / tau).exp())).collect();
+        let a = asaoka(&t, &s, 6.0, Drainage::Vertical { path_m: h });
+        let expect = cv_year * 5.0 * std::f64::consts::PI.powi(2) / 48.0;
+        assert!((a.coefficient_m2_per_year.unwrap() - expect).abs() < 1e-6 * expect, "{a:?}");
     }
 
     #[test]

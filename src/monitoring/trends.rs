@@ -2,8 +2,8 @@
 //! with their standard error, never smaller than the reading precision
 //! allows (se ≥ sd/√Sxx). Rules: pore pressure rising under constant load
 //! (99% two-sided significance and a rate limit), settlement and lateral
-//! rates, lateral acceleration (the rate of the latest half of the trend
-//! window against the half before, significant at 99%), Δu/Δσv of the last
+//! rates, lateral acceleration (the curvature of a least-squares parabola
+//! through the marker readings of the trend window, significant at 99%), Δu/Δσv of the last
 //! lift against a yield-indicating limit (the ratio rises towards 1 as the
 //! clay passes σ'p: Leroueil, Tavenas et al. 1985), and the lateral over
 //! settlement increment ratio ΔL/ΔS (Tavenas, Mieussens & Bourges 1979).
@@ -125,39 +125,52 @@ fn rate_rule(p: &Project, r: &Readings, kind: InstrumentKind) -> Rule {
     }
 }
 
+/// Acceleration of a series: 2c of the least-squares parabola
+/// a + b t + c t² (t centred), with its standard error from the larger of
+/// the residual scatter and the precision `sd`. Needs five points.
+pub fn acceleration_of(points: &[(f64, f64)], sd: f64) -> Option<(f64, f64)> {
+    let n = points.len();
+    if n < 5 {
+        return None;
+    }
+    let mt = points.iter().map(|p| p.0).sum::<f64>() / n as f64;
+    let x = nalgebra::DMatrix::from_fn(n, 3, |i, j| (points[i].0 - mt).powi(j as i32));
+    let y = nalgebra::DVector::from_iterator(n, points.iter().map(|p| p.1));
+    let xtx = x.transpose() * &x;
+    let inv = xtx.try_inverse()?;
+    let c = &inv * x.transpose() * &y;
+    let sse = (&y - &x * &c).norm_squared();
+    let s2 = (sse / (n as f64 - 3.0)).max(sd * sd);
+    Some((2.0 * c[2], 2.0 * (s2 * inv[(2, 2)]).sqrt()))
+}
+
 fn acceleration(p: &Project, r: &Readings) -> Rule {
     let m = &p.monitoring;
-    let half = 0.5 * m.trend_window_days;
-    let (t1, t0) = (r.today_day - half, r.today_day - 2.0 * half);
-    let mut best: Option<(f64, f64, String)> = None;
-    for (k, i) in of_kind(p, InstrumentKind::LateralMarker) {
-        let pts = series_from(r, k, t0);
-        let (old, new): (Vec<_>, Vec<_>) = pts.iter().partition(|x| x.0 < t1 - 1e-9);
-        if let (Some(a), Some(b)) = (regress(&old, m.lateral_sd_m), regress(&new, m.lateral_sd_m)) {
-            let (up, se) = (b.slope - a.slope, a.se.hypot(b.se));
-            let z = if se > 0.0 { up / se } else { 0.0 };
-            if best.as_ref().is_none_or(|x| z > x.1) {
-                best = Some((1000.0 * up, z, i.id.clone()));
-            }
-        }
-    }
-    let Some((up, z, id)) = best else {
-        return Rule::not_evaluated(LATERAL_ACCELERATION, Z99, "σ", "fewer than three marker readings in each half of the trend window");
-    };
-    let verdict = if up > 0.0 && z > Z99 { Verdict::Fail } else { Verdict::Pass };
-    Rule {
-        verdict,
-        ..Rule::at_most(
+    let from = r.last_change_end().max(r.today_day - m.trend_window_days);
+    let best = of_kind(p, InstrumentKind::LateralMarker)
+        .filter_map(|(k, i)| acceleration_of(&series_from(r, k, from), m.lateral_sd_m).map(|a| (a, i.id.clone())))
+        .max_by(|a, b| (a.0.0 / a.0.1).total_cmp(&(b.0.0 / b.0.1)));
+    let Some(((acc, se), id)) = best else {
+        return Rule::not_evaluated(
             LATERAL_ACCELERATION,
-            z,
             Z99,
-            "σ",
-            format!(
-                "{id}: outward rate changed by {up:+.2} mm/day between the two halves of the last {:.0} days ({z:.1} standard errors)",
-                m.trend_window_days
-            ),
-        )
-    }
+            "se",
+            "fewer than five marker readings since the last lift ended within the trend window",
+        );
+    };
+    let z = acc / se;
+    Rule::at_most(
+        LATERAL_ACCELERATION,
+        z,
+        Z99,
+        "se",
+        format!(
+            "{id}: outward acceleration {:+.3} ± {:.3} mm/day² (1 se) over the last {:.0} days (parabola through the readings); fails beyond 99% significance",
+            1000.0 * acc,
+            1000.0 * se,
+            r.today_day - from
+        ),
+    )
 }
 
 /// Δu/Δσv of the last lift at each piezometer: the change of pore pressure
