@@ -71,22 +71,9 @@ fn dispatch(cmd: &Command) -> Result<String> {
             let files = ReleaseFiles { readings, pdf: pdf.as_deref(), log: log.as_deref() };
             release(project, &files, *lift, on.as_deref(), *json)
         }
-        Command::Log(LogCommand::Verify { log, json }) => {
-            if !log.exists() {
-                return Err(Error::Read {
-                    path: log.clone(),
-                    source: std::io::Error::new(std::io::ErrorKind::NotFound, "no such file"),
-                });
-            }
-            let v = crate::audit::verify(log)?;
-            if *json {
-                Ok(format!(
-                    "{}\n",
-                    serde_json::json!({ "fillpace": env!("CARGO_PKG_VERSION"), "command": "log verify", "result": v })
-                ))
-            } else {
-                Ok(report::text::log_verified(&v))
-            }
+        Command::Log(LogCommand::Verify { log, record, head, json }) => {
+            let anchor = record.zip(head.clone()).map(|(record, head)| crate::audit::Anchor { record, head });
+            log_verify(log, anchor, *json)
         }
         Command::Completions { shell, json } => {
             let mut buf = Vec::new();
@@ -113,6 +100,47 @@ fn generated(bytes: Vec<u8>, command: &str, field: &str, json: bool) -> Result<S
         Ok(format!("{v}\n"))
     } else {
         Ok(text)
+    }
+}
+
+/// `log verify`: the chain, the anchor of a signed record, every record PDF.
+fn log_verify(log: &Path, anchor: Option<crate::audit::Anchor>, json: bool) -> Result<String> {
+    if !log.exists() {
+        return Err(Error::Read {
+            path: log.to_path_buf(),
+            source: std::io::Error::new(std::io::ErrorKind::NotFound, "no such file"),
+        });
+    }
+    let (mut v, entries) = crate::audit::read(log)?;
+    if let Some(a) = &anchor {
+        crate::audit::check_anchor(&v.file, &entries, a)?;
+    }
+    v.anchor = anchor;
+    v.records = crate::audit::check_records(log, &entries);
+    let bad: Vec<String> = v
+        .records
+        .iter()
+        .filter(|r| r.state != crate::audit::RecordState::Matches)
+        .map(|r| format!("record {} ({}) is {:?}", r.entry, r.record_file, r.state).to_lowercase())
+        .collect();
+    if !bad.is_empty() {
+        return Err(Error::input(
+            &v.file,
+            None,
+            "",
+            format!(
+                "names record PDFs that no longer match their logged SHA-256: {}; the chain itself is intact",
+                bad.join("; ")
+            ),
+        ));
+    }
+    if json {
+        Ok(format!(
+            "{}\n",
+            serde_json::json!({ "fillpace": env!("CARGO_PKG_VERSION"), "command": "log verify", "result": v })
+        ))
+    } else {
+        Ok(report::text::log_verified(&v))
     }
 }
 
@@ -405,17 +433,17 @@ fn plan(path: Option<&Path>, readings_file: Option<&Path>, outs: &PlanOutputs, j
         }
         let r = readings::load(rf, &p)?;
         let cal = release_check::calibrate(&p, &r)?;
+        let (state, _) = release_check::measured_state(&p, &r, &cal);
         let min_rest = f64::from(p.construction.min_rest_days);
         let earliest = (r.today_day.ceil()).max((r.last_change_end() + min_rest).ceil()) as i64;
         source = format!(
-            "{source}, re-planned from the hold point {} of {} (cv, ch × {:.2}; pore pressures × {:.2})",
+            "{source}, re-planned from the hold point {} of {} (cv, ch × {:.2}; pore pressures as the piezometers read)",
             r.today.format("%Y-%m-%d %H:%M"),
             rf.display(),
             cal.fit.multiplier,
-            cal.pore_pressure_factor
         );
         inputs.push(rf.to_path_buf());
-        start = Some((cal.state, earliest));
+        start = Some((state, earliest));
         p = cal.project;
     }
     let input_refs: Vec<&Path> = inputs.iter().map(PathBuf::as_path).collect();
@@ -433,7 +461,7 @@ fn plan(path: Option<&Path>, readings_file: Option<&Path>, outs: &PlanOutputs, j
         planner::Planned::Built(plan) => plan,
         planner::Planned::Unbuildable(u) => return Err(unbuildable(&p, &source, &u, json)),
     };
-    let rep = PlanReport { project: &p, plan: &plan, source, source_sha256: report::sha256_hex(text.as_bytes()) };
+    let rep = PlanReport { project: &p, plan: &plan, source, source_sha256: crate::hash::sha256_hex(text.as_bytes()) };
     for (kind, out) in &files {
         let bytes = match *kind {
             "csv" => report::csv::Csv.serialize(&rep)?,
@@ -461,12 +489,13 @@ fn unbuildable(p: &Project, source: &str, u: &crate::schedule::finish::Unbuildab
     }
 }
 
-/// Files of a release check.
+/// Files of a hold-point check.
 pub struct ReleaseFiles<'a> {
     pub readings: &'a Path,
-    /// Certificate; default next to the project.
+    /// Record PDF; default next to the project, named by hold point and
+    /// record number.
     pub pdf: Option<&'a Path>,
-    /// Audit log; default next to the project.
+    /// Record log; default next to the project.
     pub log: Option<&'a Path>,
 }
 
@@ -479,7 +508,7 @@ fn release(path: &Path, files: &ReleaseFiles, lift: f64, on: Option<&str>, json:
             &name,
             None,
             "instrument",
-            "has no [[instrument]] entries; the release check needs the piezometers, settlement plates and markers the readings come from".into(),
+            "has no [[instrument]] entries; the hold-point check needs the piezometers, settlement plates and markers the readings come from".into(),
         ));
     }
     let r = readings::load(files.readings, &p)?;
@@ -491,53 +520,89 @@ fn release(path: &Path, files: &ReleaseFiles, lift: f64, on: Option<&str>, json:
         .transpose()?;
     let dir = path.parent().map_or_else(|| PathBuf::from("."), Path::to_path_buf);
     let stem = path.file_stem().map_or("project".into(), |s| s.to_string_lossy().into_owned());
-    let cert = files.pdf.map_or_else(|| dir.join(format!("{stem}-release-{}.pdf", r.today.date())), Path::to_path_buf);
-    let log = files.log.map_or_else(|| dir.join(format!("{stem}.release-log.jsonl")), Path::to_path_buf);
-    for out in [&cert, &log] {
+    let log = files.log.map_or_else(|| dir.join(format!("{stem}.hold-point-log.jsonl")), Path::to_path_buf);
+    // A damaged log stops the check before anything is computed or written.
+    let (before, _) = crate::audit::appendable(&log)?;
+    let record = files.pdf.map_or_else(
+        || dir.join(format!("{stem}-hold-point-{}-record-{}.pdf", r.today.date(), before.entries + 1)),
+        Path::to_path_buf,
+    );
+    for out in [&record, &log] {
         output::refuse_overwrite_of_inputs(out, &[path, files.readings])?;
     }
-    if cert == log {
-        return Err(Error::Usage("the certificate and the log must be different files".into()));
+    if record == log {
+        return Err(Error::Usage("the record and the log must be different files".into()));
     }
-    // A damaged log stops the check before anything is written.
-    let next_entry = crate::audit::appendable(&log)?.entries + 1;
     let check = release_check::check(&p, &r, lift, on)?;
-    let mut rep = ReleaseReport {
+    let project_sha256 = crate::hash::sha256_hex(&text);
+    let now = report::now_utc();
+    let rep_for = |slot: &crate::audit::Slot| ReleaseReport {
         project: &p,
         check: &check,
         project_file: name.clone(),
-        project_sha256: report::sha256_hex(&text),
-        certificate: cert.display().to_string(),
+        project_sha256: project_sha256.clone(),
+        record_file: record.display().to_string(),
         log: log.display().to_string(),
-        log_entry: next_entry,
+        record: slot.record,
+        supersedes: supersedes(&slot.entries, &name, &check),
+        log_entries_before: slot.entries_before,
+        log_head_before: slot.head_before.clone(),
+        log_head_after: String::new(),
     };
-    let now = report::now_utc();
-    let pdf = report::pdf::certificate(&rep, now.date())?;
-    output::write_atomic(&cert, &pdf)?;
+    let committed = crate::audit::commit(&log, &record, |slot| {
+        let rep = rep_for(slot);
+        let pdf = report::pdf::certificate(&rep, now.date())?;
+        Ok((pdf, log_fields(&rep, &r, now)?))
+    })?;
+    let mut rep = rep_for(&committed.slot);
+    rep.log_head_after = committed.head_after.clone();
+    if json { report::json::envelope("release", &p, &name, &rep) } else { Ok(report::text::release(&rep)) }
+}
+
+/// The latest earlier record of the same project file and hold point.
+fn supersedes(entries: &[crate::audit::Entry], project: &str, check: &release_check::ReleaseCheck) -> Option<usize> {
+    let hold = check.hold_point.format("%Y-%m-%dT%H:%M").to_string();
+    entries
+        .iter()
+        .rev()
+        .find(|e| {
+            e.fields.get("hold_point").and_then(|v| v.as_str()) == Some(hold.as_str())
+                && e.fields.get("project_file").and_then(|v| v.as_str()) == Some(project)
+        })
+        .map(|e| e.number)
+}
+
+/// The fields of a record's log entry.
+fn log_fields(
+    rep: &ReleaseReport,
+    r: &readings::Readings,
+    now: chrono::NaiveDateTime,
+) -> Result<serde_json::Map<String, serde_json::Value>> {
+    let check = rep.check;
     let entry = serde_json::json!({
         "fillpace": env!("CARGO_PKG_VERSION"),
         "written_utc": now.format("%Y-%m-%dT%H:%M:%SZ").to_string(),
-        "project_file": name,
+        "project_file": rep.project_file,
         "project_sha256": rep.project_sha256,
         "readings_file": r.file,
         "readings_sha256": r.sha256,
         "hold_point": check.hold_point.format("%Y-%m-%dT%H:%M").to_string(),
+        "record": rep.record,
+        "supersedes": rep.supersedes,
         "lift_m": check.lift_m,
         "lift_start": check.lift_start.to_string(),
-        "decision": check.decision.label(),
+        "recommendation": check.recommendation,
         "fs_now": check.fs_now,
         "fs_next": check.fs_next,
         "fs_target": check.fs_target,
         "multiplier": check.fit.multiplier,
-        "pore_pressure_factor": check.pore_pressure_factor,
         "failing_rules": check.rules.iter().filter(|r| r.verdict == release_check::Verdict::Fail).map(|r| r.name).collect::<Vec<_>>(),
+        "insufficient": check.insufficient,
         "earliest_release": check.earliest_release.map(|d| d.to_string()),
-        "certificate": rep.certificate,
-        "certificate_sha256": report::sha256_hex(&pdf),
+        "record_file": rep.record_file,
     });
-    let serde_json::Value::Object(fields) = entry else {
-        return Err(Error::Computation("the log entry is not a JSON object".into()));
-    };
-    rep.log_entry = crate::audit::append(&log, fields)?;
-    if json { report::json::envelope("release", &p, &name, &rep) } else { Ok(report::text::release(&rep)) }
+    match entry {
+        serde_json::Value::Object(fields) => Ok(fields),
+        _ => Err(Error::Computation("the log entry is not a JSON object".into())),
+    }
 }

@@ -161,9 +161,11 @@ pub enum Command {
         #[arg(long)]
         json: bool,
     },
-    /// Hold-point check: may the next lift be placed? Interprets the
-    /// readings, calibrates the model, decides RELEASE or HOLD, writes a PDF
-    /// certificate and appends the decision to the audit log.
+    /// Hold-point check: interprets the readings, calibrates the model and
+    /// recommends one of three levels (criteria met / hold pending review /
+    /// stop filling and act now); writes a numbered PDF record and appends
+    /// it to the record log in one transaction. The program recommends; the
+    /// lift is released only when the engineer of record signs.
     #[command(
         after_help = "Example:\n  fillpace release examples/kestrel-fen.toml --readings examples/kestrel-fen-readings.csv --lift 1.0"
     )]
@@ -181,18 +183,19 @@ pub enum Command {
         /// after the last reading.
         #[arg(long, value_name = "DATE")]
         on: Option<String>,
-        /// Certificate file; default <project>-release-<hold point date>.pdf
-        /// next to the project.
+        /// Record PDF (never overwritten); default
+        /// <project>-hold-point-<date>-record-<N>.pdf next to the project.
         #[arg(long)]
         pdf: Option<PathBuf>,
-        /// Audit log; default <project>.release-log.jsonl next to the project.
+        /// Record log; default <project>.hold-point-log.jsonl next to the
+        /// project.
         #[arg(long)]
         log: Option<PathBuf>,
         /// Print JSON instead of tables.
         #[arg(long)]
         json: bool,
     },
-    /// The audit log of release decisions.
+    /// The record log of hold-point checks.
     #[command(subcommand)]
     Log(LogCommand),
     /// Print a shell completion script (generated from these definitions).
@@ -253,12 +256,23 @@ impl Command {
 
 #[derive(Debug, Subcommand)]
 pub enum LogCommand {
-    /// Check the hash chain of a release log; reports the first broken,
-    /// edited or torn entry (exit code 2).
-    #[command(after_help = "Example:\n  fillpace log verify examples/kestrel-fen.release-log.jsonl")]
+    /// Check the hash chain of a record log (the first broken, edited or
+    /// torn entry), optionally against the anchor printed on a signed
+    /// record, and every record PDF against its logged SHA-256 (exit code 2
+    /// on any failure).
+    #[command(
+        after_help = "Example:\n  fillpace log verify examples/kestrel-fen.hold-point-log.jsonl --record 3 --head 5f2c…"
+    )]
     Verify {
         /// The log file (JSON lines).
         log: PathBuf,
+        /// Record number printed on a signed record; with --head, the log
+        /// must contain it and end in that head before it.
+        #[arg(long, requires = "head")]
+        record: Option<usize>,
+        /// The log head printed on that record (64 hex digits).
+        #[arg(long, requires = "record")]
+        head: Option<String>,
         /// Print JSON.
         #[arg(long)]
         json: bool,

@@ -14,6 +14,7 @@ pub mod consolidation;
 pub mod error;
 pub mod fuzzing;
 pub mod ground;
+pub mod hash;
 pub mod input;
 pub mod load;
 pub mod model;

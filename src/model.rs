@@ -521,12 +521,14 @@ pub struct Instrument {
     pub units: ReadingUnit,
 }
 
-/// Tolerances and alarm limits of the hold-point release check. Defaults
-/// are common practice (see the README's project-file reference).
+/// The monitoring scheme's minimum, tolerances, precisions and alarm limits
+/// of the hold-point check. Defaults are common practice (see the README's
+/// project-file reference).
 #[derive(Debug, Clone, Serialize)]
 pub struct MonitoringRules {
-    /// Rise of a piezometer under constant fill height that raises the alarm, kPa.
-    pub pore_rise_limit_kpa: f64,
+    /// Rise rate of a piezometer under constant fill height that raises the
+    /// alarm when the regression shows it beyond the reading precision, kPa/week.
+    pub pore_rise_limit_kpa_per_week: f64,
     /// Settlement rate limit at any plate, mm/day.
     pub settlement_rate_limit_mm_per_day: f64,
     /// Lateral movement rate limit at any marker, mm/day.
@@ -535,16 +537,42 @@ pub struct MonitoringRules {
     pub lateral_ratio_limit: f64,
     /// Window over which rates and the ratio are measured, days.
     pub rate_window_days: f64,
+    /// Window of the pore-pressure trend regression (readings since the last
+    /// lift ended, at most this old), days.
+    pub trend_window_days: f64,
+    /// Δu/Δσv of the last lift at a piezometer above which the clay there is
+    /// taken to have yielded (passed σ'p; Leroueil et al. 1985).
+    pub pore_pressure_ratio_limit: f64,
+    /// FS now below which the check goes to the top level (distress).
+    pub stop_fs_below: f64,
+    /// Weighted misfit per degree of freedom of the calibration above which
+    /// the model is taken not to explain the readings.
+    pub fit_chi2_limit: f64,
+    /// RMS misfit of any one instrument, in its reading standard deviations,
+    /// above which the model is taken not to explain the readings.
+    pub instrument_misfit_limit: f64,
     /// Piezometer readings further than this below hydrostatic are suspect, kPa.
     pub piezometer_tolerance_kpa: f64,
     /// Plate readings showing more heave than this are suspect, m.
     pub settlement_noise_m: f64,
     /// Resampling interval for Asaoka's method, days.
     pub asaoka_interval_days: f64,
-    /// Standard deviation of a piezometer reading used to weight the fit, kPa.
+    /// Standard deviation (precision) of a piezometer reading, kPa.
     pub piezometer_sd_kpa: f64,
-    /// Standard deviation of a plate reading used to weight the fit, m.
+    /// Standard deviation (precision) of a plate reading, m.
     pub settlement_sd_m: f64,
+    /// Standard deviation (precision) of a lateral-marker reading, m.
+    pub lateral_sd_m: f64,
+    /// Instruments that must be read at every hold point (empty: all).
+    pub required: Vec<String>,
+    /// Least number of current, sufficiently read instruments per kind:
+    /// piezometers, settlement plates, lateral markers.
+    pub min_per_kind: [usize; 3],
+    /// Oldest the latest reading may be at the hold point, days, per kind
+    /// (piezometer, plate, marker).
+    pub max_age_days: [f64; 3],
+    /// Least number of readings of each instrument since the last lift ended.
+    pub min_readings_since_lift: usize,
 }
 
 impl Default for MonitoringRules {
@@ -553,16 +581,37 @@ impl Default for MonitoringRules {
     /// engineer of record for each site (README, "References").
     fn default() -> Self {
         MonitoringRules {
-            pore_rise_limit_kpa: 3.0,
+            pore_rise_limit_kpa_per_week: 1.0,
             settlement_rate_limit_mm_per_day: 20.0,
             lateral_rate_limit_mm_per_day: 5.0,
             lateral_ratio_limit: 0.5,
             rate_window_days: 7.0,
+            trend_window_days: 28.0,
+            pore_pressure_ratio_limit: 0.9,
+            stop_fs_below: 1.1,
+            fit_chi2_limit: 4.0,
+            instrument_misfit_limit: 3.0,
             piezometer_tolerance_kpa: 5.0,
             settlement_noise_m: 0.01,
             asaoka_interval_days: 7.0,
             piezometer_sd_kpa: 2.0,
             settlement_sd_m: 0.01,
+            lateral_sd_m: 0.002,
+            required: Vec::new(),
+            min_per_kind: [1, 1, 1],
+            max_age_days: [7.0, 7.0, 7.0],
+            min_readings_since_lift: 3,
+        }
+    }
+}
+
+impl InstrumentKind {
+    /// Index of the kind in the per-kind arrays of `MonitoringRules`.
+    pub fn index(self) -> usize {
+        match self {
+            InstrumentKind::Piezometer => 0,
+            InstrumentKind::SettlementPlate => 1,
+            InstrumentKind::LateralMarker => 2,
         }
     }
 }

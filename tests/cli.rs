@@ -317,7 +317,7 @@ fn plan_pdf_has_every_section_stage_hash_and_caution() {
     for s in plan["stages"].as_array().unwrap() {
         assert!(flat.contains(s["start"].as_str().unwrap()), "stage date {} missing", s["start"]);
     }
-    let sha = fillpace::report::sha256_hex(&std::fs::read(root(DEMO)).unwrap());
+    let sha = fillpace::hash::sha256_hex(&std::fs::read(root(DEMO)).unwrap());
     assert!(flat.contains(&sha), "SHA-256 missing");
     assert!(flat.contains("licensed geotechnical engineer"));
     assert!(flat.contains(&format!("Page 1 of {}", pages.len())));

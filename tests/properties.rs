@@ -324,7 +324,7 @@ proptest! {
             let mut m = serde_json::Map::new();
             m.insert("fs".into(), serde_json::Value::from(1.0 + k as f64 / 7.0));
             let line = entry_line(m, k, &prev).unwrap();
-            prev = fillpace::report::sha256_hex(line.trim_end().as_bytes());
+            prev = fillpace::hash::sha256_hex(line.trim_end().as_bytes());
             text.push_str(&line);
         }
         prop_assert!(verify_bytes(text.as_bytes(), "log").is_ok());

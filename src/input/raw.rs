@@ -186,7 +186,21 @@ pub struct RawInstrument {
 
 #[derive(Debug, Deserialize)]
 pub struct RawMonitoring {
-    pub pore_rise_limit_kpa: Option<f64>,
+    pub pore_rise_limit_kpa_per_week: Option<f64>,
+    pub trend_window_days: Option<f64>,
+    pub pore_pressure_ratio_limit: Option<f64>,
+    pub stop_fs_below: Option<f64>,
+    pub fit_chi2_limit: Option<f64>,
+    pub instrument_misfit_limit: Option<f64>,
+    pub lateral_sd_m: Option<f64>,
+    pub required: Option<Vec<String>>,
+    pub min_piezometers: Option<f64>,
+    pub min_settlement_plates: Option<f64>,
+    pub min_lateral_markers: Option<f64>,
+    pub max_age_piezometer_days: Option<f64>,
+    pub max_age_plate_days: Option<f64>,
+    pub max_age_marker_days: Option<f64>,
+    pub min_readings_since_lift: Option<f64>,
     pub settlement_rate_limit_mm_per_day: Option<f64>,
     pub lateral_rate_limit_mm_per_day: Option<f64>,
     pub lateral_ratio_limit: Option<f64>,

@@ -10,8 +10,10 @@ use crate::model::*;
 use chrono::{NaiveDate, Weekday};
 
 mod embankment;
+mod monitoring;
 mod uncertain;
 use embankment::embankment;
+use monitoring::monitoring;
 use uncertain::uncertainty;
 
 #[cfg(test)]
@@ -118,7 +120,7 @@ pub fn project(raw: &RawProject, lines: &LineMap, doc: &super::vary::Document) -
     let analysis = analysis(&mut c, raw.analysis.as_ref());
     let sequence = sequence(&mut c, &raw.sequence, &info, &construction, &embankment);
     let instruments = instruments(&mut c, &raw.instrument, &info, &ground);
-    let monitoring = monitoring(&mut c, raw.monitoring.as_ref());
+    let monitoring = monitoring(&mut c, raw.monitoring.as_ref(), &instruments);
     let uncertainty = uncertainty(&mut c, &raw.uncertain, &raw.correlation, doc);
     if c.issues.is_empty() {
         Ok(Project {
@@ -716,68 +718,3 @@ fn instruments(c: &mut Check, raw: &[RawInstrument], info: &ProjectInfo, g: &Gro
     out
 }
 
-fn monitoring(c: &mut Check, r: Option<&RawMonitoring>) -> MonitoringRules {
-    let d = MonitoringRules::default();
-    let k = |f: &str| format!("monitoring.{f}");
-    let Some(r) = r else { return d };
-    MonitoringRules {
-        pore_rise_limit_kpa: c.opt(
-            &k("pore_rise_limit_kpa"),
-            r.pore_rise_limit_kpa,
-            d.pore_rise_limit_kpa,
-            Low::Excl(0.0),
-            100.0,
-        ),
-        settlement_rate_limit_mm_per_day: c.opt(
-            &k("settlement_rate_limit_mm_per_day"),
-            r.settlement_rate_limit_mm_per_day,
-            d.settlement_rate_limit_mm_per_day,
-            Low::Excl(0.0),
-            1000.0,
-        ),
-        lateral_rate_limit_mm_per_day: c.opt(
-            &k("lateral_rate_limit_mm_per_day"),
-            r.lateral_rate_limit_mm_per_day,
-            d.lateral_rate_limit_mm_per_day,
-            Low::Excl(0.0),
-            1000.0,
-        ),
-        lateral_ratio_limit: c.opt(
-            &k("lateral_ratio_limit"),
-            r.lateral_ratio_limit,
-            d.lateral_ratio_limit,
-            Low::Excl(0.0),
-            5.0,
-        ),
-        rate_window_days: c.opt(&k("rate_window_days"), r.rate_window_days, d.rate_window_days, Low::Incl(1.0), 90.0),
-        piezometer_tolerance_kpa: c.opt(
-            &k("piezometer_tolerance_kpa"),
-            r.piezometer_tolerance_kpa,
-            d.piezometer_tolerance_kpa,
-            Low::Excl(0.0),
-            100.0,
-        ),
-        settlement_noise_m: c.opt(
-            &k("settlement_noise_m"),
-            r.settlement_noise_m,
-            d.settlement_noise_m,
-            Low::Excl(0.0),
-            0.5,
-        ),
-        asaoka_interval_days: c.opt(
-            &k("asaoka_interval_days"),
-            r.asaoka_interval_days,
-            d.asaoka_interval_days,
-            Low::Incl(1.0),
-            90.0,
-        ),
-        piezometer_sd_kpa: c.opt(
-            &k("piezometer_sd_kpa"),
-            r.piezometer_sd_kpa,
-            d.piezometer_sd_kpa,
-            Low::Excl(0.0),
-            50.0,
-        ),
-        settlement_sd_m: c.opt(&k("settlement_sd_m"), r.settlement_sd_m, d.settlement_sd_m, Low::Excl(0.0), 0.5),
-    }
-}

@@ -88,11 +88,12 @@ pub struct Fit {
     pub piezometer_readings: usize,
     pub plate_readings: usize,
     /// Root-mean-square misfit with the project's values and after fitting:
-    /// excess pore pressure kPa and settlement mm.
-    pub rms_piezometer_kpa_before: f64,
-    pub rms_piezometer_kpa_after: f64,
-    pub rms_settlement_mm_before: f64,
-    pub rms_settlement_mm_after: f64,
+    /// excess pore pressure kPa and settlement mm (None without readings of
+    /// that kind).
+    pub rms_piezometer_kpa_before: Option<f64>,
+    pub rms_piezometer_kpa_after: Option<f64>,
+    pub rms_settlement_mm_before: Option<f64>,
+    pub rms_settlement_mm_after: Option<f64>,
     /// Weighted sum of squares per degree of freedom after fitting (≈ 1
     /// when the misfit is as large as the stated reading scatter).
     pub chi2_per_dof: f64,
@@ -102,9 +103,9 @@ pub struct Fit {
     pub within_range: bool,
 }
 
-fn rms(v: impl Iterator<Item = f64>) -> f64 {
+fn rms(v: impl Iterator<Item = f64>) -> Option<f64> {
     let (n, s) = v.fold((0usize, 0.0), |(n, s), x| (n + 1, s + x * x));
-    if n == 0 { f64::NAN } else { (s / n as f64).sqrt() }
+    (n > 0).then(|| (s / n as f64).sqrt())
 }
 
 /// Fit the multiplier to the readings.

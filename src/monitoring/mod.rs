@@ -1,14 +1,18 @@
 //! Field monitoring at hold points: the instruments' readings file, Asaoka's
 //! settlement forecast, the back-analysis of a consolidation-rate
-//! multiplier, the alarm rules and the RELEASE / HOLD decision, and the
-//! synthetic readings used for tests and the invented demo file.
+//! multiplier, the state consistent with the piezometers, the trend rules,
+//! the monitoring scheme's minimum and the three-level recommendation, and
+//! the synthetic readings used for tests.
 
 pub mod asaoka;
 pub mod calibrate;
+pub mod measured;
 pub mod readings;
 pub mod release;
 pub mod replay;
+pub mod status;
 pub mod synth;
+pub mod trends;
 
 #[cfg(test)]
 mod tests;

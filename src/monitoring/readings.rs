@@ -1,11 +1,14 @@
-//! The readings file: one CSV row per reading (`instrument,time,value`),
+//! The readings file, read with the `csv` crate (quoted fields as a logger
+//! exports them are accepted): one row per reading (`instrument,time,value`),
 //! comment lines starting with `#`, and rows for the reserved id `fill`
 //! giving the as-built crest height above OGL (m), which replaces the
 //! planned sequence up to the last reading. Hard errors (unknown
 //! instrument, unreadable time or number, rows out of order, duplicate
 //! times, readings before the baseline) are all reported with their line and
 //! stop the run; suspect values are kept, flagged with their line and left
-//! out of the interpretation, never dropped silently.
+//! out of the interpretation, never dropped silently. A time beyond the
+//! horizon or far after every earlier row, and a value no instrument could
+//! read (beyond the fill's weight or the ground's thickness), are errors.
 
 use crate::error::{Error, InputIssue, Result};
 use crate::ground;
@@ -139,7 +142,7 @@ pub fn load(path: &std::path::Path, p: &Project) -> Result<Readings> {
     let text = String::from_utf8(bytes.clone())
         .map_err(|_| Error::input(&file, None, "", "is not UTF-8 text; save the readings as UTF-8 CSV".into()))?;
     let mut r = parse(&text, &file, p)?;
-    r.sha256 = crate::report::sha256_hex(&bytes);
+    r.sha256 = crate::hash::sha256_hex(&bytes);
     Ok(r)
 }
 
@@ -153,16 +156,31 @@ pub fn parse(text: &str, file: &str, p: &Project) -> Result<Readings> {
     let mut last: Vec<Option<(NaiveDateTime, usize)>> = vec![None; p.instruments.len() + 1];
     let mut header_seen = false;
     let top = p.max_height_m();
-    for (n, raw_line) in text.lines().enumerate() {
-        let line = n + 1;
-        let row = raw_line.trim().trim_start_matches('\u{feff}');
-        if row.is_empty() || row.starts_with('#') {
+    let mut rdr = csv::ReaderBuilder::new()
+        .has_headers(false)
+        .flexible(true)
+        .comment(Some(b'#'))
+        .trim(csv::Trim::All)
+        .from_reader(text.trim_start_matches('\u{feff}').as_bytes());
+    let mut latest: Option<(NaiveDateTime, usize)> = None;
+    for rec in rdr.records() {
+        let rec = match rec {
+            Ok(r) => r,
+            Err(e) => {
+                let line = e.position().map_or(0, |p| p.line() as usize);
+                bad(&mut issues, line, "", format!("is not a readable CSV row: {e}"));
+                break;
+            }
+        };
+        let line = rec.position().map_or(0, |p| p.line() as usize);
+        let fields: Vec<&str> = rec.iter().collect();
+        if fields.iter().all(|f| f.is_empty()) {
             continue;
         }
         if !header_seen {
-            let norm: String = row.split(',').map(|f| f.trim().to_ascii_lowercase()).collect::<Vec<_>>().join(",");
+            let norm: String = fields.iter().map(|f| f.to_ascii_lowercase()).collect::<Vec<_>>().join(",");
             if norm != HEADER {
-                bad(&mut issues, line, "", format!("the first row must be the header `{HEADER}`, found `{row}`"));
+                bad(&mut issues, line, "", format!("the first row must be the header `{HEADER}`, found `{}`", fields.join(",")));
                 break;
             }
             header_seen = true;
@@ -171,7 +189,6 @@ pub fn parse(text: &str, file: &str, p: &Project) -> Result<Readings> {
         if issues.len() >= MAX_ISSUES {
             break;
         }
-        let fields: Vec<&str> = row.split(',').map(str::trim).collect();
         if fields.len() != 3 {
             bad(&mut issues, line, "", format!("has {} fields; each row is `{HEADER}` (3 fields)", fields.len()));
             continue;
@@ -198,6 +215,13 @@ pub fn parse(text: &str, file: &str, p: &Project) -> Result<Readings> {
             bad(&mut issues, line, "time", format!("= \"{time_text}\" is not a time YYYY-MM-DD or YYYY-MM-DDTHH:MM"));
             continue;
         };
+        if let Some(why) = implausible_time(p, time, latest) {
+            bad(&mut issues, line, "time", format!("= {time} {why}; check the date (the year in particular)"));
+            continue;
+        }
+        if latest.is_none_or(|(t, _)| time > t) {
+            latest = Some((time, line));
+        }
         let value = match value_text.parse::<f64>() {
             Ok(v) if v.is_finite() => v,
             _ => {
@@ -303,6 +327,10 @@ pub fn parse(text: &str, file: &str, p: &Project) -> Result<Readings> {
             }
             InstrumentKind::LateralMarker => (inst.units.to_si(value - inst.baseline_value), None),
         };
+        if let Some(why) = implausible_value(p, inst, si) {
+            bad(&mut issues, line, "value", format!("= {value} {why}"));
+            continue;
+        }
         if let Some(why) = &suspect {
             warnings.push(Warning {
                 line: Some(line),
@@ -360,13 +388,54 @@ pub fn parse(text: &str, file: &str, p: &Project) -> Result<Readings> {
     let today = readings.iter().map(|r| r.time).chain(fill.iter().map(|f| f.time)).max().unwrap_or_default();
     Ok(Readings {
         file: file.to_string(),
-        sha256: crate::report::sha256_hex(text.as_bytes()),
+        sha256: crate::hash::sha256_hex(text.as_bytes()),
         readings,
         fill,
         warnings,
         today,
         today_day: day_of(p, today),
     })
+}
+
+/// Longest gap between a row and the latest earlier row that is still
+/// plausible, days (common practice reads at least monthly during works).
+const MAX_GAP_DAYS: i64 = 366;
+
+/// Why a row's time cannot be right: beyond the planning horizon, or
+/// far after every earlier row.
+fn implausible_time(p: &Project, time: NaiveDateTime, latest: Option<(NaiveDateTime, usize)>) -> Option<String> {
+    let horizon = p.info.start_date + chrono::Duration::days((40.0 * crate::model::DAYS_PER_YEAR) as i64);
+    if time.date() > horizon {
+        return Some(format!("is beyond the 40-year horizon of the project ({horizon})"));
+    }
+    let (t, l) = latest?;
+    let gap = (time - t).num_days();
+    (gap > MAX_GAP_DAYS).then(|| format!("is {gap} days after the latest earlier row (line {l}, {t}): more than {MAX_GAP_DAYS} days"))
+}
+
+/// Why a reading (in SI) is physically impossible for its instrument: a
+/// piezometer excess above the whole fill's weight, a settlement or lateral
+/// movement larger than the compressible ground's thickness.
+fn implausible_value(p: &Project, inst: &crate::model::Instrument, si: f64) -> Option<String> {
+    let depth: f64 = p
+        .ground
+        .layers
+        .iter()
+        .filter(|l| !matches!(l.kind, crate::model::LayerKind::StiffBase))
+        .map(|l| l.thickness_m)
+        .sum();
+    match inst.kind {
+        InstrumentKind::Piezometer => {
+            let most = p.embankment.fill_unit_weight_kn_m3 * p.max_height_m() + p.monitoring.piezometer_tolerance_kpa;
+            let excess = si - ground::u0(&p.ground, inst.depth_m);
+            (excess > most).then(|| {
+                format!("gives {excess:.0} kPa of excess pore pressure, more than the whole fill can cause ({most:.0} kPa): implausibly far from the baseline")
+            })
+        }
+        _ => (si.abs() > depth).then(|| {
+            format!("gives {:.2} m of movement from the baseline, more than the compressible ground is thick ({depth:.1} m): implausibly far from the baseline", si.abs())
+        }),
+    }
 }
 
 fn bad(issues: &mut Vec<InputIssue>, line: usize, key: &str, message: String) {

@@ -185,7 +185,8 @@ pub fn describe_distribution(d: crate::model::Distribution) -> String {
     }
 }
 
-/// A release check together with its project and the files it wrote.
+/// A hold-point check together with its project, its record number and
+/// the log it was recorded in.
 #[derive(serde::Serialize)]
 pub struct ReleaseReport<'a> {
     #[serde(skip)]
@@ -194,11 +195,80 @@ pub struct ReleaseReport<'a> {
     pub check: &'a ReleaseCheck,
     pub project_file: String,
     pub project_sha256: String,
-    /// The certificate written (PDF).
-    pub certificate: String,
-    /// The audit log and the number of the entry appended to it.
+    /// The record written (PDF).
+    pub record_file: String,
+    /// The record log, and this record's number (its entry in the log).
     pub log: String,
-    pub log_entry: usize,
+    pub record: usize,
+    /// The earlier record of the same hold point this one supersedes.
+    pub supersedes: Option<usize>,
+    /// Entries and head (SHA-256 of the last line) of the log before this
+    /// record: the anchor `log verify --record N --head H` checks.
+    pub log_entries_before: usize,
+    pub log_head_before: String,
+    /// Head of the log after this record's entry (empty while rendering).
+    pub log_head_after: String,
+}
+
+/// The calibration in one paragraph (terminal and record).
+pub fn fit_sentence(c: &ReleaseCheck) -> String {
+    let fit = &c.fit;
+    let o = |v: Option<f64>, d: usize| v.map_or("-".to_string(), |x| fixed(x, d));
+    format!(
+        "Back-analysis: cv and ch × {:.2} (95% interval {:.2}–{:.2}) from {} piezometer and {} plate readings; misfit before → after: pore pressure {} → {} kPa rms, settlement {} → {} mm rms; χ²/dof {:.2}; {}.",
+        fit.multiplier,
+        fit.interval95.0,
+        fit.interval95.1,
+        fit.piezometer_readings,
+        fit.plate_readings,
+        o(fit.rms_piezometer_kpa_before, 1),
+        o(fit.rms_piezometer_kpa_after, 1),
+        o(fit.rms_settlement_mm_before, 0),
+        o(fit.rms_settlement_mm_after, 0),
+        fit.chi2_per_dof,
+        if c.fit_explains_readings {
+            "the model explains the readings within the stated limits"
+        } else {
+            "MODEL DOES NOT EXPLAIN THE READINGS: engineer's review needed"
+        }
+    )
+}
+
+/// One rule as the cells rule, value, limit, verdict, detail.
+pub fn rule_cells(rule: &crate::monitoring::release::Rule) -> Vec<String> {
+    let sign = if rule.must_be == "below" { "≥" } else { "≤" };
+    vec![
+        rule.name.to_string(),
+        rule.value.map_or("-".into(), |v| fixed(v, 2)),
+        format!("{sign} {} {}", fixed(rule.limit, 2), rule.unit).trim_end().to_string(),
+        rule.verdict.label().to_string(),
+        rule.detail.clone(),
+    ]
+}
+
+/// The conditions of the recommendation in one sentence.
+pub fn conditions_sentence(c: &ReleaseCheck) -> String {
+    let k = &c.conditions;
+    format!(
+        "Conditions: a lift of at most {:.2} m, started no later than {} (the check is valid {:.0} days after the hold point; later, a new check is needed); read every instrument at least every {:.0} days, and daily while placing.",
+        k.max_lift_m, k.latest_start, k.valid_days, k.reading_interval_days
+    )
+}
+
+/// The record's number, supersession and the log anchor in one sentence.
+pub fn record_sentence(rep: &ReleaseReport) -> String {
+    let sup = rep.supersedes.map_or(String::new(), |n| format!(", supersedes record {n}"));
+    format!(
+        "Hold-point check record {}{sup}: {}. Log {} before this record: {} entries, head {} (verify with: fillpace log verify {} --record {} --head {}).",
+        rep.record,
+        rep.record_file,
+        rep.log,
+        rep.log_entries_before,
+        rep.log_head_before,
+        rep.log,
+        rep.record,
+        rep.log_head_before
+    )
 }
 
 /// Column headings of the stage table shared by the terminal and PDF.
@@ -264,12 +334,6 @@ pub fn stage_cells(s: &crate::schedule::planner::Stage) -> Vec<String> {
     ]
 }
 
-/// SHA-256 of bytes as lowercase hex.
-pub fn sha256_hex(bytes: &[u8]) -> String {
-    use sha2::Digest;
-    sha2::Sha256::digest(bytes).iter().map(|b| format!("{b:02x}")).collect()
-}
-
 /// Now (UTC) from the system clock, to the second.
 pub fn now_utc() -> chrono::NaiveDateTime {
     use chrono::Timelike;
@@ -301,12 +365,6 @@ pub trait Exporter {
 
 #[cfg(test)]
 mod tests {
-    #[test]
-    fn sha256_of_abc() {
-        // FIPS 180-2 test vector: SHA-256("abc").
-        assert_eq!(super::sha256_hex(b"abc"), "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
-    }
-
     #[test]
     fn cautions_cover_the_required_points() {
         let c = super::cautions().join(" ");

@@ -411,9 +411,8 @@ fn opt(v: Option<f64>, d: usize) -> String {
 
 /// `fillpace release`.
 pub fn release(rep: &ReleaseReport) -> String {
-    use crate::model::InstrumentKind as K;
     let (p, c) = (rep.project, rep.check);
-    let mut out = header(p, "Hold-point release check");
+    let mut out = header(p, "Hold-point check");
     out.push_str(&format!(
         "Readings {} up to {} (hold point). Crest now {:.2} m; proposed lift {:.2} m to {:.2} m, placed {} to {}.\n\n",
         c.readings_file,
@@ -424,45 +423,8 @@ pub fn release(rep: &ReleaseReport) -> String {
         c.lift_start,
         c.lift_end
     ));
-    let mut t = Table::new(&[
-        "instrument",
-        "kind",
-        "x m",
-        "z m",
-        "readings",
-        "suspect",
-        "last reading",
-        "measured",
-        "predicted",
-        "calibrated",
-        "Δu/Δσv",
-        "dissipated",
-        "rate mm/d",
-    ]);
-    for s in &c.instruments {
-        let (scale, unit) = match s.kind {
-            K::Piezometer => (1.0, "kPa"),
-            _ => (1000.0, "mm"),
-        };
-        let val = |v: Option<f64>| v.map_or("-".into(), |x| format!("{} {unit}", f(x * scale, 1)));
-        t.row(vec![
-            s.id.clone(),
-            s.kind.label().into(),
-            f(s.offset_m, 1),
-            opt(s.depth_m, 1),
-            s.readings.to_string(),
-            s.suspect.to_string(),
-            s.last_reading.map_or("-".into(), |t| t.format("%Y-%m-%d %H:%M").to_string()),
-            val(s.measured),
-            val(s.predicted),
-            val(s.calibrated),
-            opt(s.pore_pressure_ratio, 2),
-            s.dissipated_since_lift.map_or("-".into(), |d| format!("{:.0}%", 100.0 * d)),
-            opt(s.rate_mm_per_day, 1),
-        ]);
-    }
-    out.push_str("Instruments (measured: excess pore pressure above hydrostatic, or settlement / outward movement since baseline)\n");
-    out.push_str(&t.render());
+    out.push_str("Instruments (measured: excess pore pressure above hydrostatic, or settlement / outward movement since baseline; misfit in reading sd)\n");
+    out.push_str(&instrument_table(c).render());
     let mut a = Table::new(&["plate", "points", "readings", "β0 mm", "β1", "final mm", "U now", "implied", "reliable"]);
     for (id, r) in &c.asaoka {
         a.row(vec![
@@ -482,67 +444,91 @@ pub fn release(rep: &ReleaseReport) -> String {
         p.monitoring.asaoka_interval_days
     ));
     out.push_str(&a.render());
-    let fit = &c.fit;
+    out.push_str(&format!("\n{}\n", super::fit_sentence(c)));
+    let s = &c.safety;
     out.push_str(&format!(
-        "\nBack-analysis: cv and ch × {:.2} (95% interval {:.2}–{:.2}) from {} piezometer and {} plate readings.\n  misfit before → after: pore pressure {:.1} → {:.1} kPa rms, settlement {:.0} → {:.0} mm rms; χ²/dof {:.2}; {} model runs.\n",
-        fit.multiplier,
-        fit.interval95.0,
-        fit.interval95.1,
-        fit.piezometer_readings,
-        fit.plate_readings,
-        fit.rms_piezometer_kpa_before,
-        fit.rms_piezometer_kpa_after,
-        fit.rms_settlement_mm_before,
-        fit.rms_settlement_mm_after,
-        fit.chi2_per_dof,
-        fit.evaluations
-    ));
-    out.push_str(&format!(
-        "Measured pore pressures applied as a factor of {:.2} on the calibrated excess (never below 1). FS now {:.2}; after the lift {:.2} (target {:.2}, {}).\n\n",
-        c.pore_pressure_factor, c.fs_now, c.fs_next, c.fs_target, c.mechanism
+        "FS now: model {:.2}, measured pore pressures {:.2}; after the lift: model {:.2}, measured {:.2}; the lower governs (target {:.2}, {}).\n\n",
+        s.now_model, s.now_measured, s.next_model, s.next_measured, c.fs_target, c.mechanism
     ));
     let mut r = Table::new(&["rule", "value", "limit", "verdict", "detail"]);
     for rule in &c.rules {
-        let limit = if rule.must_be == "below" {
-            format!("≥ {} {}", f(rule.limit, 2), rule.unit)
-        } else {
-            format!("≤ {} {}", f(rule.limit, 2), rule.unit)
-        };
-        r.row(vec![
-            rule.name.into(),
-            opt(rule.value, 2),
-            limit.trim_end().to_string(),
-            rule.verdict.label().into(),
-            rule.detail.clone(),
-        ]);
+        let cells = super::rule_cells(rule);
+        r.row(cells);
     }
     out.push_str(&r.render());
-    out.push_str(&format!("\nDECISION: {}", c.decision.label()));
-    match (c.decision, c.earliest_release) {
-        (crate::monitoring::release::Decision::Hold, Some(d)) => {
-            out.push_str(&format!(" — earliest forecast release {d}\n"))
-        }
-        _ => out.push('\n'),
+    out.push_str(&format!("\nRECOMMENDATION: {} — {}\n", c.recommendation.label(), c.recommendation.meaning()));
+    for why in &c.reasons {
+        out.push_str(&format!("  - {}\n", wrap(why, 74, "    ")));
+    }
+    for act in &c.actions {
+        out.push_str(&format!("  ACTION: {act}\n"));
     }
     if !c.release_note.is_empty() {
         out.push_str(&format!("  {}\n", wrap(&c.release_note, 76, "  ")));
     }
+    out.push_str(&format!("  {}\n", wrap(&super::conditions_sentence(c), 76, "  ")));
     for w in &c.warnings {
         let at = w.line.map_or(String::new(), |l| format!("{}:{l}: ", c.readings_file));
         let who = if w.instrument.is_empty() { String::new() } else { format!("{} ", w.instrument) };
         out.push_str(&format!("warning: {at}{who}{}\n", w.message));
     }
+    out.push_str(&format!("\n{}\n", super::record_sentence(rep)));
     out.push_str(&format!(
-        "\nCertificate {}; decision appended to {} as entry {}.\n",
-        rep.certificate, rep.log, rep.log_entry
+        "Log now: {} entries, head {}.\n",
+        rep.record, rep.log_head_after
     ));
     out.push_str(&cautions_block());
     out
 }
 
+fn instrument_table(c: &crate::monitoring::release::ReleaseCheck) -> Table {
+    use crate::model::InstrumentKind as K;
+    let mut t = Table::new(&[
+        "instrument", "kind", "x m", "z m", "readings", "suspect", "since lift", "last reading", "measured",
+        "predicted", "calibrated", "misfit", "Δu/Δσv", "rate mm/d", "monitoring",
+    ]);
+    for s in &c.instruments {
+        let (scale, unit) = match s.kind {
+            K::Piezometer => (1.0, "kPa"),
+            _ => (1000.0, "mm"),
+        };
+        let val = |v: Option<f64>| v.map_or("-".into(), |x| format!("{} {unit}", f(x * scale, 1)));
+        t.row(vec![
+            s.id.clone(),
+            s.kind.label().into(),
+            f(s.offset_m, 1),
+            opt(s.depth_m, 1),
+            s.readings.to_string(),
+            s.suspect.to_string(),
+            s.since_lift.to_string(),
+            s.last_reading.map_or("-".into(), |t| t.format("%Y-%m-%d %H:%M").to_string()),
+            val(s.measured),
+            val(s.predicted),
+            val(s.calibrated),
+            opt(s.misfit_sd, 1),
+            opt(s.pore_pressure_ratio, 2),
+            opt(s.rate_mm_per_day, 1),
+            if s.shortfall.is_empty() { "sufficient".into() } else { "SHORT".into() },
+        ]);
+    }
+    t
+}
+
 /// `fillpace log verify`.
 pub fn log_verified(v: &crate::audit::Verified) -> String {
-    format!("{}: {} entries, hash chain intact (last entry sha256 {}).\n", v.file, v.entries, v.last_sha256)
+    let mut out =
+        format!("{}: {} entries, hash chain intact (head {}).\n", v.file, v.entries, v.last_sha256);
+    if let Some(a) = &v.anchor {
+        out.push_str(&format!("Record {} is in the log and the log before it ends in the head it carries ({}).\n", a.record, a.head));
+    }
+    for r in &v.records {
+        out.push_str(&format!("record {} {}: {}\n", r.entry, r.record_file, match r.state {
+            crate::audit::RecordState::Matches => "PDF matches its logged SHA-256",
+            crate::audit::RecordState::Changed => "PDF CHANGED since it was logged",
+            crate::audit::RecordState::Missing => "PDF MISSING",
+        }));
+    }
+    out
 }
 
 /// `fillpace compare`.

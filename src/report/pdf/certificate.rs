@@ -1,83 +1,100 @@
-//! The two pages of the hold-point release certificate: the decision with
-//! every rule's value and verdict, the calibration and the cautions; and the
-//! readings plotted against the model with the project's parameters and
-//! the calibrated model.
+//! The pages of the hold-point check record: the recommendation with every
+//! rule's value and verdict, the calibration, the conditions, the engineer
+//! of record's signature fields and the cautions; and the readings plotted
+//! against the model with the project's parameters and the calibrated
+//! model. The program recommends; the engineer of record releases.
 
 use super::canvas::{Canvas, Dash, Marker, PAGE_W};
 use super::chart::{Axis, Chart, Series, XAxis};
 use super::pages::{CONTENT_TOP, MARGIN, table};
 use crate::model::InstrumentKind;
-use crate::monitoring::release::{Decision, Track, Verdict};
+use crate::monitoring::release::{Track, Verdict};
 use crate::report::ReleaseReport;
 use crate::report::fixed as f;
 
-/// Page 1: decision, rules, calibration, warnings, cautions.
+/// Page 1: recommendation, rules, calibration, conditions, signature
+/// fields, warnings, cautions.
 pub fn decision_page(c: &mut Canvas, r: &ReleaseReport) {
     let k = r.check;
     let mut y = CONTENT_TOP + 2.0;
-    let (bx, bw, bh) = (MARGIN, 120.0, 24.0);
-    c.fill(
-        &[(bx, y), (bx + bw, y), (bx + bw, y + bh), (bx, y + bh)],
-        if k.decision == Decision::Hold { 0.82 } else { 0.95 },
-        true,
-    );
-    c.text(bx + 4.0, y + 10.0, 20.0, true, &format!("DECISION: {}", k.decision.label()));
-    let line2 = match (k.decision, k.earliest_release) {
-        (Decision::Hold, Some(d)) => format!("Earliest forecast release {d} (calibrated model)"),
-        (Decision::Hold, None) => "No forecast date: see the note below".to_string(),
-        (Decision::Release, _) => format!("Lift may be placed from {}", k.lift_start),
-    };
-    c.text(bx + 4.0, y + 17.0, 8.5, false, &line2);
-    c.text(bx + 4.0, y + 21.5, 7.0, false, &format!("Recorded in {} as entry {}", r.log, r.log_entry));
+    let (bx, bw, bh) = (MARGIN, 130.0, 26.0);
+    c.fill(&[(bx, y), (bx + bw, y), (bx + bw, y + bh), (bx, y + bh)], 0.92, true);
+    c.text(bx + 4.0, y + 6.0, 8.0, true, &format!("HOLD-POINT CHECK RECORD {}", r.record));
+    c.text(bx + 4.0, y + 13.0, 13.0, true, k.recommendation.label());
+    c.paragraph(bx + 4.0, y + 17.0, bw - 8.0, 6.8, k.recommendation.meaning());
+    let sup = r.supersedes.map_or(String::new(), |n| format!("; supersedes record {n}"));
+    let s = &k.safety;
     let facts = [
-        format!("Hold point (latest reading): {}", k.hold_point.format("%Y-%m-%d %H:%M")),
+        format!("Hold point (latest reading): {}{sup}", k.hold_point.format("%Y-%m-%d %H:%M")),
         format!("Crest now {:.2} m; proposed lift {:.2} m to {:.2} m", k.height_now_m, k.lift_m, k.height_after_m),
         format!("Placement {} to {}", k.lift_start, k.lift_end),
-        format!("FS now {:.2}; after the lift {:.2}; target {:.2} ({})", k.fs_now, k.fs_next, k.fs_target, k.mechanism),
-        format!(
-            "Calibration: cv, ch × {:.2} (95% {:.2}–{:.2}); pore pressures × {:.2}",
-            k.fit.multiplier, k.fit.interval95.0, k.fit.interval95.1, k.pore_pressure_factor
-        ),
-        format!("Project SHA-256 {}…", &r.project_sha256[..16]),
-        format!("Readings SHA-256 {}…", &k.readings_sha256[..16.min(k.readings_sha256.len())]),
+        format!("FS now: model {:.2}, measured pore pressures {:.2}", s.now_model, s.now_measured),
+        format!("FS after the lift: model {:.2}, measured {:.2}; target {:.2}", s.next_model, s.next_measured, k.fs_target),
+        format!("Log before this record: {} entries, head {}", r.log_entries_before, r.log_head_before),
+        format!("Project SHA-256 {}", r.project_sha256),
+        format!("Readings SHA-256 {}", k.readings_sha256),
     ];
     let mut fy = y + 3.0;
     for t in &facts {
-        c.text(bx + bw + 6.0, fy, 7.5, false, t);
-        fy += 3.6;
+        c.text(bx + bw + 6.0, fy, 6.8, false, t);
+        fy += 3.3;
     }
-    y += bh + 7.0;
-    let rows: Vec<Vec<String>> = k
-        .rules
-        .iter()
-        .map(|rule| {
-            let sign = if rule.must_be == "below" { "≥" } else { "≤" };
-            vec![
-                rule.name.to_string(),
-                rule.value.map_or("-".into(), |v| f(v, 2)),
-                format!("{sign} {} {}", f(rule.limit, 2), rule.unit),
-                rule.verdict.label().to_string(),
-                rule.detail.clone(),
-            ]
-        })
-        .collect();
+    y += bh + 5.0;
+    for why in k.reasons.iter().take(6) {
+        y = c.paragraph(MARGIN, y, 270.0, 7.0, &format!("• {why}")) + 0.3;
+    }
+    for act in &k.actions {
+        y = c.paragraph(MARGIN, y, 270.0, 7.5, &format!("ACTION: {act}")) + 0.3;
+    }
+    let rows: Vec<Vec<String>> = k.rules.iter().map(crate::report::rule_cells).collect();
     y = table(
         c,
         MARGIN,
-        y,
+        y + 2.0,
         &[
-            ("rule", 52.0, false),
-            ("value", 18.0, true),
-            ("limit", 26.0, true),
-            ("verdict", 22.0, false),
-            ("detail", 155.0, false),
+            ("rule", 62.0, false),
+            ("value", 16.0, true),
+            ("limit", 24.0, true),
+            ("verdict", 20.0, false),
+            ("detail", 151.0, false),
         ],
         &rows,
-        7.5,
+        7.0,
     ) + 2.0;
     if !k.release_note.is_empty() {
-        y = c.paragraph(MARGIN, y + 2.0, 270.0, 7.5, &format!("Note: {}.", k.release_note)) + 1.0;
+        y = c.paragraph(MARGIN, y + 1.0, 270.0, 7.0, &format!("Note: {}.", k.release_note)) + 1.0;
     }
+    y = c.paragraph(MARGIN, y + 1.0, 270.0, 7.0, &crate::report::fit_sentence(k)) + 1.0;
+    y = c.paragraph(MARGIN, y + 1.0, 270.0, 7.0, &crate::report::conditions_sentence(k)) + 1.0;
+    y = signature_block(c, y + 2.0);
+    c.text(MARGIN, y + 3.0, 6.8, false, "Instruments, Asaoka's forecast, warnings and cautions: page 2. Readings against the model: page 3.");
+}
+
+/// Page 2: the instrument table, Asaoka's forecast, warnings, cautions.
+pub fn details_page(c: &mut Canvas, r: &ReleaseReport) {
+    let k = r.check;
+    let rows: Vec<Vec<String>> = k.instruments.iter().map(instrument_cells).collect();
+    let mut y = table(
+        c,
+        MARGIN,
+        CONTENT_TOP + 2.0,
+        &[
+            ("instrument", 20.0, false),
+            ("kind", 26.0, false),
+            ("x m", 12.0, true),
+            ("z m", 12.0, true),
+            ("read", 12.0, true),
+            ("since lift", 16.0, true),
+            ("latest", 26.0, false),
+            ("measured", 20.0, true),
+            ("calibrated", 20.0, true),
+            ("misfit sd", 16.0, true),
+            ("Δu/Δσv", 14.0, true),
+            ("monitoring", 76.0, false),
+        ],
+        &rows,
+        6.8,
+    ) + 2.0;
     let not_eval = k.rules.iter().filter(|r| r.verdict == Verdict::NotEvaluated).count();
     if not_eval > 0 {
         y = c.paragraph(
@@ -137,6 +154,38 @@ pub fn decision_page(c: &mut Canvas, r: &ReleaseReport) {
     for note in crate::report::cautions() {
         y = c.paragraph(MARGIN + 2.0, y, 270.0, 6.8, &format!("• {note}")) + 0.4;
     }
+}
+
+/// Fields the engineer of record fills in by hand; returns the y below.
+fn signature_block(c: &mut Canvas, y: f32) -> f32 {
+    c.text(MARGIN, y + 3.0, 7.5, true, "Engineer of record (the lift is released only by this signature)");
+    let fields = ["Name", "Signature", "Date", "Registration / licence no."];
+    let w = 270.0 / fields.len() as f32;
+    for (i, label) in fields.iter().enumerate() {
+        let x = MARGIN + i as f32 * w;
+        c.text(x, y + 11.0, 6.5, false, label);
+        c.line((x, y + 9.0), (x + w - 6.0, y + 9.0), 0.3, Dash::Solid, 0.0);
+    }
+    y + 14.0
+}
+
+fn instrument_cells(s: &crate::monitoring::status::InstrumentStatus) -> Vec<String> {
+    let scale = if s.kind == InstrumentKind::Piezometer { 1.0 } else { 1000.0 };
+    let o = |v: Option<f64>, d: usize| v.map_or("-".to_string(), |x| f(x, d));
+    vec![
+        s.id.clone(),
+        s.kind.label().into(),
+        f(s.offset_m, 1),
+        o(s.depth_m, 1),
+        s.readings.to_string(),
+        s.since_lift.to_string(),
+        s.last_reading.map_or("-".into(), |t| t.format("%Y-%m-%d %H:%M").to_string()),
+        o(s.measured.map(|v| v * scale), 1),
+        o(s.calibrated.map(|v| v * scale), 1),
+        o(s.misfit_sd, 1),
+        o(s.pore_pressure_ratio, 2),
+        if s.shortfall.is_empty() { "sufficient".into() } else { s.shortfall.join("; ") },
+    ]
 }
 
 fn series(label: &str, points: &[(f64, f64)], dash: Dash, marker: Marker, markers_only: bool, scale: f64) -> Series {

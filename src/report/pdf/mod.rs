@@ -94,20 +94,22 @@ impl Exporter for Pdf {
     }
 }
 
-/// The release certificate (two pages): decision, rules and figures; the
-/// readings against the model.
+/// The hold-point check record (three pages): recommendation, rules,
+/// conditions and signature fields; instruments and cautions; the readings
+/// against the model.
 pub fn certificate(r: &ReleaseReport, date: chrono::NaiveDate) -> Result<Vec<u8>> {
     let source = format!("{} and {}", r.project_file, r.check.readings_file);
-    let title = pages::Title {
-        info: &r.project.info,
-        source: &source,
-        date,
-        document: "fillpace hold-point release certificate",
-    };
-    document(&format!("{} — release certificate", r.project.info.title), 2, |c, i| {
-        let heading = if i == 0 { "Hold-point release certificate" } else { "Readings against the model" };
-        pages::frame(c, &title, heading, i + 1, 2);
-        if i == 0 { certificate::decision_page(c, r) } else { certificate::readings_page(c, r) }
+    let title =
+        pages::Title { info: &r.project.info, source: &source, date, document: "fillpace hold-point check record" };
+    let name = format!("{} — hold-point check record {}", r.project.info.title, r.record);
+    document(&name, 3, |c, i| {
+        let heading = ["Hold-point check record", "Instruments and cautions", "Readings against the model"][i];
+        pages::frame(c, &title, heading, i + 1, 3);
+        match i {
+            0 => certificate::decision_page(c, r),
+            1 => certificate::details_page(c, r),
+            _ => certificate::readings_page(c, r),
+        }
     })
 }
 

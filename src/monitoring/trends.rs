@@ -1,0 +1,261 @@
+//! Trends judged on many readings: least-squares lines over stated windows
+//! with their standard error, never smaller than the reading precision
+//! allows (se ≥ sd/√Sxx). Rules: pore pressure rising under constant load
+//! (99% two-sided significance and a rate limit), settlement and lateral
+//! rates, lateral acceleration (the curvature of a least-squares parabola
+//! through the marker readings of the trend window, significant at 99%), Δu/Δσv of the last
+//! lift against a yield-indicating limit (the ratio rises towards 1 as the
+//! clay passes σ'p: Leroueil, Tavenas et al. 1985), and the lateral over
+//! settlement increment ratio ΔL/ΔS (Tavenas, Mieussens & Bourges 1979).
+
+use super::readings::Readings;
+use super::release::{Rule, Verdict};
+use crate::load;
+use crate::model::{InstrumentKind, Project};
+
+/// z of a two-sided 99% interval (normal).
+pub const Z99: f64 = 2.576;
+
+/// Names of the rules the escalation looks for.
+pub const PORE_RISE: &str = "pore pressure rising under constant load";
+pub const LATERAL_ACCELERATION: &str = "lateral movement accelerating";
+
+/// A fitted straight line: slope per day and its standard error.
+#[derive(Debug, Clone, Copy)]
+pub struct Line {
+    pub slope: f64,
+    pub se: f64,
+    pub n: usize,
+}
+
+/// Least-squares line through (day, value) points; the standard error
+/// uses the larger of the residual scatter and the stated precision `sd`.
+pub fn regress(points: &[(f64, f64)], sd: f64) -> Option<Line> {
+    let n = points.len();
+    if n < 3 {
+        return None;
+    }
+    let nf = n as f64;
+    let mx = points.iter().map(|p| p.0).sum::<f64>() / nf;
+    let my = points.iter().map(|p| p.1).sum::<f64>() / nf;
+    let sxx: f64 = points.iter().map(|p| (p.0 - mx).powi(2)).sum();
+    if sxx <= 1e-12 {
+        return None;
+    }
+    let slope = points.iter().map(|p| (p.0 - mx) * (p.1 - my)).sum::<f64>() / sxx;
+    let sse: f64 = points.iter().map(|p| (p.1 - my - slope * (p.0 - mx)).powi(2)).sum();
+    let s2 = (sse / (nf - 2.0)).max(sd * sd);
+    Some(Line { slope, se: (s2 / sxx).sqrt(), n })
+}
+
+/// Usable (day, SI value) readings of instrument k from day `from` on.
+pub fn series_from(r: &Readings, k: usize, from: f64) -> Vec<(f64, f64)> {
+    r.of(k).filter(|x| x.day >= from - 1e-9).map(|x| (x.day, x.value)).collect()
+}
+
+/// All the trend rules of a hold point.
+pub fn rules(p: &Project, r: &Readings) -> Vec<Rule> {
+    vec![
+        pore_rise(p, r),
+        rate_rule(p, r, InstrumentKind::SettlementPlate),
+        rate_rule(p, r, InstrumentKind::LateralMarker),
+        acceleration(p, r),
+        lift_ratio(p, r),
+        lateral_ratio(p, r),
+    ]
+}
+
+fn of_kind(p: &Project, kind: InstrumentKind) -> impl Iterator<Item = (usize, &crate::model::Instrument)> {
+    p.instruments.iter().enumerate().filter(move |(_, i)| i.kind == kind)
+}
+
+fn pore_rise(p: &Project, r: &Readings) -> Rule {
+    let m = &p.monitoring;
+    let from = r.last_change_end().max(r.today_day - m.trend_window_days);
+    let worst = of_kind(p, InstrumentKind::Piezometer)
+        .filter_map(|(k, i)| regress(&series_from(r, k, from), m.piezometer_sd_kpa).map(|l| (l, i.id.clone())))
+        .max_by(|a, b| (a.0.slope - Z99 * a.0.se).total_cmp(&(b.0.slope - Z99 * b.0.se)));
+    let Some((l, id)) = worst else {
+        return Rule::not_evaluated(PORE_RISE, m.pore_rise_limit_kpa_per_week, "kPa/week", "fewer than three piezometer readings since the last lift ended");
+    };
+    let (rate, low) = (7.0 * l.slope, 7.0 * (l.slope - Z99 * l.se));
+    let verdict = if rate > m.pore_rise_limit_kpa_per_week && low > 0.0 { Verdict::Fail } else { Verdict::Pass };
+    Rule {
+        verdict,
+        ..Rule::at_most(
+            PORE_RISE,
+            rate,
+            m.pore_rise_limit_kpa_per_week,
+            "kPa/week",
+            format!(
+                "{id}: {rate:+.2} ± {:.2} kPa/week (99%) from {} readings since {:.0} days before the hold point; fails when above the limit and the rise is beyond the reading precision ({:.1} kPa)",
+                7.0 * Z99 * l.se,
+                l.n,
+                r.today_day - from,
+                m.piezometer_sd_kpa
+            ),
+        )
+    }
+}
+
+fn rate_rule(p: &Project, r: &Readings, kind: InstrumentKind) -> Rule {
+    let m = &p.monitoring;
+    let (name, limit, sd) = match kind {
+        InstrumentKind::SettlementPlate => ("settlement rate", m.settlement_rate_limit_mm_per_day, m.settlement_sd_m),
+        _ => ("lateral movement rate", m.lateral_rate_limit_mm_per_day, m.lateral_sd_m),
+    };
+    let from = r.today_day - m.rate_window_days;
+    let best = of_kind(p, kind)
+        .filter_map(|(k, i)| regress(&series_from(r, k, from), sd).map(|l| (l, i.id.clone())))
+        .max_by(|a, b| a.0.slope.abs().total_cmp(&b.0.slope.abs()));
+    match best {
+        Some((l, id)) => Rule::at_most(
+            name,
+            1000.0 * l.slope.abs(),
+            limit,
+            "mm/day",
+            format!(
+                "largest at {id}: {:.2} ± {:.2} mm/day (99%) over the last {:.0} days",
+                1000.0 * l.slope.abs(),
+                1000.0 * Z99 * l.se,
+                m.rate_window_days
+            ),
+        ),
+        None => Rule::not_evaluated(name, limit, "mm/day", "fewer than three readings in the rate window"),
+    }
+}
+
+/// Acceleration of a series: 2c of the least-squares parabola
+/// a + b t + c t² (t centred), with its standard error from the larger of
+/// the residual scatter and the precision `sd`. Needs five points.
+pub fn acceleration_of(points: &[(f64, f64)], sd: f64) -> Option<(f64, f64)> {
+    let n = points.len();
+    if n < 5 {
+        return None;
+    }
+    let mt = points.iter().map(|p| p.0).sum::<f64>() / n as f64;
+    let x = nalgebra::DMatrix::from_fn(n, 3, |i, j| (points[i].0 - mt).powi(j as i32));
+    let y = nalgebra::DVector::from_iterator(n, points.iter().map(|p| p.1));
+    let xtx = x.transpose() * &x;
+    let inv = xtx.try_inverse()?;
+    let c = &inv * x.transpose() * &y;
+    let sse = (&y - &x * &c).norm_squared();
+    let s2 = (sse / (n as f64 - 3.0)).max(sd * sd);
+    Some((2.0 * c[2], 2.0 * (s2 * inv[(2, 2)]).sqrt()))
+}
+
+fn acceleration(p: &Project, r: &Readings) -> Rule {
+    let m = &p.monitoring;
+    let from = r.last_change_end().max(r.today_day - m.trend_window_days);
+    let best = of_kind(p, InstrumentKind::LateralMarker)
+        .filter_map(|(k, i)| acceleration_of(&series_from(r, k, from), m.lateral_sd_m).map(|a| (a, i.id.clone())))
+        .max_by(|a, b| (a.0.0 / a.0.1).total_cmp(&(b.0.0 / b.0.1)));
+    let Some(((acc, se), id)) = best else {
+        return Rule::not_evaluated(
+            LATERAL_ACCELERATION,
+            Z99,
+            "se",
+            "fewer than five marker readings since the last lift ended within the trend window",
+        );
+    };
+    let z = acc / se;
+    Rule::at_most(
+        LATERAL_ACCELERATION,
+        z,
+        Z99,
+        "se",
+        format!(
+            "{id}: outward acceleration {:+.3} ± {:.3} mm/day² (1 se) over the last {:.0} days (parabola through the readings); fails beyond 99% significance",
+            1000.0 * acc,
+            1000.0 * se,
+            r.today_day - from
+        ),
+    )
+}
+
+/// Δu/Δσv of the last lift at each piezometer: the change of pore pressure
+/// from the last reading before the lift began to the first after it ended,
+/// over the vertical stress the lift added at the tip (Boussinesq-type
+/// elastic increments of the fill at the as-built heights, no make-up).
+fn lift_ratio(p: &Project, r: &Readings) -> Rule {
+    let name = "Δu/Δσv of the last lift";
+    let limit = p.monitoring.pore_pressure_ratio_limit;
+    let Some((start, end)) = r.last_change() else {
+        return Rule::not_evaluated(name, limit, "", "no lift in the fill record");
+    };
+    let e = &p.embankment;
+    let dsv = |x: f64, z: f64| {
+        let at = |h: f64| load::stress(&load::profile(e, h), e.fill_unit_weight_kn_m3, x.abs(), z).sz;
+        at(r.height_at(end)) - at(r.height_at(start))
+    };
+    let best = of_kind(p, InstrumentKind::Piezometer)
+        .filter_map(|(k, i)| {
+            let pts: Vec<(f64, f64)> = r.of(k).map(|x| (x.day, x.value)).collect();
+            let before = pts.iter().rev().find(|x| x.0 <= start + 1e-9)?;
+            let after = pts.iter().find(|x| x.0 >= end - 1e-9)?;
+            let d = dsv(i.offset_m, i.depth_m);
+            (d > 5.0).then(|| ((after.1 - before.1) / d, i.id.clone()))
+        })
+        .max_by(|a, b| a.0.total_cmp(&b.0));
+    match best {
+        Some((v, id)) => Rule::at_most(
+            name,
+            v,
+            limit,
+            "",
+            format!("largest at {id}; near 1 the clay at the tip has passed σ'p and is yielding (Leroueil et al. 1985)"),
+        ),
+        None => Rule::not_evaluated(name, limit, "", "no piezometer read both before and after the last lift"),
+    }
+}
+
+/// Lateral movement increment at each marker over the centreline
+/// settlement increment (plate nearest the centreline) since the start of
+/// the last lift: ΔL/ΔS of Tavenas, Mieussens & Bourges (1979).
+fn lateral_ratio(p: &Project, r: &Readings) -> Rule {
+    let name = "lateral / settlement increment ΔL/ΔS (Tavenas et al. 1979)";
+    let limit = p.monitoring.lateral_ratio_limit;
+    let start = r.last_change().map(|c| c.0);
+    let plate =
+        of_kind(p, InstrumentKind::SettlementPlate).min_by(|a, b| a.1.offset_m.abs().total_cmp(&b.1.offset_m.abs()));
+    let (Some(start), Some((kp, plate))) = (start, plate) else {
+        return Rule::not_evaluated(name, limit, "", "needs a lift in the fill record and a settlement plate");
+    };
+    let increment = |k: usize| -> Option<f64> {
+        let pts: Vec<(f64, f64)> = r.of(k).map(|x| (x.day, x.value)).collect();
+        let before = pts.iter().rev().find(|x| x.0 <= start + 1e-9).or(pts.first())?;
+        let now = pts.last()?;
+        (now.0 > before.0).then_some(now.1 - before.1)
+    };
+    let Some(ds) = increment(kp) else {
+        return Rule::not_evaluated(name, limit, "", "no plate readings span the last lift");
+    };
+    if ds < 2.0 * p.monitoring.settlement_noise_m {
+        return Rule::not_evaluated(name, limit, "", "settlement since the last lift is within twice the reading noise");
+    }
+    let best = of_kind(p, InstrumentKind::LateralMarker)
+        .filter_map(|(k, i)| increment(k).map(|d| (d / ds, i.id.clone())))
+        .max_by(|a, b| a.0.total_cmp(&b.0));
+    match best {
+        Some((v, id)) => {
+            Rule::at_most(name, v, limit, "", format!("{id} against {} since the last lift began", plate.id))
+        }
+        None => Rule::not_evaluated(name, limit, "", "no lateral-marker readings span the last lift"),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_straight_line_has_its_slope_and_the_precision_floor() {
+        // Exact line y = 2 + 0.5 t: slope 0.5, residuals 0, so the standard
+        // error is the precision's sd/√Sxx (t = 0…6: Sxx = 28, hand sum).
+        let pts: Vec<(f64, f64)> = (0..7).map(|t| (t as f64, 2.0 + 0.5 * t as f64)).collect();
+        let l = regress(&pts, 1.0).unwrap();
+        assert!((l.slope - 0.5).abs() < 1e-12);
+        assert!((l.se - 1.0 / 28f64.sqrt()).abs() < 1e-12);
+        assert!(regress(&pts[..2], 1.0).is_none());
+    }
+}
