@@ -156,6 +156,26 @@ pub enum Command {
         #[arg(long)]
         json: bool,
     },
+    /// Corridor programme: many sections along a road planned together
+    /// with shared fill supply, placing crews and drain rigs (the bundled
+    /// demo corridor when no file is given).
+    #[command(
+        after_help = "Example:\n  fillpace corridor\n  fillpace corridor examples/kestrel-fen-corridor.toml --csv works.csv --ics works.ics"
+    )]
+    Corridor {
+        /// Corridor file (TOML); omit to run the bundled demo corridor.
+        corridor: Option<PathBuf>,
+        /// Write one row per activity as CSV.
+        #[arg(long)]
+        csv: Option<PathBuf>,
+        /// Write placements and hold points of every section as one
+        /// iCalendar file.
+        #[arg(long)]
+        ics: Option<PathBuf>,
+        /// Print JSON instead of tables.
+        #[arg(long)]
+        json: bool,
+    },
     /// Hold-point check: may the next lift be placed? Interprets the
     /// readings, calibrates the model, decides RELEASE or HOLD, writes a PDF
     /// certificate and appends the decision to the audit log.

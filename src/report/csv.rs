@@ -7,7 +7,7 @@ use crate::error::Result;
 use crate::schedule::assess::Assessment;
 
 /// Quote a field if it needs it.
-fn field(s: &str) -> String {
+pub(crate) fn field(s: &str) -> String {
     if s.contains([',', '"', '\n']) { format!("\"{}\"", s.replace('"', "\"\"")) } else { s.to_string() }
 }
 

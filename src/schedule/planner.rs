@@ -218,7 +218,7 @@ pub fn next_lift(r: &Runner, st: &State, earliest: i64, effort: &mut Effort) -> 
 /// `next_lift` with `last_rest` (days beyond the earliest start that the
 /// previous lift waited) as the rest search's first guess, since rests grow
 /// gradually from lift to lift; also returns the state on the start day.
-fn next_lift_after(
+pub(crate) fn next_lift_after(
     r: &Runner,
     st: &State,
     earliest: i64,
@@ -457,7 +457,7 @@ fn close_rest(r: &Runner, prev: &mut Stage, s: &State, start: i64, effort: &mut 
 /// The day the surcharge may come off: the first day on which the removal
 /// criterion holds (centreline degree of consolidation, or residual
 /// settlement over the design life), searched in whole days.
-fn removal_day(r: &Runner, st: &State, earliest: i64, warnings: &mut Vec<String>) -> Result<i64> {
+pub(crate) fn removal_day(r: &Runner, st: &State, earliest: i64, warnings: &mut Vec<String>) -> Result<i64> {
     let p = r.engine.project;
     let degree = p.criteria.surcharge_removal_degree;
     let limit = p.criteria.residual_settlement_limit_m;
