@@ -327,7 +327,12 @@ fn corridor_cmd(path: Option<&Path>, csv: Option<&Path>, ics: Option<&Path>, jso
                 Some("kestrel-fen-low.toml") => Ok(DEMO_LOW.to_string()),
                 _ => Err(std::io::Error::new(std::io::ErrorKind::NotFound, "not bundled")),
             };
-            crate::corridor::file::parse(DEMO_CORRIDOR, "bundled demo corridor (examples/kestrel-fen-corridor.toml)", Path::new(""), &read)?
+            crate::corridor::file::parse(
+                DEMO_CORRIDOR,
+                "bundled demo corridor (examples/kestrel-fen-corridor.toml)",
+                Path::new(""),
+                &read,
+            )?
         }
     };
     let total = 2 * c.sections.len();

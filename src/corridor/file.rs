@@ -121,8 +121,7 @@ pub fn parse(text: &str, file: &str, dir: &Path, read: Reader) -> Result<Corrido
 
 /// Issues with their lines filled in from the key paths.
 fn located(file: &str, lines: &LineMap, issues: Vec<(String, String)>) -> Error {
-    let issues =
-        issues.into_iter().map(|(key, message)| InputIssue { line: lines.line(&key), key, message }).collect();
+    let issues = issues.into_iter().map(|(key, message)| InputIssue { line: lines.line(&key), key, message }).collect();
     Error::Input { file: file.to_string(), issues }
 }
 
@@ -149,7 +148,10 @@ fn resources(r: Option<&RawResources>, issues: &mut Vec<(String, String)>) -> Re
     }
     let platform = r.platform_thickness_m.unwrap_or(0.0);
     if !(platform.is_finite() && (0.0..=2.0).contains(&platform)) {
-        issues.push(("resources.platform_thickness_m".into(), format!("= {platform} is out of range; allowed: 0 to 2 m")));
+        issues.push((
+            "resources.platform_thickness_m".into(),
+            format!("= {platform} is out of range; allowed: 0 to 2 m"),
+        ));
     }
     let mut supply = Vec::new();
     for (i, s) in r.supply.iter().enumerate() {
@@ -242,7 +244,10 @@ fn section(
     let project = doc.project(&label)?;
     for (k, d) in [("earliest_start", s.earliest_start), ("required_finish", s.required_finish)] {
         if d.is_some_and(|d| d < start) {
-            return Err(bad(&format!("{key}.{k}"), format!("= {} is before corridor.start_date ({start})", d.unwrap_or(start))));
+            return Err(bad(
+                &format!("{key}.{k}"),
+                format!("= {} is before corridor.start_date ({start})", d.unwrap_or(start)),
+            ));
         }
     }
     Ok(SectionSpec {
@@ -268,7 +273,10 @@ fn check_platform(sections: &[SectionSpec], t: f64, bad: &dyn Fn(&str, String) -
         if t > min + 1e-9 {
             return Err(bad(
                 "resources.platform_thickness_m",
-                format!("= {t} m is thicker than the minimum lift ({min} m) of section '{}'; the platform is the bottom of the first lift", s.name),
+                format!(
+                    "= {t} m is thicker than the minimum lift ({min} m) of section '{}'; the platform is the bottom of the first lift",
+                    s.name
+                ),
             ));
         }
     }

@@ -71,6 +71,11 @@ impl Ledger {
         usize::try_from(k).ok().and_then(|k| self.capacity_m3.get(k).copied()).unwrap_or(0.0)
     }
 
+    /// The largest daily supply on any day, m³.
+    pub fn most_capacity(&self) -> f64 {
+        self.capacity_m3.iter().copied().fold(0.0, f64::max)
+    }
+
     /// Whether `need` fits on day `k` besides what is booked.
     pub fn fits(&self, k: i64, need: Need) -> bool {
         let Ok(i) = usize::try_from(k) else { return false };

@@ -75,7 +75,8 @@ pub fn text(p: &Programme, source: &str) -> String {
     out.push_str("\nWeekly fill (m³): placed / supply capacity\n");
     let mut w = Table::new(&["week of", "placed", "reused", "supply", "use"]);
     for wk in &p.weeks {
-        let use_ = wk.supply_m3.filter(|s| *s > 0.0).map_or("-".into(), |s| format!("{:.0}%", 100.0 * wk.placed_m3 / s));
+        let use_ =
+            wk.supply_m3.filter(|s| *s > 0.0).map_or("-".into(), |s| format!("{:.0}%", 100.0 * wk.placed_m3 / s));
         w.row(vec![
             wk.start.to_string(),
             f(wk.placed_m3, 0),
@@ -85,7 +86,9 @@ pub fn text(p: &Programme, source: &str) -> String {
         ]);
     }
     out.push_str(&w.render());
-    for warning in p.warnings.iter().chain(p.sections.iter().filter_map(|s| s.outcome.as_ref()).flat_map(|o| &o.warnings)) {
+    for warning in
+        p.warnings.iter().chain(p.sections.iter().filter_map(|s| s.outcome.as_ref()).flat_map(|o| &o.warnings))
+    {
         out.push_str(&format!("\nWARNING: {}", wrap(warning, 76, "  ")));
     }
     out.push('\n');
@@ -145,7 +148,8 @@ pub fn csv(p: &Programme) -> String {
         for w in &o.works {
             let (q, unit) = match w.kind {
                 Kind::Drains => (w.drain_m, "m"),
-                _ => (w.volume.total().abs(), "m3"),
+                Kind::Removal => (w.removed_m3, "m3"),
+                _ => (w.volume.total(), "m3"),
             };
             let v = &w.volume;
             out.push_str(&format!(
@@ -165,7 +169,13 @@ pub fn csv(p: &Programme) -> String {
             ));
             if let Some(rel) = w.release {
                 let rest = (rel - w.end).num_days() - 1;
-                out.push_str(&format!("{},rest,{},{},{},{rest},days,,,,,,,\n", field(&s.name), w.stage.map_or(String::new(), |n| n.to_string()), w.end.succ_opt().unwrap_or(w.end), rel.pred_opt().unwrap_or(rel)));
+                out.push_str(&format!(
+                    "{},rest,{},{},{},{rest},days,,,,,,,\n",
+                    field(&s.name),
+                    w.stage.map_or(String::new(), |n| n.to_string()),
+                    w.end.succ_opt().unwrap_or(w.end),
+                    rel.pred_opt().unwrap_or(rel)
+                ));
             }
         }
     }
@@ -191,14 +201,26 @@ pub fn ics(p: &Programme) -> String {
                 Kind::Platform => format!("{}: working platform", s.name),
                 Kind::Drains => format!("{}: install {:.0} m of drains", s.name, w.drain_m),
                 Kind::Removal => format!("{}: remove {:.2} m surcharge", s.name, -w.thickness_m),
-                _ => format!("{}: lift {} — place {:.2} m (crest to {:.2} m)", s.name, w.stage.unwrap_or(0), w.thickness_m, w.height_after_m),
+                _ => format!(
+                    "{}: lift {} — place {:.2} m (crest to {:.2} m)",
+                    s.name,
+                    w.stage.unwrap_or(0),
+                    w.thickness_m,
+                    w.height_after_m
+                ),
             };
             let fs = w.fs_end.map_or(String::new(), |x| format!(" Predicted FS at end {x:.2}."));
-            let desc = format!("{} ({:.0}–{:.0} m).{fs} {distress} Prediction only: field monitoring governs.", s.name, s.from_m, s.to_m);
+            let desc = format!(
+                "{} ({:.0}–{:.0} m).{fs} {distress} Prediction only: field monitoring governs.",
+                s.name, s.from_m, s.to_m
+            );
             ics::event(&mut lines, &format!("{base}-s{i}-w{j}@fillpace"), &stamp, w.start, w.end, &what, &desc);
             if let (Some(rel), Some(n)) = (w.release, w.stage) {
                 let hold = format!("{}: HOLD POINT before stage {}", s.name, n + 1);
-                let desc = format!("{}: check piezometer, settlement and lateral-movement readings; the next stage starts only when released by the engineer.", s.name);
+                let desc = format!(
+                    "{}: check piezometer, settlement and lateral-movement readings; the next stage starts only when released by the engineer.",
+                    s.name
+                );
                 ics::event(&mut lines, &format!("{base}-s{i}-hold{n}@fillpace"), &stamp, rel, rel, &hold, &desc);
             }
         }

@@ -116,7 +116,7 @@ pub struct Outcome {
     pub fs_finish: f64,
     pub settlement_at_finish_m: f64,
     pub final_settlement_m: f64,
-    /// Fill placed by part (removal not deducted), m³.
+    /// Fill brought in by part (removal not deducted), m³.
     pub placed: Volumes,
     pub removed_m3: f64,
     pub drain_m: f64,
@@ -229,10 +229,17 @@ fn assemble(
     let mut warnings: Vec<String> = Vec::new();
     for s in &sections {
         if let Some(why) = &s.reason {
-            warnings.push(format!("section '{}' cannot be built as specified and is left out of the programme: {why}", s.name));
+            warnings.push(format!(
+                "section '{}' cannot be built as specified and is left out of the programme: {why}",
+                s.name
+            ));
         }
         if s.outcome.as_ref().and_then(|o| o.required_finish_met) == Some(false) {
-            warnings.push(format!("section '{}' finishes after its required finish {}", s.name, s.required_finish.map_or(String::new(), |d| d.to_string())));
+            warnings.push(format!(
+                "section '{}' finishes after its required finish {}",
+                s.name,
+                s.required_finish.map_or(String::new(), |d| d.to_string())
+            ));
         }
     }
     Ok(Programme {
@@ -288,8 +295,8 @@ fn outcome(s: &SectionSpec, engine: &Engine, w: Works, unconstrained: Option<Nai
         .min_by(|a, b| a.0.total_cmp(&b.0))
         .unwrap_or((f64::INFINITY, 0));
     let fs_finish = runner.stability(&w.end_state, &mut Default::default())?.critical.fs;
-    let placed = w.items.iter().filter(|x| x.kind != Kind::Removal).fold(Volumes::default(), |a, x| a.plus(x.volume));
-    let removed_m3 = -w.items.iter().filter(|x| x.kind == Kind::Removal).map(|x| x.volume.total()).sum::<f64>();
+    let placed = w.items.iter().fold(Volumes::default(), |a, x| a.plus(x.volume));
+    let removed_m3 = w.items.iter().map(|x| x.removed_m3).sum::<f64>();
     let start = w.items.first().map_or(s.project.info.start_date, |x| x.start);
     let finish = w.items.last().map_or(start, |x| x.end);
     let mut warnings = w.warnings.clone();
@@ -336,9 +343,7 @@ impl Daily {
                 d.crews[k] += usize::from(need.crew);
                 d.rigs[k] += usize::from(need.rig);
             }
-            if w.kind == Kind::Removal {
-                freed[w.days.last().map_or(0, |k| *k as usize) + 1] -= w.volume.total();
-            }
+            freed[w.days.last().map_or(0, |k| *k as usize) + 1] += w.removed_m3;
         }
         if rolling {
             let mut stock = 0.0;
@@ -375,9 +380,10 @@ fn supply_finish(c: &Corridor, book: &Ledger, total_m3: f64) -> Option<NaiveDate
         return None;
     }
     let mut sum = 0.0;
-    (0..ledger::DAYS as i64).find(|k| {
-        sum += book.capacity(*k);
-        sum >= total_m3 * (1.0 - 1e-12)
-    })
-    .map(|k| c.calendar.date(k))
+    (0..ledger::DAYS as i64)
+        .find(|k| {
+            sum += book.capacity(*k);
+            sum >= total_m3 * (1.0 - 1e-12)
+        })
+        .map(|k| c.calendar.date(k))
 }

@@ -68,6 +68,13 @@ pub fn in_place(e: &Embankment, height_m: f64, placed_m: f64) -> Volumes {
     Volumes { design_m3: d, surcharge_m3: h - d, makeup_m3: area_m2(e, placed_m) - h, platform_m3: 0.0 }
 }
 
+/// Fill in place per metre run in a ground state: the crest height made up
+/// for the centreline settlement reached (as the planner's volumes are).
+pub fn of_state(e: &Embankment, st: &crate::response::State) -> Volumes {
+    let placed = if st.height_m > 0.0 { st.height_m + st.settlement_centre_m } else { 0.0 };
+    in_place(e, st.height_m, placed)
+}
+
 /// The working platform per metre run: the bottom `t_m` of the fill,
 /// m³/m, booked as platform rather than design fill.
 pub fn platform(e: &Embankment, t_m: f64) -> Volumes {
@@ -89,12 +96,7 @@ pub struct Week {
 
 /// Weekly totals of daily placement `placed` and reuse `reused` (m³ by day
 /// from the corridor start), with the supply capacity by day.
-pub fn weekly(
-    start: chrono::NaiveDate,
-    placed: &[f64],
-    reused: &[f64],
-    capacity: impl Fn(i64) -> f64,
-) -> Vec<Week> {
+pub fn weekly(start: chrono::NaiveDate, placed: &[f64], reused: &[f64], capacity: impl Fn(i64) -> f64) -> Vec<Week> {
     use chrono::Datelike;
     let last = placed.iter().rposition(|v| *v > 0.0).map_or(0, |k| k + 1);
     let mut weeks: Vec<Week> = Vec::new();

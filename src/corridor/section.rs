@@ -57,8 +57,13 @@ pub struct Work {
     pub height_after_m: f64,
     /// FS at the end of the stage (None for platform and drains).
     pub fs_end: Option<f64>,
-    /// Fill moved, m³ (negative for a removal).
+    /// Fill brought in, m³: the change of the fill in place since the end
+    /// of the previous stage (so the make-up for settlement during a rest
+    /// is booked with the stage that follows it); for a removal only the
+    /// make-up, the surcharge taken off being `removed_m3`.
     pub volume: Volumes,
+    /// Surcharge fill taken off, m³ (removals only).
+    pub removed_m3: f64,
     /// Drain installed, m.
     pub drain_m: f64,
     /// Start of the next stage (the hold point), if any.
@@ -191,6 +196,7 @@ fn work(r: &Runner, kind: Kind, days: Vec<i64>, volume: Volumes, drain_m: f64) -
         height_after_m: 0.0,
         fs_end: None,
         volume,
+        removed_m3: 0.0,
         drain_m,
         release: None,
         days,
@@ -214,6 +220,13 @@ fn window(r: &Runner, from: i64, n: usize) -> Result<Vec<i64>> {
 /// fits `need`. A window that fails on day f is followed by one starting
 /// after f (every window starting at or before f holds f).
 fn fit_window(r: &Runner, ledger: &Ledger, from: i64, n: usize, need: Need) -> Result<Vec<i64>> {
+    let most = ledger.most_capacity();
+    if need.fill_m3 > most {
+        return Err(Error::Computation(format!(
+            "a placement needs {:.0} m³ a day at the section's placement rate, more than the whole supply ({most:.0} m³ a day); placement is never slowed, so add supply or lower the section's placement rate",
+            need.fill_m3
+        )));
+    }
     let mut d = from;
     loop {
         let days = window(r, d, n)?;
@@ -239,7 +252,7 @@ fn lifts(s: &Setup, ledger: &mut Ledger, items: &mut Vec<Work>, st: &mut State, 
     while st.height_m < top - 1e-6 {
         let (lift_earliest, w) = loop {
             let (day, lift, rested) = planner::next_lift_after(r, st, earliest, last_rest, &mut effort)?;
-            let w = placed(s, items, &rested, lift)?;
+            let w = placed(s, items, st, &rested, lift)?;
             if ledger.fits_all(&w.days, w.need()) {
                 break (earliest, w);
             }
@@ -258,16 +271,18 @@ fn lifts(s: &Setup, ledger: &mut Ledger, items: &mut Vec<Work>, st: &mut State, 
 }
 
 /// A lift of `change_m` (negative: removal) placed from `from` (the state
-/// on its first day): its days, volumes and the state at its end.
-fn placed(s: &Setup, items: &[Work], from: &State, change_m: f64) -> Result<Work> {
+/// on its first day; `prev` is the state at the end of the previous
+/// stage): its days, volumes and the state at its end.
+fn placed(s: &Setup, items: &[Work], prev: &State, from: &State, change_m: f64) -> Result<Work> {
     let r = s.runner;
     let e = &r.engine.project.embankment;
     let mut after = from.clone();
     let (a, b) = r.place(&mut after, change_m, &mut |_| {})?;
     let days: Vec<i64> = (a..=b).filter(|k| r.calendar.workable(*k)).collect();
-    let before = quantities::in_place(e, from.height_m, from.placed_m);
-    let mut volume = quantities::in_place(e, after.height_m, after.placed_m).minus(before).times(s.length_m);
-    if from.placed_m <= 1e-9 && s.platform_m > 0.0 {
+    let mut volume = quantities::of_state(e, &after).minus(quantities::of_state(e, prev)).times(s.length_m);
+    let removed_m3 = (-volume.surcharge_m3).max(0.0);
+    volume.surcharge_m3 += removed_m3;
+    if prev.placed_m <= 1e-9 && s.platform_m > 0.0 {
         // The platform already placed is the bottom of the first lift.
         volume.design_m3 -= quantities::platform(e, s.platform_m).times(s.length_m).platform_m3;
     }
@@ -286,6 +301,7 @@ fn placed(s: &Setup, items: &[Work], from: &State, change_m: f64) -> Result<Work
         height_after_m: after.height_m,
         fs_end: None,
         volume,
+        removed_m3,
         drain_m: 0.0,
         release: None,
         days,
@@ -295,7 +311,13 @@ fn placed(s: &Setup, items: &[Work], from: &State, change_m: f64) -> Result<Work
 
 /// The surcharge removal: on the first day the section's removal criterion
 /// holds and a crew is free.
-fn removal(s: &Setup, ledger: &mut Ledger, items: &mut Vec<Work>, st: &mut State, warn: &mut Vec<String>) -> Result<()> {
+fn removal(
+    s: &Setup,
+    ledger: &mut Ledger,
+    items: &mut Vec<Work>,
+    st: &mut State,
+    warn: &mut Vec<String>,
+) -> Result<()> {
     let r = s.runner;
     let p = r.engine.project;
     if p.embankment.surcharge_height_m <= 0.0 {
@@ -307,7 +329,7 @@ fn removal(s: &Setup, ledger: &mut Ledger, items: &mut Vec<Work>, st: &mut State
         let day = planner::removal_day(r, st, earliest, warn)?;
         let mut rested = st.clone();
         r.rest_until(&mut rested, day, &mut |_| {});
-        let w = placed(s, items, &rested, -p.embankment.surcharge_height_m)?;
+        let w = placed(s, items, st, &rested, -p.embankment.surcharge_height_m)?;
         if ledger.fits_all(&w.days, w.need()) {
             break w;
         }

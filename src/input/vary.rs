@@ -120,7 +120,8 @@ impl Document {
             return Err(self.unknown_key(&path));
         }
         let t = self.table.get_mut(table).and_then(toml::Value::as_table_mut);
-        t.ok_or_else(|| Error::Usage(format!("{path}: there is no [{table}] in {}", self.file)))?.insert(key.into(), value);
+        t.ok_or_else(|| Error::Usage(format!("{path}: there is no [{table}] in {}", self.file)))?
+            .insert(key.into(), value);
         Ok(())
     }
 
