@@ -67,6 +67,9 @@ fn dispatch(cmd: &Command) -> Result<String> {
             let opts = crate::risk::RiskOptions { runs: *runs, seed: *seed, threads: *threads };
             risk(project, opts, *max_failure_probability, pdf.as_deref(), *json)
         }
+        Command::Corridor { corridor, csv, ics, json } => {
+            corridor_cmd(corridor.as_deref(), csv.as_deref(), ics.as_deref(), *json)
+        }
         Command::Release { project, readings, lift, on, pdf, log, json } => {
             let files = ReleaseFiles { readings, pdf: pdf.as_deref(), log: log.as_deref() };
             release(project, &files, *lift, on.as_deref(), *json)
@@ -387,6 +390,44 @@ fn risk(
         output::write_atomic(out, &report::pdf::risk(&rep, report::today())?)?;
     }
     if json { report::json::risk(&p, &doc.file, &result) } else { Ok(report::text::risk(&rep)) }
+}
+
+/// The bundled demo corridor (examples/kestrel-fen-corridor.toml).
+pub const DEMO_CORRIDOR: &str = include_str!("../examples/kestrel-fen-corridor.toml");
+/// The demo corridor's low-embankment section file.
+const DEMO_LOW: &str = include_str!("../examples/kestrel-fen-low.toml");
+
+fn corridor_cmd(path: Option<&Path>, csv: Option<&Path>, ics: Option<&Path>, json: bool) -> Result<String> {
+    let inputs: Vec<&Path> = path.into_iter().collect();
+    for out in [csv, ics].into_iter().flatten() {
+        output::refuse_overwrite_of_inputs(out, &inputs)?;
+    }
+    let c = match path {
+        Some(f) => crate::corridor::file::load(f)?,
+        None => {
+            // The demo's sections are the bundled demo project.
+            let read = |p: &Path| match p.file_name().and_then(|n| n.to_str()) {
+                Some("kestrel-fen.toml") => Ok(DEMO.to_string()),
+                Some("kestrel-fen-low.toml") => Ok(DEMO_LOW.to_string()),
+                _ => Err(std::io::Error::new(std::io::ErrorKind::NotFound, "not bundled")),
+            };
+            crate::corridor::file::parse(
+                DEMO_CORRIDOR,
+                "bundled demo corridor (examples/kestrel-fen-corridor.toml)",
+                Path::new(""),
+                &read,
+            )?
+        }
+    };
+    let total = 2 * c.sections.len();
+    let p = with_counter(total, "planning sections", |tick| crate::corridor::programme::run(&c, tick))?;
+    if let Some(out) = csv {
+        output::write_atomic(out, crate::corridor::output::csv(&p).as_bytes())?;
+    }
+    if let Some(out) = ics {
+        output::write_atomic(out, crate::corridor::output::ics(&p).as_bytes())?;
+    }
+    if json { crate::corridor::output::json(&p, &c.file) } else { Ok(crate::corridor::output::text(&p, &c.file)) }
 }
 
 /// Where `plan` writes its files.

@@ -161,6 +161,26 @@ pub enum Command {
         #[arg(long)]
         json: bool,
     },
+    /// Corridor programme: many sections along a road planned together
+    /// with shared fill supply, placing crews and drain rigs (the bundled
+    /// demo corridor when no file is given).
+    #[command(
+        after_help = "Example:\n  fillpace corridor\n  fillpace corridor examples/kestrel-fen-corridor.toml --csv works.csv --ics works.ics"
+    )]
+    Corridor {
+        /// Corridor file (TOML); omit to run the bundled demo corridor.
+        corridor: Option<PathBuf>,
+        /// Write one row per activity as CSV.
+        #[arg(long)]
+        csv: Option<PathBuf>,
+        /// Write placements and hold points of every section as one
+        /// iCalendar file.
+        #[arg(long)]
+        ics: Option<PathBuf>,
+        /// Print JSON instead of tables.
+        #[arg(long)]
+        json: bool,
+    },
     /// Hold-point check: interprets the readings, calibrates the model and
     /// recommends one of three levels (criteria met / hold pending review /
     /// stop filling and act now); writes a numbered PDF record and appends

@@ -11,6 +11,7 @@ pub mod audit;
 pub mod cli;
 pub mod compare;
 pub mod consolidation;
+pub mod corridor;
 pub mod error;
 pub mod fuzzing;
 pub mod ground;

@@ -118,6 +118,19 @@ impl Document {
         toml::to_string(&self.table).map_err(|e| Error::Computation(format!("{} as TOML: {e}", self.file)))
     }
 
+    /// Insert or replace `key` of the top-level table `table` whatever its
+    /// type (lists such as `construction.holidays`, which `set` refuses).
+    pub fn replace(&mut self, table: &str, key: &str, value: toml::Value) -> Result<()> {
+        let path = format!("{table}.{key}");
+        if !super::known_fields(table).contains(&key) {
+            return Err(self.unknown_key(&path));
+        }
+        let t = self.table.get_mut(table).and_then(toml::Value::as_table_mut);
+        t.ok_or_else(|| Error::Usage(format!("{path}: there is no [{table}] in {}", self.file)))?
+            .insert(key.into(), value);
+        Ok(())
+    }
+
     /// Remove a top-level key (a table or array of tables) if present.
     pub fn remove(&mut self, key: &str) {
         self.table.remove(key);

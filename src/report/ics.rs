@@ -76,7 +76,7 @@ impl Exporter for Ics {
     }
 }
 
-fn event(
+pub(crate) fn event(
     lines: &mut Vec<String>,
     uid: &str,
     stamp: &Stamp,
@@ -104,7 +104,7 @@ fn escape(s: &str) -> String {
 }
 
 /// Fold a content line at 75 octets with CRLF + space (RFC 5545 §3.1).
-fn fold(line: &str) -> String {
+pub(crate) fn fold(line: &str) -> String {
     let mut out = String::new();
     let mut len = 0;
     for ch in line.chars() {
@@ -120,7 +120,7 @@ fn fold(line: &str) -> String {
     out
 }
 
-fn slug(s: &str) -> String {
+pub(crate) fn slug(s: &str) -> String {
     let t: String = s.chars().map(|c| if c.is_ascii_alphanumeric() { c } else { '-' }).collect();
     if t.is_empty() { "fillpace".into() } else { t }
 }

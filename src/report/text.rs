@@ -10,21 +10,21 @@ use crate::stability::search::SearchResult;
 use crate::stability::{CircleResult, Method};
 
 /// A table of strings with a header row; numbers are right-aligned.
-struct Table {
+pub(crate) struct Table {
     head: Vec<String>,
     rows: Vec<Vec<String>>,
 }
 
 impl Table {
-    fn new(head: &[&str]) -> Table {
+    pub(crate) fn new(head: &[&str]) -> Table {
         Table { head: head.iter().map(|s| s.to_string()).collect(), rows: Vec::new() }
     }
 
-    fn row(&mut self, cells: Vec<String>) {
+    pub(crate) fn row(&mut self, cells: Vec<String>) {
         self.rows.push(cells);
     }
 
-    fn render(&self) -> String {
+    pub(crate) fn render(&self) -> String {
         let n = self.head.len();
         let width = |i: usize| {
             self.rows
@@ -63,7 +63,7 @@ fn looks_numeric(s: &str) -> bool {
     !s.is_empty() && s.chars().all(|c| c.is_ascii_digit() || "+-.%".contains(c))
 }
 
-fn cautions_block() -> String {
+pub(crate) fn cautions_block() -> String {
     let mut out = String::from("\nCAUTIONS\n");
     for c in super::cautions() {
         out.push_str(&format!("  * {}\n", wrap(&c, 76, "    ")));
@@ -81,7 +81,7 @@ pub fn with_warnings(report: String, warnings: &[String]) -> String {
     }
 }
 
-fn wrap(text: &str, width: usize, indent: &str) -> String {
+pub(crate) fn wrap(text: &str, width: usize, indent: &str) -> String {
     let mut out = String::new();
     let mut len = 0;
     for word in text.split_whitespace() {

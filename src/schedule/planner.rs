@@ -281,7 +281,7 @@ pub fn next_lift(r: &Runner, st: &State, earliest: i64, effort: &mut Effort) -> 
 /// `next_lift` with `last_rest` (days beyond the earliest start that the
 /// previous lift waited) as the rest search's first guess, since rests grow
 /// gradually from lift to lift; also returns the state on the start day.
-fn next_lift_after(
+pub(crate) fn next_lift_after(
     r: &Runner,
     st: &State,
     earliest: i64,
