@@ -495,3 +495,17 @@ fn scale_bar(c: &mut Canvas, f: &Frame, n: f64, y: f32) {
     c.text_center(f.bx + 5.0 * seg, y + 4.0, 6.5, false, &format!("{length:.0} m"));
     c.text(f.bx + 5.0 * seg + 6.0, y + 1.0, 7.0, true, &format!("1:{n:.0}"));
 }
+
+#[cfg(test)]
+mod tests {
+    #[test]
+    fn the_section_is_drawn_at_the_largest_standard_scale_that_fits() {
+        // Hand calculation: 57 m × 29.5 m in 239 × 118 mm allows 4.19 and
+        // 4.00 mm per m; 1:250 is 4 mm per m (fits), 1:200 is 5 (does not).
+        assert_eq!(super::drawing_scale(57.0, 29.5, 239.0, 118.0), 250.0);
+        // 65 m wide allows 3.68 mm per m: 1:250 no longer fits, 1:500 does.
+        assert_eq!(super::drawing_scale(65.0, 29.5, 239.0, 118.0), 500.0);
+        // A small section: 20 m × 10 m in the same box, 11.8 mm per m: 1:100.
+        assert_eq!(super::drawing_scale(20.0, 10.0, 239.0, 118.0), 100.0);
+    }
+}
