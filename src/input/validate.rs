@@ -684,4 +684,3 @@ fn instruments(c: &mut Check, raw: &[RawInstrument], info: &ProjectInfo, g: &Gro
     }
     out
 }
-
