@@ -1,7 +1,9 @@
-//! Writes examples/kestrel-fen-readings.csv, the INVENTED readings of the
-//! demo site: the engine run along the as-built record of the first three
-//! lifts with cv and ch × 0.6 (the "true" clay consolidates more slowly
-//! than the design assumed) and seeded noise.
+//! Writes engine-readings.csv (in the current folder), INVENTED readings of
+//! the demo site made by fillpace's own engine: the engine run along the
+//! as-built record of the first three lifts with cv and ch × 0.6 and seeded
+//! noise. For experiments only: the demo file examples/kestrel-fen-readings.csv
+//! comes from the independent textbook model (tests/truth/), because an
+//! engine must not be judged by readings it made itself.
 //!
 //!     cargo run --release --example demo-readings
 
@@ -31,7 +33,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         instrument's units. Rows with id `fill` are the as-built crest height\n\
         above original ground, m.";
     let text = readings_csv(&p, &recipe, comment);
-    fillpace::output::write_atomic(std::path::Path::new("examples/kestrel-fen-readings.csv"), text.as_bytes())?;
-    println!("wrote examples/kestrel-fen-readings.csv ({} rows)", text.lines().count());
+    fillpace::output::write_atomic(std::path::Path::new("engine-readings.csv"), text.as_bytes())?;
+    println!("wrote engine-readings.csv ({} rows)", text.lines().count());
     Ok(())
 }

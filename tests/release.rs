@@ -144,34 +144,13 @@ fn a_true_rise_of_2_5_kpa_per_week_is_detected_and_distress_stops_filling() {
 }
 
 #[test]
-fn pore_pressure_rising_under_constant_load_holds_with_that_reason() {
-    let (dir, project, _) = scratch();
-    let readings = dir.path().join("rising.csv");
-    std::fs::write(&readings, synthetic(1.0, "2027-06-20T09:00", 8.0)).unwrap();
-    let out = release(&project, &readings, "0.5", &["--json"]);
-    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
-    let r = json_result(&out.stdout);
-    assert_ne!(r["recommendation"], "criteria-met");
-    let rule = r["rules"]
-        .as_array()
-        .unwrap()
-        .iter()
-        .find(|x| x["name"] == "pore pressure rising under constant load")
-        .unwrap()
-        .clone();
-    assert_eq!(rule["verdict"], "fail", "{rule}");
-    // 8 kPa added over 12 days is 4.7 kPa/week before dissipation.
-    assert!(rule["value"].as_f64().unwrap() > 1.0);
-}
-
-#[test]
 fn readings_that_match_a_safe_prediction_release() {
     // Readings made with the project's own parameters, checked three weeks
     // after lift 2 for a thin lift: every rule passes.
     let (dir, project, _) = scratch();
     let readings = dir.path().join("matching.csv");
     std::fs::write(&readings, synthetic(1.0, "2027-06-10T09:00", 0.0)).unwrap();
-    let out = release(&project, &readings, "0.25", &["--json"]);
+    let out = release(&project, &readings, "0.5", &["--json"]);
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     let r = json_result(&out.stdout);
     assert_eq!(r["recommendation"], "criteria-met", "{}", serde_json::to_string_pretty(&r["reasons"]).unwrap());
@@ -186,7 +165,10 @@ fn plan_from_readings_starts_after_the_hold_point() {
     let r = json_result(&out.stdout);
     let first = r["stages"][0]["start"].as_str().unwrap();
     assert!(first > "2027-07-05", "first stage {first}");
-    assert!((r["stages"][0]["height_after_m"].as_f64().unwrap() - 5.75) > 0.0);
+    // The first re-planned lift starts from the as-built crest (5.75 m) and
+    // is a lift the project allows: lift_min_m 0.5 to lift_max_m 2.5.
+    let h = r["stages"][0]["height_after_m"].as_f64().unwrap();
+    assert!((5.75 + 0.5 - 1e-9..=5.75 + 2.5 + 1e-9).contains(&h), "first lift to {h} m");
     let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
     assert!(v["project"]["source"].as_str().unwrap().contains("re-planned from the hold point"));
 }

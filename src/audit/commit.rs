@@ -158,8 +158,10 @@ mod tests {
             );
             assert!(r.is_err(), "{stage:?}");
             assert_eq!(std::fs::read(&log).unwrap(), before, "log changed after a crash at {stage:?}");
-            let mut names: Vec<String> =
-                std::fs::read_dir(dir.path()).unwrap().map(|e| e.unwrap().file_name().to_string_lossy().into()).collect();
+            let mut names: Vec<String> = std::fs::read_dir(dir.path())
+                .unwrap()
+                .map(|e| e.unwrap().file_name().to_string_lossy().into())
+                .collect();
             names.sort();
             assert_eq!(names, ["log.jsonl", "r1.pdf"], "left behind after {stage:?}");
         }

@@ -120,13 +120,15 @@ pub fn parse(bytes: &[u8], file: &str) -> Result<(Verified, Vec<Entry>)> {
         prev = sha256_hex(line);
         entries.push(Entry { number: n, line_sha256: prev.clone(), fields });
     }
-    let v = Verified { file: file.to_string(), entries: entries.len(), last_sha256: prev, records: vec![], anchor: None };
+    let v =
+        Verified { file: file.to_string(), entries: entries.len(), last_sha256: prev, records: vec![], anchor: None };
     Ok((v, entries))
 }
 
 /// Check one line (entry `n`, previous line's hash `prev`); its fields.
 fn check_line(line: &[u8], n: usize, prev: &str, file: &str) -> Result<Map<String, Value>> {
-    let text = std::str::from_utf8(line).map_err(|_| broken(file, n, "is not UTF-8 text: the log was damaged".into()))?;
+    let text =
+        std::str::from_utf8(line).map_err(|_| broken(file, n, "is not UTF-8 text: the log was damaged".into()))?;
     let cut = text.rfind(HASH_KEY).filter(|k| text.len() == k + HASH_KEY.len() + 66 && text.ends_with("\"}"));
     let Some(cut) = cut else {
         return Err(broken(file, n, "does not end in its own sha256: the entry is torn or was edited".into()));
@@ -139,7 +141,11 @@ fn check_line(line: &[u8], n: usize, prev: &str, file: &str) -> Result<Map<Strin
     let fields: Map<String, Value> = serde_json::from_str(&body)
         .map_err(|e| broken(file, n, format!("is not a complete JSON object ({e}): the entry was edited")))?;
     if fields.get("entry").and_then(Value::as_u64) != Some(n as u64) {
-        return Err(broken(file, n, format!("does not carry entry number {n}: entries were removed, inserted or edited")));
+        return Err(broken(
+            file,
+            n,
+            format!("does not carry entry number {n}: entries were removed, inserted or edited"),
+        ));
     }
     if fields.get("prev_sha256").and_then(Value::as_str) != Some(prev) {
         return Err(broken(

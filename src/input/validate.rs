@@ -717,4 +717,3 @@ fn instruments(c: &mut Check, raw: &[RawInstrument], info: &ProjectInfo, g: &Gro
     }
     out
 }
-

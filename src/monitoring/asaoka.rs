@@ -211,14 +211,10 @@ pub fn plates_asaoka(p: &Project, engine: &Engine, r: &Readings) -> Vec<(String,
         .map(|(k, inst)| {
             let pts: Vec<(f64, f64)> = super::trends::series_from(r, k, since);
             let (t, s): (Vec<f64>, Vec<f64>) = pts.into_iter().unzip();
-            (
-                inst.id.clone(),
-                asaoka(&t, &s, p.monitoring.asaoka_interval_days, drainage_at(p, engine, inst.offset_m)),
-            )
+            (inst.id.clone(), asaoka(&t, &s, p.monitoring.asaoka_interval_days, drainage_at(p, engine, inst.offset_m)))
         })
         .collect()
 }
-
 
 #[cfg(test)]
 mod tests {

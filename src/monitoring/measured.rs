@@ -91,11 +91,8 @@ pub fn measured_state(engine: &Engine, st: &State, tips: &[Tip]) -> State {
             let u = if g < 0.0 { dsv - (1.0 + g) * (dsv - um).max(0.0) } else { (1.0 - g) * um };
             let extra = u - um;
             cs.u[i] = u;
-            cs.smax[i] = if extra > 0.0 {
-                (cs.smax[i] - extra).max(init.smax[i])
-            } else {
-                cs.smax[i].max(col.sigma_eff(cs, i))
-            };
+            cs.smax[i] =
+                if extra > 0.0 { (cs.smax[i] - extra).max(init.smax[i]) } else { cs.smax[i].max(col.sigma_eff(cs, i)) };
         }
     }
     out

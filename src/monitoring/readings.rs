@@ -156,23 +156,25 @@ pub fn parse(text: &str, file: &str, p: &Project) -> Result<Readings> {
     let mut last: Vec<Option<(NaiveDateTime, usize)>> = vec![None; p.instruments.len() + 1];
     let mut header_seen = false;
     let top = p.max_height_m();
+    let body = text.trim_start_matches('\u{feff}');
     let mut rdr = csv::ReaderBuilder::new()
         .has_headers(false)
         .flexible(true)
         .comment(Some(b'#'))
         .trim(csv::Trim::All)
-        .from_reader(text.trim_start_matches('\u{feff}').as_bytes());
+        .from_reader(body.as_bytes());
+    let lines = LineOf::new(body);
     let mut latest: Option<(NaiveDateTime, usize)> = None;
     for rec in rdr.records() {
         let rec = match rec {
             Ok(r) => r,
             Err(e) => {
-                let line = e.position().map_or(0, |p| p.line() as usize);
+                let line = e.position().map_or(0, |p| lines.at(p.byte()));
                 bad(&mut issues, line, "", format!("is not a readable CSV row: {e}"));
                 break;
             }
         };
-        let line = rec.position().map_or(0, |p| p.line() as usize);
+        let line = rec.position().map_or(0, |p| lines.at(p.byte()));
         let fields: Vec<&str> = rec.iter().collect();
         if fields.iter().all(|f| f.is_empty()) {
             continue;
@@ -180,7 +182,12 @@ pub fn parse(text: &str, file: &str, p: &Project) -> Result<Readings> {
         if !header_seen {
             let norm: String = fields.iter().map(|f| f.to_ascii_lowercase()).collect::<Vec<_>>().join(",");
             if norm != HEADER {
-                bad(&mut issues, line, "", format!("the first row must be the header `{HEADER}`, found `{}`", fields.join(",")));
+                bad(
+                    &mut issues,
+                    line,
+                    "",
+                    format!("the first row must be the header `{HEADER}`, found `{}`", fields.join(",")),
+                );
                 break;
             }
             header_seen = true;
@@ -397,6 +404,34 @@ pub fn parse(text: &str, file: &str, p: &Project) -> Result<Readings> {
     })
 }
 
+/// 1-based line numbers of a text's rows. The csv reader's position of a
+/// row that follows comment lines is where the comments begin, so the
+/// line is the first one at or after that byte that is neither blank nor a
+/// comment.
+struct LineOf<'a> {
+    text: &'a str,
+    starts: Vec<usize>,
+}
+
+impl<'a> LineOf<'a> {
+    fn new(text: &'a str) -> Self {
+        let starts = std::iter::once(0).chain(text.match_indices('\n').map(|(i, _)| i + 1)).collect();
+        LineOf { text, starts }
+    }
+
+    fn at(&self, byte: u64) -> usize {
+        let mut k = self.starts.partition_point(|s| *s as u64 <= byte).max(1) - 1;
+        while k + 1 < self.starts.len() {
+            let row = self.text[self.starts[k]..self.starts[k + 1]].trim();
+            if !(row.is_empty() || row.starts_with('#')) {
+                break;
+            }
+            k += 1;
+        }
+        k + 1
+    }
+}
+
 /// Longest gap between a row and the latest earlier row that is still
 /// plausible, days (common practice reads at least monthly during works).
 const MAX_GAP_DAYS: i64 = 366;
@@ -410,7 +445,8 @@ fn implausible_time(p: &Project, time: NaiveDateTime, latest: Option<(NaiveDateT
     }
     let (t, l) = latest?;
     let gap = (time - t).num_days();
-    (gap > MAX_GAP_DAYS).then(|| format!("is {gap} days after the latest earlier row (line {l}, {t}): more than {MAX_GAP_DAYS} days"))
+    (gap > MAX_GAP_DAYS)
+        .then(|| format!("is {gap} days after the latest earlier row (line {l}, {t}): more than {MAX_GAP_DAYS} days"))
 }
 
 /// Why a reading (in SI) is physically impossible for its instrument: a

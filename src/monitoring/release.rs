@@ -268,7 +268,13 @@ fn check_lift(p: &Project, height_now: f64, lift_m: f64) -> Result<()> {
 }
 
 /// FS now and after a lift of `lift_m` from state `st` (rested to `day`).
-fn fs_pair(runner: &Runner, st: &State, day: Option<i64>, lift_m: f64, effort: &mut Effort) -> Result<(f64, f64, State, String)> {
+fn fs_pair(
+    runner: &Runner,
+    st: &State,
+    day: Option<i64>,
+    lift_m: f64,
+    effort: &mut Effort,
+) -> Result<(f64, f64, State, String)> {
     let now = runner.stability(st, effort)?.governing_fs();
     let mut rested = st.clone();
     if let Some(d) = day {
@@ -380,11 +386,19 @@ pub fn check(p: &Project, r: &Readings, lift_m: f64, on: Option<NaiveDate>) -> R
 /// instrument's RMS misfit within their limits.
 fn explains(p: &Project, fit: &Fit, st: &[InstrumentStatus]) -> bool {
     let m = &p.monitoring;
-    fit.chi2_per_dof <= m.fit_chi2_limit && st.iter().all(|s| s.misfit_sd.is_none_or(|x| x <= m.instrument_misfit_limit))
+    fit.chi2_per_dof <= m.fit_chi2_limit
+        && st.iter().all(|s| s.misfit_sd.is_none_or(|x| x <= m.instrument_misfit_limit))
 }
 
 /// The level and its reasons.
-fn level(p: &Project, fs_now: f64, rules: &[Rule], short: &[String], explains: bool, fit: &Fit) -> (Level, Vec<String>) {
+fn level(
+    p: &Project,
+    fs_now: f64,
+    rules: &[Rule],
+    short: &[String],
+    explains: bool,
+    fit: &Fit,
+) -> (Level, Vec<String>) {
     let m = &p.monitoring;
     let failed = |name: &str| rules.iter().any(|r| r.name == name && r.verdict == Verdict::Fail);
     let mut stop = Vec::new();

@@ -121,7 +121,8 @@ fn readings_convert_units_and_flag_suspect_values() {
 #[test]
 fn a_quoted_logger_export_is_read_and_lines_are_still_named() {
     let p = crate::input::parse(crate::app::DEMO, "demo").expect("demo validates");
-    let text = "\"instrument\",\"time\",\"value\"\n\"fill\",\"2027-04-05\",\"0\"\n\"SP1\",\"2027-04-10T09:00\",\"2.300\"\n";
+    let text =
+        "\"instrument\",\"time\",\"value\"\n\"fill\",\"2027-04-05\",\"0\"\n\"SP1\",\"2027-04-10T09:00\",\"2.300\"\n";
     let r = parse(text, "logger.csv", &p).expect("a quoted export is valid");
     assert!((r.readings[0].value - 0.115).abs() < 1e-9);
     let bad = format!("{text}\"SP1\",\"2027-04-11T09:00\",\"abc\"\n");

@@ -76,7 +76,12 @@ fn pore_rise(p: &Project, r: &Readings) -> Rule {
         .filter_map(|(k, i)| regress(&series_from(r, k, from), m.piezometer_sd_kpa).map(|l| (l, i.id.clone())))
         .max_by(|a, b| (a.0.slope - Z99 * a.0.se).total_cmp(&(b.0.slope - Z99 * b.0.se)));
     let Some((l, id)) = worst else {
-        return Rule::not_evaluated(PORE_RISE, m.pore_rise_limit_kpa_per_week, "kPa/week", "fewer than three piezometer readings since the last lift ended");
+        return Rule::not_evaluated(
+            PORE_RISE,
+            m.pore_rise_limit_kpa_per_week,
+            "kPa/week",
+            "fewer than three piezometer readings since the last lift ended",
+        );
     };
     let (rate, low) = (7.0 * l.slope, 7.0 * (l.slope - Z99 * l.se));
     let verdict = if rate > m.pore_rise_limit_kpa_per_week && low > 0.0 { Verdict::Fail } else { Verdict::Pass };
@@ -175,8 +180,9 @@ fn acceleration(p: &Project, r: &Readings) -> Rule {
 
 /// Δu/Δσv of the last lift at each piezometer: the change of pore pressure
 /// from the last reading before the lift began to the first after it ended,
-/// over the vertical stress the lift added at the tip (Boussinesq-type
-/// elastic increments of the fill at the as-built heights, no make-up).
+/// over the vertical stress the lift added at the tip (elastic increments
+/// of the fill placed: the crest height plus the settlement made up, read
+/// on the plate nearest the centreline, at the lift's start and end).
 fn lift_ratio(p: &Project, r: &Readings) -> Rule {
     let name = "Δu/Δσv of the last lift";
     let limit = p.monitoring.pore_pressure_ratio_limit;
@@ -184,9 +190,15 @@ fn lift_ratio(p: &Project, r: &Readings) -> Rule {
         return Rule::not_evaluated(name, limit, "", "no lift in the fill record");
     };
     let e = &p.embankment;
+    let plate: Vec<(f64, f64)> = of_kind(p, InstrumentKind::SettlementPlate)
+        .min_by(|a, b| a.1.offset_m.abs().total_cmp(&b.1.offset_m.abs()))
+        .map(|(k, _)| r.of(k).map(|x| (x.day, x.value)).collect())
+        .unwrap_or_default();
+    let settled = |t: f64| plate.iter().rev().find(|x| x.0 <= t + 1e-9).map_or(0.0, |x| x.1);
+    let placed = |t: f64| r.height_at(t) + settled(t);
     let dsv = |x: f64, z: f64| {
         let at = |h: f64| load::stress(&load::profile(e, h), e.fill_unit_weight_kn_m3, x.abs(), z).sz;
-        at(r.height_at(end)) - at(r.height_at(start))
+        at(placed(end)) - at(placed(start))
     };
     let best = of_kind(p, InstrumentKind::Piezometer)
         .filter_map(|(k, i)| {
@@ -203,7 +215,9 @@ fn lift_ratio(p: &Project, r: &Readings) -> Rule {
             v,
             limit,
             "",
-            format!("largest at {id}; near 1 the clay at the tip has passed σ'p and is yielding (Leroueil et al. 1985)"),
+            format!(
+                "largest at {id}; near 1 the clay at the tip has passed σ'p and is yielding (Leroueil et al. 1985)"
+            ),
         ),
         None => Rule::not_evaluated(name, limit, "", "no piezometer read both before and after the last lift"),
     }
@@ -231,7 +245,12 @@ fn lateral_ratio(p: &Project, r: &Readings) -> Rule {
         return Rule::not_evaluated(name, limit, "", "no plate readings span the last lift");
     };
     if ds < 2.0 * p.monitoring.settlement_noise_m {
-        return Rule::not_evaluated(name, limit, "", "settlement since the last lift is within twice the reading noise");
+        return Rule::not_evaluated(
+            name,
+            limit,
+            "",
+            "settlement since the last lift is within twice the reading noise",
+        );
     }
     let best = of_kind(p, InstrumentKind::LateralMarker)
         .filter_map(|(k, i)| increment(k).map(|d| (d / ds, i.id.clone())))

@@ -473,10 +473,7 @@ pub fn release(rep: &ReleaseReport) -> String {
         out.push_str(&format!("warning: {at}{who}{}\n", w.message));
     }
     out.push_str(&format!("\n{}\n", super::record_sentence(rep)));
-    out.push_str(&format!(
-        "Log now: {} entries, head {}.\n",
-        rep.record, rep.log_head_after
-    ));
+    out.push_str(&format!("Log now: {} entries, head {}.\n", rep.record, rep.log_head_after));
     out.push_str(&cautions_block());
     out
 }
@@ -484,8 +481,21 @@ pub fn release(rep: &ReleaseReport) -> String {
 fn instrument_table(c: &crate::monitoring::release::ReleaseCheck) -> Table {
     use crate::model::InstrumentKind as K;
     let mut t = Table::new(&[
-        "instrument", "kind", "x m", "z m", "readings", "suspect", "since lift", "last reading", "measured",
-        "predicted", "calibrated", "misfit", "Δu/Δσv", "rate mm/d", "monitoring",
+        "instrument",
+        "kind",
+        "x m",
+        "z m",
+        "readings",
+        "suspect",
+        "since lift",
+        "last reading",
+        "measured",
+        "predicted",
+        "calibrated",
+        "misfit",
+        "Δu/Δσv",
+        "rate mm/d",
+        "monitoring",
     ]);
     for s in &c.instruments {
         let (scale, unit) = match s.kind {
@@ -516,17 +526,24 @@ fn instrument_table(c: &crate::monitoring::release::ReleaseCheck) -> Table {
 
 /// `fillpace log verify`.
 pub fn log_verified(v: &crate::audit::Verified) -> String {
-    let mut out =
-        format!("{}: {} entries, hash chain intact (head {}).\n", v.file, v.entries, v.last_sha256);
+    let mut out = format!("{}: {} entries, hash chain intact (head {}).\n", v.file, v.entries, v.last_sha256);
     if let Some(a) = &v.anchor {
-        out.push_str(&format!("Record {} is in the log and the log before it ends in the head it carries ({}).\n", a.record, a.head));
+        out.push_str(&format!(
+            "Record {} is in the log and the log before it ends in the head it carries ({}).\n",
+            a.record, a.head
+        ));
     }
     for r in &v.records {
-        out.push_str(&format!("record {} {}: {}\n", r.entry, r.record_file, match r.state {
-            crate::audit::RecordState::Matches => "PDF matches its logged SHA-256",
-            crate::audit::RecordState::Changed => "PDF CHANGED since it was logged",
-            crate::audit::RecordState::Missing => "PDF MISSING",
-        }));
+        out.push_str(&format!(
+            "record {} {}: {}\n",
+            r.entry,
+            r.record_file,
+            match r.state {
+                crate::audit::RecordState::Matches => "PDF matches its logged SHA-256",
+                crate::audit::RecordState::Changed => "PDF CHANGED since it was logged",
+                crate::audit::RecordState::Missing => "PDF MISSING",
+            }
+        ));
     }
     out
 }

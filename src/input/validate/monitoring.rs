@@ -35,7 +35,13 @@ pub(super) fn monitoring(c: &mut Check, r: Option<&RawMonitoring>, instruments: 
             Low::Excl(0.0),
             1000.0,
         ),
-        lateral_ratio_limit: num("lateral_ratio_limit", r.lateral_ratio_limit, d.lateral_ratio_limit, Low::Excl(0.0), 5.0),
+        lateral_ratio_limit: num(
+            "lateral_ratio_limit",
+            r.lateral_ratio_limit,
+            d.lateral_ratio_limit,
+            Low::Excl(0.0),
+            5.0,
+        ),
         rate_window_days: num("rate_window_days", r.rate_window_days, d.rate_window_days, Low::Incl(1.0), 90.0),
         trend_window_days: num("trend_window_days", r.trend_window_days, d.trend_window_days, Low::Incl(3.0), 180.0),
         pore_pressure_ratio_limit: num(

@@ -29,7 +29,10 @@ pub fn decision_page(c: &mut Canvas, r: &ReleaseReport) {
         format!("Crest now {:.2} m; proposed lift {:.2} m to {:.2} m", k.height_now_m, k.lift_m, k.height_after_m),
         format!("Placement {} to {}", k.lift_start, k.lift_end),
         format!("FS now: model {:.2}, measured pore pressures {:.2}", s.now_model, s.now_measured),
-        format!("FS after the lift: model {:.2}, measured {:.2}; target {:.2}", s.next_model, s.next_measured, k.fs_target),
+        format!(
+            "FS after the lift: model {:.2}, measured {:.2}; target {:.2}",
+            s.next_model, s.next_measured, k.fs_target
+        ),
         format!("Log before this record: {} entries, head {}", r.log_entries_before, r.log_head_before),
         format!("Project SHA-256 {}", r.project_sha256),
         format!("Readings SHA-256 {}", k.readings_sha256),
@@ -67,7 +70,13 @@ pub fn decision_page(c: &mut Canvas, r: &ReleaseReport) {
     y = c.paragraph(MARGIN, y + 1.0, 270.0, 7.0, &crate::report::fit_sentence(k)) + 1.0;
     y = c.paragraph(MARGIN, y + 1.0, 270.0, 7.0, &crate::report::conditions_sentence(k)) + 1.0;
     y = signature_block(c, y + 2.0);
-    c.text(MARGIN, y + 3.0, 6.8, false, "Instruments, Asaoka's forecast, warnings and cautions: page 2. Readings against the model: page 3.");
+    c.text(
+        MARGIN,
+        y + 3.0,
+        6.8,
+        false,
+        "Instruments, Asaoka's forecast, warnings and cautions: page 2. Readings against the model: page 3.",
+    );
 }
 
 /// Page 2: the instrument table, Asaoka's forecast, warnings, cautions.
