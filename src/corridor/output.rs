@@ -91,7 +91,10 @@ pub fn text(p: &Programme, source: &str) -> String {
     {
         out.push_str(&format!("\nWARNING: {}", wrap(warning, 76, "  ")));
     }
-    out.push('\n');
+    out.push_str("\n\nInputs (SHA-256):\n");
+    for i in &p.inputs {
+        out.push_str(&format!("  {}  {}\n", i.sha256, i.file));
+    }
     out.push_str(&cautions_block());
     out
 }
