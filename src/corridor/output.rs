@@ -170,7 +170,7 @@ pub fn csv(p: &Programme) -> String {
                 v.surcharge_m3,
                 v.platform_m3
             ));
-            if let Some(rel) = w.release {
+            if let Some(rel) = w.release.filter(|rel| (*rel - w.end).num_days() > 1) {
                 let rest = (rel - w.end).num_days() - 1;
                 out.push_str(&format!(
                     "{},rest,{},{},{},{rest},days,,,,,,,\n",
