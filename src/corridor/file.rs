@@ -3,7 +3,7 @@
 //! changed by their key-path overrides). Every message names the corridor
 //! file or the section file, the key and, where known, the line.
 
-use super::{Corridor, Resources, SectionSpec, Source};
+use super::{Corridor, InputFile, Resources, SectionSpec, Source};
 use crate::error::{Error, InputIssue, Result};
 use crate::input::spans::LineMap;
 use crate::input::vary::Document;
@@ -100,8 +100,14 @@ pub fn parse(text: &str, file: &str, dir: &Path, read: Reader) -> Result<Corrido
     }
     let start = raw.corridor.start_date;
     let mut sections = Vec::new();
+    let mut inputs = vec![InputFile { file: file.to_string(), sha256: crate::report::sha256_hex(text.as_bytes()) }];
     for (i, s) in raw.section.iter().enumerate() {
-        sections.push(section(s, i, (start, &calendar), (dir, read), &|k, m| bad(k, m))?);
+        let (spec, sha256) = section(s, i, (start, &calendar), (dir, read), &|k, m| bad(k, m))?;
+        let used = InputFile { file: spec.project_file.clone(), sha256 };
+        if !inputs.contains(&used) {
+            inputs.push(used);
+        }
+        sections.push(spec);
     }
     if resources.platform_thickness_m > 0.0 {
         check_platform(&sections, resources.platform_thickness_m, &|k, m| bad(k, m))?;
@@ -116,6 +122,7 @@ pub fn parse(text: &str, file: &str, dir: &Path, read: Reader) -> Result<Corrido
         start_date: start,
         resources,
         sections,
+        inputs,
     })
 }
 
@@ -213,7 +220,7 @@ fn section(
     (start, calendar): (NaiveDate, &toml::Table),
     (dir, read): (&Path, Reader),
     bad: &dyn Fn(&str, String) -> Error,
-) -> Result<SectionSpec> {
+) -> Result<(SectionSpec, String)> {
     let key = format!("section[{i}]");
     let path = dir.join(&s.project);
     let text = read(&path).map_err(|e| {
@@ -250,7 +257,7 @@ fn section(
             ));
         }
     }
-    Ok(SectionSpec {
+    let spec = SectionSpec {
         name: s.name.clone(),
         from_m: s.from_m,
         to_m: s.to_m,
@@ -261,7 +268,8 @@ fn section(
         earliest_start: s.earliest_start,
         required_finish: s.required_finish,
         own_calendar: !own.is_empty(),
-    })
+    };
+    Ok((spec, crate::report::sha256_hex(text.as_bytes())))
 }
 
 /// The working platform is the bottom of the fill: it must not be thicker
@@ -302,5 +310,44 @@ fn flatten(t: &toml::Table, prefix: &str, out: &mut Vec<(String, toml::Value)>) 
             toml::Value::Table(inner) => flatten(inner, &path, out),
             v => out.push((path, v.clone())),
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn raw(name: &str, from_m: f64, to_m: f64) -> RawSection {
+        RawSection {
+            name: name.into(),
+            from_m,
+            to_m,
+            project: "p.toml".into(),
+            set: None,
+            calendar: None,
+            priority: None,
+            earliest_start: None,
+            required_finish: None,
+        }
+    }
+
+    #[test]
+    fn chainages_may_touch_but_not_overlap() {
+        let mut issues = Vec::new();
+        check_chainages(&[raw("a", 0.0, 100.0), raw("b", 100.0, 200.0)], &mut issues);
+        assert!(issues.is_empty(), "{issues:?}");
+        check_chainages(&[raw("a", 0.0, 100.0), raw("b", 99.0, 200.0), raw("c", 300.0, 250.0)], &mut issues);
+        let keys: Vec<&str> = issues.iter().map(|i| i.0.as_str()).collect();
+        assert_eq!(keys, ["section[1].from_m", "section[2].to_m"]);
+    }
+
+    #[test]
+    fn bare_and_quoted_override_keys_are_the_same_path() {
+        let t: toml::Table =
+            "\"embankment.design_height_m\" = 5\nground.layers = 1\n[drains]\nspacing_m = 2".parse().unwrap();
+        let mut out = Vec::new();
+        flatten(&t, "", &mut out);
+        let keys: Vec<&str> = out.iter().map(|(k, _)| k.as_str()).collect();
+        assert_eq!(keys, ["drains.spacing_m", "embankment.design_height_m", "ground.layers"]);
     }
 }

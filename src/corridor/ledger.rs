@@ -103,3 +103,31 @@ impl Ledger {
         }
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::corridor::Source;
+
+    #[test]
+    fn bookings_fill_the_day_and_no_further() {
+        let p = crate::input::parse(include_str!("../../tests/data/stiff.toml"), "stiff").unwrap();
+        // 2030-01-07 is a Monday: days 0–4 workable, 5–6 a weekend.
+        let cal = Calendar::new(p.info.start_date, &p.construction);
+        let res = Resources {
+            placing_crews: Some(1),
+            supply: vec![Source { name: "pit".into(), m3_per_day: 1000.0, from: None }],
+            ..Resources::default()
+        };
+        let mut l = Ledger::new(&res, &cal);
+        assert_eq!((l.capacity(0), l.capacity(5)), (1000.0, 0.0));
+        let fill = |m3| Need { fill_m3: m3, crew: false, rig: false };
+        l.book(&[0], fill(600.0));
+        assert!(l.fits(0, fill(400.0)) && !l.fits(0, fill(400.1)));
+        let crew = Need { fill_m3: 0.0, crew: true, rig: false };
+        l.book(&[1], crew);
+        assert!(!l.fits(1, crew) && l.fits(2, crew));
+        // No rig limit given: rigs unlimited.
+        assert!(l.fits(1, Need { fill_m3: 0.0, crew: false, rig: true }));
+    }
+}

@@ -43,6 +43,15 @@ pub struct Corridor {
     pub resources: Resources,
     /// Sections in file order (chainage ranges do not overlap).
     pub sections: Vec<SectionSpec>,
+    /// Every file read: the corridor file, then each section file once.
+    pub inputs: Vec<InputFile>,
+}
+
+/// A file used and the SHA-256 of its bytes (hex).
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct InputFile {
+    pub file: String,
+    pub sha256: String,
 }
 
 /// Shared resources; `None` means unlimited.

@@ -91,7 +91,10 @@ pub fn text(p: &Programme, source: &str) -> String {
     {
         out.push_str(&format!("\nWARNING: {}", wrap(warning, 76, "  ")));
     }
-    out.push('\n');
+    out.push_str("\n\nInputs (SHA-256):\n");
+    for i in &p.inputs {
+        out.push_str(&format!("  {}  {}\n", i.sha256, i.file));
+    }
     out.push_str(&cautions_block());
     out
 }
@@ -167,7 +170,7 @@ pub fn csv(p: &Programme) -> String {
                 v.surcharge_m3,
                 v.platform_m3
             ));
-            if let Some(rel) = w.release {
+            if let Some(rel) = w.release.filter(|rel| (*rel - w.end).num_days() > 1) {
                 let rest = (rel - w.end).num_days() - 1;
                 out.push_str(&format!(
                     "{},rest,{},{},{},{rest},days,,,,,,,\n",

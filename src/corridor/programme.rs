@@ -40,6 +40,8 @@ pub struct Programme {
     pub totals: Totals,
     pub weeks: Vec<Week>,
     pub resources: ResourceSummary,
+    /// Every file used, with its SHA-256.
+    pub inputs: Vec<super::InputFile>,
     pub warnings: Vec<String>,
 }
 
@@ -254,6 +256,7 @@ fn assemble(
         resources: resource_summary(c, &daily),
         totals,
         sections,
+        inputs: c.inputs.clone(),
         warnings,
     })
 }
@@ -347,11 +350,10 @@ impl Daily {
         }
         if rolling {
             let mut stock = 0.0;
-            for k in 0..n {
-                stock += freed[k];
-                let take = stock.min(d.placed[k]);
-                d.reused[k] = take;
-                stock -= take;
+            for ((reused, placed), freed) in d.reused.iter_mut().zip(&d.placed).zip(&freed) {
+                stock += freed;
+                *reused = stock.min(*placed);
+                stock -= *reused;
             }
         }
         d

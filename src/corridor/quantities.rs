@@ -100,13 +100,13 @@ pub fn weekly(start: chrono::NaiveDate, placed: &[f64], reused: &[f64], capacity
     use chrono::Datelike;
     let last = placed.iter().rposition(|v| *v > 0.0).map_or(0, |k| k + 1);
     let mut weeks: Vec<Week> = Vec::new();
-    for k in 0..last {
+    for (k, placed_k) in placed.iter().enumerate().take(last) {
         let date = start + chrono::Duration::days(k as i64);
         if k == 0 || date.weekday() == chrono::Weekday::Mon {
             weeks.push(Week { start: date, placed_m3: 0.0, reused_m3: 0.0, supply_m3: Some(0.0) });
         }
         let Some(w) = weeks.last_mut() else { continue };
-        w.placed_m3 += placed[k];
+        w.placed_m3 += placed_k;
         w.reused_m3 += reused.get(k).copied().unwrap_or(0.0);
         let cap = capacity(k as i64);
         w.supply_m3 = w.supply_m3.map(|s| s + cap).filter(|s| s.is_finite());
