@@ -389,7 +389,7 @@ fn risk(
     if let Some(out) = pdf {
         output::write_atomic(out, &report::pdf::risk(&rep, report::today())?)?;
     }
-    if json { report::json::risk(&p, &doc.file, &result) } else { Ok(report::text::risk(&rep)) }
+    if json { report::json::risk(&p, &doc.file, &result, &[]) } else { Ok(report::text::risk(&rep)) }
 }
 
 /// The bundled demo corridor (examples/kestrel-fen-corridor.toml).
@@ -422,7 +422,7 @@ fn corridor_cmd(path: Option<&Path>, csv: Option<&Path>, ics: Option<&Path>, jso
     let total = 2 * c.sections.len();
     let p = with_counter(total, "planning sections", |tick| crate::corridor::programme::run(&c, tick))?;
     if let Some(out) = csv {
-        output::write_atomic(out, crate::corridor::output::csv(&p).as_bytes())?;
+        output::write_atomic(out, &crate::corridor::output::csv(&p)?)?;
     }
     if let Some(out) = ics {
         output::write_atomic(out, crate::corridor::output::ics(&p).as_bytes())?;

@@ -250,6 +250,7 @@ impl Command {
             Command::Compare { .. } => "compare",
             Command::Risk { .. } => "risk",
             Command::Release { .. } => "release",
+            Command::Corridor { .. } => "corridor",
             Command::Log(LogCommand::Verify { .. }) => "log verify",
             Command::Completions { .. } => "completions",
             Command::Man { .. } => "man",
@@ -267,6 +268,7 @@ impl Command {
             | Command::Compare { json, .. }
             | Command::Risk { json, .. }
             | Command::Release { json, .. }
+            | Command::Corridor { json, .. }
             | Command::Log(LogCommand::Verify { json, .. })
             | Command::Completions { json, .. }
             | Command::Man { json } => *json,

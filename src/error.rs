@@ -84,6 +84,7 @@ impl Error {
             Error::Usage(_) => "usage",
             Error::Write { .. } => "write",
             Error::Computation(_) => "computation",
+            Error::Unbuildable { .. } => "unbuildable",
             Error::DateOutOfRange { .. } => "date-out-of-range",
         }
     }

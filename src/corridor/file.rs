@@ -100,7 +100,7 @@ pub fn parse(text: &str, file: &str, dir: &Path, read: Reader) -> Result<Corrido
     }
     let start = raw.corridor.start_date;
     let mut sections = Vec::new();
-    let mut inputs = vec![InputFile { file: file.to_string(), sha256: crate::report::sha256_hex(text.as_bytes()) }];
+    let mut inputs = vec![InputFile { file: file.to_string(), sha256: crate::hash::sha256_hex(text.as_bytes()) }];
     for (i, s) in raw.section.iter().enumerate() {
         let (spec, sha256) = section(s, i, (start, &calendar), (dir, read), &|k, m| bad(k, m))?;
         let used = InputFile { file: spec.project_file.clone(), sha256 };
@@ -269,7 +269,7 @@ fn section(
         required_finish: s.required_finish,
         own_calendar: !own.is_empty(),
     };
-    Ok((spec, crate::report::sha256_hex(text.as_bytes())))
+    Ok((spec, crate::hash::sha256_hex(text.as_bytes())))
 }
 
 /// The working platform is the bottom of the fill: it must not be thicker

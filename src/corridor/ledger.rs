@@ -47,7 +47,8 @@ impl Ledger {
                 if !calendar.workable(k as i64) {
                     return 0.0;
                 }
-                let d = calendar.date(k as i64);
+                // A day beyond the dates chrono can hold gets no supply.
+                let Ok(d) = calendar.date(k as i64) else { return 0.0 };
                 res.supply.iter().filter(|s| s.from.is_none_or(|f| f <= d)).map(|s| s.m3_per_day).sum()
             })
             .collect();

@@ -4,11 +4,11 @@
 //! on the report module's helpers.
 
 use super::programme::{Programme, SectionResult};
-use super::section::Kind;
+use super::section::{Kind, Work};
 use crate::error::{Error, Result};
 use crate::report::fixed as f;
 use crate::report::text::{Table, cautions_block, wrap};
-use crate::report::{csv::field, ics};
+use crate::report::ics;
 use serde::Serialize;
 
 /// Column headings of the programme table.
@@ -141,48 +141,63 @@ pub fn summary_lines(p: &Programme) -> Vec<String> {
     ]
 }
 
-/// One row per activity: section, kind, start, end, quantity.
-pub fn csv(p: &Programme) -> String {
-    let mut out = String::from(
-        "section,kind,stage,start,end,quantity,unit,thickness_m,height_after_m,fs_end,design_m3,makeup_m3,surcharge_m3,platform_m3\n",
-    );
+/// One row per activity: section, kind, start, end, quantity (after the
+/// caution line, as every CSV of fillpace).
+pub fn csv(p: &Programme) -> Result<Vec<u8>> {
+    let head: Vec<String> = [
+        "section", "kind", "stage", "start", "end", "quantity", "unit", "thickness_m", "height_after_m", "fs_end",
+        "design_m3", "makeup_m3", "surcharge_m3", "platform_m3",
+    ]
+    .map(String::from)
+    .to_vec();
+    let mut rows = Vec::new();
     for s in &p.sections {
         let Some(o) = &s.outcome else { continue };
         for w in &o.works {
-            let (q, unit) = match w.kind {
-                Kind::Drains => (w.drain_m, "m"),
-                Kind::Removal => (w.removed_m3, "m3"),
-                _ => (w.volume.total(), "m3"),
-            };
-            let v = &w.volume;
-            out.push_str(&format!(
-                "{},{},{},{},{},{q:.1},{unit},{:.3},{:.3},{},{:.1},{:.1},{:.1},{:.1}\n",
-                field(&s.name),
-                w.kind.key(),
-                w.stage.map_or(String::new(), |n| n.to_string()),
-                w.start,
-                w.end,
-                w.thickness_m,
-                w.height_after_m,
-                w.fs_end.map_or(String::new(), |x| format!("{x:.3}")),
-                v.design_m3,
-                v.makeup_m3,
-                v.surcharge_m3,
-                v.platform_m3
-            ));
+            rows.push(work_row(&s.name, w));
             if let Some(rel) = w.release.filter(|rel| (*rel - w.end).num_days() > 1) {
                 let rest = (rel - w.end).num_days() - 1;
-                out.push_str(&format!(
-                    "{},rest,{},{},{},{rest},days,,,,,,,\n",
-                    field(&s.name),
+                let mut row = vec![
+                    s.name.clone(),
+                    "rest".into(),
                     w.stage.map_or(String::new(), |n| n.to_string()),
-                    w.end.succ_opt().unwrap_or(w.end),
-                    rel.pred_opt().unwrap_or(rel)
-                ));
+                    w.end.succ_opt().unwrap_or(w.end).to_string(),
+                    rel.pred_opt().unwrap_or(rel).to_string(),
+                    rest.to_string(),
+                    "days".into(),
+                ];
+                row.resize(head.len(), String::new());
+                rows.push(row);
             }
         }
     }
-    out
+    crate::report::csv::table(None, &head, rows)
+}
+
+/// The CSV row of one activity.
+fn work_row(section: &str, w: &Work) -> Vec<String> {
+    let (q, unit) = match w.kind {
+        Kind::Drains => (w.drain_m, "m"),
+        Kind::Removal => (w.removed_m3, "m3"),
+        _ => (w.volume.total(), "m3"),
+    };
+    let v = &w.volume;
+    vec![
+        section.to_string(),
+        w.kind.key().to_string(),
+        w.stage.map_or(String::new(), |n| n.to_string()),
+        w.start.to_string(),
+        w.end.to_string(),
+        format!("{q:.1}"),
+        unit.to_string(),
+        format!("{:.3}", w.thickness_m),
+        format!("{:.3}", w.height_after_m),
+        w.fs_end.map_or(String::new(), |x| format!("{x:.3}")),
+        format!("{:.1}", v.design_m3),
+        format!("{:.1}", v.makeup_m3),
+        format!("{:.1}", v.surcharge_m3),
+        format!("{:.1}", v.platform_m3),
+    ]
 }
 
 /// One calendar: every placement and hold point, the section named in
@@ -195,7 +210,7 @@ pub fn ics(p: &Programme) -> String {
         "CALSCALE:GREGORIAN".into(),
     ];
     let base = format!("{}-{}", ics::slug(&p.reference), p.start_date);
-    let stamp = format!("{}T000000Z", p.start_date.format("%Y%m%d"));
+    let stamp = ics::Stamp::at(crate::report::now_utc());
     let distress = crate::report::cautions().into_iter().find(|c| c.contains("distress")).unwrap_or_default();
     for (i, s) in p.sections.iter().enumerate() {
         let Some(o) = &s.outcome else { continue };

@@ -387,5 +387,5 @@ fn supply_finish(c: &Corridor, book: &Ledger, total_m3: f64) -> Option<NaiveDate
             sum += book.capacity(*k);
             sum >= total_m3 * (1.0 - 1e-12)
         })
-        .map(|k| c.calendar.date(k))
+        .and_then(|k| c.calendar.date(k).ok())
 }

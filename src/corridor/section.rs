@@ -170,13 +170,13 @@ fn prepare(s: &Setup, ledger: &mut Ledger, items: &mut Vec<Work>, earliest: i64)
         let volume = quantities::platform(e, s.platform_m).times(s.length_m);
         let need = Need { fill_m3: volume.total() / n as f64, crew: true, rig: false };
         let days = fit_window(r, ledger, earliest, n, need)?;
-        items.push(work(r, Kind::Platform, days, volume, 0.0));
+        items.push(work(r, Kind::Platform, days, volume, 0.0)?);
         earliest = next_after(r, items.last().expect("just pushed"));
     }
     if let Some((metres, rate)) = s.drains {
         let n = (metres / rate - 1e-9).ceil().max(1.0) as usize;
         let days = fit_window(r, ledger, earliest, n, Need { fill_m3: 0.0, crew: false, rig: true })?;
-        items.push(work(r, Kind::Drains, days, Volumes::default(), metres));
+        items.push(work(r, Kind::Drains, days, Volumes::default(), metres)?);
         earliest = next_after(r, items.last().expect("just pushed"));
     }
     for w in items.iter() {
@@ -185,13 +185,13 @@ fn prepare(s: &Setup, ledger: &mut Ledger, items: &mut Vec<Work>, earliest: i64)
     Ok(earliest)
 }
 
-fn work(r: &Runner, kind: Kind, days: Vec<i64>, volume: Volumes, drain_m: f64) -> Work {
+fn work(r: &Runner, kind: Kind, days: Vec<i64>, volume: Volumes, drain_m: f64) -> Result<Work> {
     let (a, b) = (days[0], days[days.len() - 1]);
-    Work {
+    Ok(Work {
         kind,
         stage: None,
-        start: r.calendar.date(a),
-        end: r.calendar.date(b),
+        start: r.calendar.date(a)?,
+        end: r.calendar.date(b)?,
         thickness_m: 0.0,
         height_after_m: 0.0,
         fs_end: None,
@@ -201,7 +201,7 @@ fn work(r: &Runner, kind: Kind, days: Vec<i64>, volume: Volumes, drain_m: f64) -
         release: None,
         days,
         state: None,
-    }
+    })
 }
 
 /// The first `n` workable days from `from` on, if within the horizon.
@@ -295,8 +295,8 @@ fn placed(s: &Setup, items: &[Work], prev: &State, from: &State, change_m: f64) 
     Ok(Work {
         kind,
         stage: Some(stage),
-        start: r.calendar.date(a),
-        end: r.calendar.date(b),
+        start: r.calendar.date(a)?,
+        end: r.calendar.date(b)?,
         thickness_m: change_m,
         height_after_m: after.height_m,
         fs_end: None,
@@ -324,9 +324,11 @@ fn removal(
         return Ok(());
     }
     let mut earliest = items.last().map_or(s.earliest, |w| next_after(r, w));
+    // Secondary compression is counted from the first fill placed.
+    let loading = items.iter().find(|w| w.kind != Kind::Drains).map_or(0.0, |w| w.days[0] as f64);
     let w = loop {
         warn.clear();
-        let day = planner::removal_day(r, st, earliest, warn)?;
+        let day = crate::schedule::finish::removal_day(r, st, earliest, loading, warn)?;
         let mut rested = st.clone();
         r.rest_until(&mut rested, day, &mut |_| {});
         let w = placed(s, items, st, &rested, -p.embankment.surcharge_height_m)?;

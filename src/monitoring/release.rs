@@ -353,8 +353,8 @@ pub fn check(p: &Project, r: &Readings, lift_m: f64, on: Option<NaiveDate>) -> R
         height_now_m: height_now,
         lift_m,
         height_after_m: height_now + lift_m,
-        lift_start: runner.calendar.date(a),
-        lift_end: runner.calendar.date(b),
+        lift_start: runner.calendar.date(a)?,
+        lift_end: runner.calendar.date(b)?,
         asaoka: plates_asaoka(p, &engine, r),
         tracks: tracks(p, r, &cal),
         instruments,
@@ -449,7 +449,7 @@ fn forecast(
     let first = runner.next_workable(st.day.ceil() as i64)?;
     match planner::earliest_safe_day(runner, st, first, lift_m, effort) {
         Ok(day) => {
-            let d = runner.calendar.date(day);
+            let d = runner.calendar.date(day)?;
             Ok((
                 Some(d),
                 format!(

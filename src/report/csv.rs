@@ -27,7 +27,7 @@ fn geometry_line(shape: StageShape) -> String {
 
 /// The caution line, the geometry line (if any), then `head` and `rows` as
 /// RFC 4180 records.
-fn table<R: IntoIterator<Item = Vec<String>>>(
+pub(crate) fn table<R: IntoIterator<Item = Vec<String>>>(
     shape: Option<StageShape>,
     head: &[String],
     rows: R,

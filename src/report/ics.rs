@@ -20,13 +20,13 @@ pub struct Ics {
 }
 
 /// Event identity and revision shared by every event of one file.
-struct Stamp {
+pub(crate) struct Stamp {
     dtstamp: String,
     sequence: i64,
 }
 
 impl Stamp {
-    fn at(written: NaiveDateTime) -> Stamp {
+    pub(crate) fn at(written: NaiveDateTime) -> Stamp {
         let epoch = NaiveDate::from_ymd_opt(2020, 1, 1).and_then(|d| d.and_hms_opt(0, 0, 0)).unwrap_or_default();
         Stamp {
             dtstamp: written.format("%Y%m%dT%H%M%SZ").to_string(),

@@ -24,7 +24,7 @@ pub(super) fn loading_start_day(r: &Runner, start: &State, stages: &[Stage]) -> 
 /// The day the surcharge may come off: the first day on which the removal
 /// criterion holds (centreline degree of consolidation, or residual
 /// settlement over the design life after removal), searched weekly.
-pub(super) fn removal_day(
+pub(crate) fn removal_day(
     r: &Runner,
     st: &State,
     earliest: i64,
@@ -78,7 +78,10 @@ pub(super) fn totals(
 ) -> Result<Plan> {
     let p = r.engine.project;
     let e = &p.embankment;
-    let finish = stages.last().map_or(r.calendar.date(st.day.ceil() as i64), |s| s.end);
+    let finish = match stages.last() {
+        Some(s) => s.end,
+        None => r.calendar.date(st.day.ceil() as i64)?,
+    };
     let (min_fs, min_fs_stage) = stages
         .iter()
         .filter(|s| s.kind == StageKind::Lift)
@@ -114,7 +117,7 @@ pub(super) fn totals(
         residual_settlement_m: f.residual_m,
         residual_primary_m: f.remaining_primary_m,
         residual_secondary_m: f.secondary_m,
-        end_of_primary: f.end_of_primary_day.map(|d| r.calendar.date(d.ceil() as i64)),
+        end_of_primary: f.end_of_primary_day.map(|d| r.calendar.date(d.ceil() as i64)).transpose()?,
         min_fs,
         min_fs_stage,
         volume_design_m3_per_m: design,

@@ -72,8 +72,8 @@ pub fn more_inputs(c: &mut Canvas, ctx: &Ctx) {
     } + 3.0;
     let m = &p.monitoring;
     let limits = format!(
-        "Alarm limits (defaults are common practice; the engineer of record confirms them): pore pressure rise under constant load {} kPa; settlement rate {} mm/day; lateral movement rate {} mm/day; ratio of lateral movement to settlement {}; over {} days.",
-        m.pore_rise_limit_kpa,
+        "Alarm limits (defaults are common practice; the engineer of record confirms them): pore pressure rise under constant load {} kPa/week; settlement rate {} mm/day; lateral movement rate {} mm/day; ratio of lateral movement to settlement {}; over {} days.",
+        m.pore_rise_limit_kpa_per_week,
         m.settlement_rate_limit_mm_per_day,
         m.lateral_rate_limit_mm_per_day,
         m.lateral_ratio_limit,
