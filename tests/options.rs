@@ -102,6 +102,15 @@ fn zero_cov_reproduces_the_deterministic_plan() {
     }
     assert_eq!(r["below_one"]["count"], 0);
     assert_eq!(r["lowest_fs"]["p50"], plan["min_fs"]);
+    // Risk keeps the plan's warnings (issue 14: they were lost): the demo's
+    // 2:1 face of φ' = 34° fill is limited to tan 34°/0.5 = 1.349 (infinite
+    // slope, closed form), below the 1.35 service target.
+    assert!(has_warning(&r["warnings"], "fill face"), "{}", r["warnings"]);
+}
+
+/// Whether a JSON array of warnings has one containing `text`.
+fn has_warning(warnings: &serde_json::Value, text: &str) -> bool {
+    warnings.as_array().is_some_and(|w| w.iter().any(|w| w.as_str().is_some_and(|w| w.contains(text))))
 }
 
 #[test]
@@ -136,6 +145,9 @@ fn compare_plans_every_variant_sorted_by_finish() {
     let d = |k: usize| v[k]["outcome"]["drain_length_m_per_m"].as_f64().unwrap();
     // Drain length goes as 1/s²: (2.5/1.2)² = 4.34.
     assert!((d(0) / d(1) - (2.5f64 / 1.2).powi(2)).abs() < 1e-9);
+    // Each variant keeps its plan's warnings (issue 14: they were lost); the
+    // demo's fill face (1.349, closed form) is below the service target.
+    assert!(v.iter().all(|x| has_warning(&x["warnings"], "fill face")), "{r}");
     let text = std::fs::read_to_string(&csv).unwrap();
     assert_eq!(text.lines().count(), 4);
     assert!(text.starts_with("# stage geometry: full-footprint"), "{text}");

@@ -451,7 +451,7 @@ pub fn methods(c: &mut Canvas) {
         ),
         (
             "Stability",
-            "Limit equilibrium on circular slip surfaces by Bishop's (1955) simplified method (Ordinary method of Fellenius 1927 alongside), at least 30 slices; clay undrained with su sampled from the consolidating strength field; fill and sand drained. Fill cracked through its full thickness where a circle rises through it on the active side, with Rankine active thrust. Grid search of centres and tangent depths with pattern refinement in each depth band.",
+            "Limit equilibrium on circular slip surfaces by Bishop's (1955) simplified method (Ordinary method of Fellenius 1927 alongside), at least 30 slices; clay undrained with su sampled from the consolidating strength field; fill and sand drained. Each circle also tried with a Rankine tension crack in the fill (2c'/(γ√Ka), reduced strength, at most the fill thickness), the lower FS kept; a fill with no strength is a load and every surface passes through the ground. Bishop's method falls back to the Ordinary method where m_α < 0.2 (counted and warned). Grid search of centres and tangent depths with pattern refinement in each depth band; the fill face is checked as an infinite slope and the lower FS governs.",
         ),
         (
             "Timetable",
