@@ -114,8 +114,10 @@ fn compare_plans_every_variant_sorted_by_finish() {
     // Drain length goes as 1/s²: (2.5/1.2)² = 4.34.
     assert!((d(0) / d(1) - (2.5f64 / 1.2).powi(2)).abs() < 1e-9);
     let text = std::fs::read_to_string(&csv).unwrap();
-    assert_eq!(text.lines().count(), 3);
-    assert!(text.starts_with("variant,settings,lifts,finish"));
+    // caution comment line, header, one row per variant
+    assert_eq!(text.lines().count(), 4);
+    assert!(text.starts_with("# fillpace "));
+    assert!(text.lines().nth(1).unwrap().starts_with("variant,settings,lifts,finish"));
     assert!(std::fs::read(&pdf).unwrap().starts_with(b"%PDF"));
 }
 
