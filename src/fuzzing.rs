@@ -43,12 +43,14 @@ const FACTORS: [f64; 11] = [0.0, 1e-3, 0.05, 0.3, 0.7, 0.95, 1.05, 1.5, 3.0, 20.
 const MAX_CHANGES: usize = 8;
 
 /// A valid project derived from the demo by fuzz bytes: each pair of bytes
-/// picks a numeric key of the demo and a factor from `FACTORS`; `None` when
+/// picks a numeric key of the demo (in sorted order) and a factor from `FACTORS`; `None` when
 /// the changed project does not validate. The first byte is left for the
 /// caller.
 pub fn extreme_project(data: &[u8]) -> Option<crate::model::Project> {
     let mut doc = crate::input::vary::Document::parse(crate::app::DEMO, "demo").ok()?;
-    let keys = doc.numeric_paths();
+    // Sorted, so that a byte names the same key whatever the map order.
+    let mut keys = doc.numeric_paths();
+    keys.sort();
     for pair in data.chunks_exact(2).take(MAX_CHANGES) {
         let key = &keys[usize::from(pair[0]) % keys.len()];
         let factor = FACTORS[usize::from(pair[1]) % FACTORS.len()];

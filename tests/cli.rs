@@ -335,8 +335,17 @@ fn plan_pdf_has_every_section_stage_hash_and_caution() {
     assert!(created.trim_start_matches("D:").starts_with(&year), "CreationDate {created}");
     // PDF text strings here are UTF-16BE with a byte-order mark (ISO 32000-1 §7.9.2.2).
     let producer = info.get(b"Producer").unwrap().as_str().unwrap();
-    let units: Vec<u16> = producer.strip_prefix(&[0xFE, 0xFF]).unwrap_or(producer).chunks(2).map(|c| u16::from_be_bytes([c[0], c[c.len() - 1]])).collect();
-    let producer = if producer.starts_with(&[0xFE, 0xFF]) { String::from_utf16_lossy(&units) } else { String::from_utf8_lossy(producer).into_owned() };
+    let units: Vec<u16> = producer
+        .strip_prefix(&[0xFE, 0xFF])
+        .unwrap_or(producer)
+        .chunks(2)
+        .map(|c| u16::from_be_bytes([c[0], c[c.len() - 1]]))
+        .collect();
+    let producer = if producer.starts_with(&[0xFE, 0xFF]) {
+        String::from_utf16_lossy(&units)
+    } else {
+        String::from_utf8_lossy(producer).into_owned()
+    };
     assert!(producer.contains(&version), "Producer {producer}");
 }
 
@@ -383,7 +392,8 @@ fn zero_placement_rate_and_huge_lift_are_refused_not_panics() {
     let rate0 = demo_variant(dir.path(), "rate0.toml", |t| {
         t.replace("placement_rate_m_per_day = 0.25", "placement_rate_m_per_day = 0")
     });
-    let line = std::fs::read_to_string(&rate0).unwrap().lines().position(|l| l.starts_with("placement_rate")).unwrap() + 1;
+    let line =
+        std::fs::read_to_string(&rate0).unwrap().lines().position(|l| l.starts_with("placement_rate")).unwrap() + 1;
     for cmd in ["check", "assess", "plan"] {
         let out = fillpace().arg(cmd).arg(&rate0).output().unwrap();
         let err = String::from_utf8_lossy(&out.stderr);

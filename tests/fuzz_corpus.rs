@@ -42,7 +42,8 @@ fn check_corpus_replays() {
 
 #[test]
 fn plan_corpus_replays() {
-    let n = replay("fuzz/corpus/plan", fillpace::fuzzing::plan) + replay("fuzz/regressions/plan", fillpace::fuzzing::plan);
+    let n =
+        replay("fuzz/corpus/plan", fillpace::fuzzing::plan) + replay("fuzz/regressions/plan", fillpace::fuzzing::plan);
     assert!(n >= 5, "only {n} inputs");
 }
 

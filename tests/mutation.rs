@@ -188,10 +188,12 @@ fn par_map<T: Sync, R: Send>(items: &[T], f: impl Fn(&T) -> R + Sync) -> Vec<R> 
 
 /// Run the jobs; returns the failures.
 fn run_all(jobs: Vec<(String, Vec<String>, Option<String>)>) -> Vec<String> {
-    par_map(&jobs, |(label, args, must_name)| judge(&run(args), must_name.as_deref()).map(|why| format!("{label}: {why}")))
-        .into_iter()
-        .flatten()
-        .collect()
+    par_map(&jobs, |(label, args, must_name)| {
+        judge(&run(args), must_name.as_deref()).map(|why| format!("{label}: {why}"))
+    })
+    .into_iter()
+    .flatten()
+    .collect()
 }
 
 /// Why a run fails the corpus' rules, if it does. `must_name`: the key a
@@ -226,7 +228,13 @@ fn check_all(mutants: &[Mutant]) -> (Vec<bool>, Vec<String>) {
 
 /// Jobs for `commands` (by name) on each mutant: refused mutants must be
 /// refused naming their key, accepted ones only end cleanly.
-fn jobs(mutants: &[Mutant], accepted: &[bool], names: &[&str], dir: &Path, refused_too: bool) -> Vec<(String, Vec<String>, Option<String>)> {
+fn jobs(
+    mutants: &[Mutant],
+    accepted: &[bool],
+    names: &[&str],
+    dir: &Path,
+    refused_too: bool,
+) -> Vec<(String, Vec<String>, Option<String>)> {
     let mut out = Vec::new();
     for (m, ok) in mutants.iter().zip(accepted) {
         if !ok && !refused_too {

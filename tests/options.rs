@@ -149,9 +149,12 @@ fn compare_plans_every_variant_sorted_by_finish() {
     // demo's fill face (1.349, closed form) is below the service target.
     assert!(v.iter().all(|x| has_warning(&x["warnings"], "fill face")), "{r}");
     let text = std::fs::read_to_string(&csv).unwrap();
-    assert_eq!(text.lines().count(), 4);
-    assert!(text.starts_with("# stage geometry: full-footprint"), "{text}");
-    assert!(text.lines().nth(1).unwrap().starts_with("variant,settings,lifts,finish"));
+    // caution comment line, stage geometry comment, header, one row per
+    // variant
+    assert_eq!(text.lines().count(), 5);
+    assert!(text.starts_with("# fillpace "));
+    assert!(text.lines().nth(1).unwrap().starts_with("# stage geometry: full-footprint"), "{text}");
+    assert!(text.lines().nth(2).unwrap().starts_with("variant,settings,lifts,finish"));
     assert!(std::fs::read(&pdf).unwrap().starts_with(b"%PDF"));
 }
 

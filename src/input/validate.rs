@@ -642,7 +642,10 @@ fn sequence(
     if total > limit + 1e-9 {
         c.bad(
             "sequence",
-            format!("lifts add up to {} m, above design height plus surcharge ({limit:.2} m)", show((total * 100.0).round() / 100.0)),
+            format!(
+                "lifts add up to {} m, above embankment.design_height_m + embankment.surcharge_height_m ({limit:.2} m)",
+                show((total * 100.0).round() / 100.0)
+            ),
         );
     }
     out

@@ -71,9 +71,11 @@ impl Calendar {
 /// `start` moved by `days` (negative: earlier), checked: an error names the
 /// day count and what was being dated instead of overflowing.
 pub fn shift(start: NaiveDate, days: i64, context: &'static str) -> Result<NaiveDate> {
-    TimeDelta::try_days(days)
-        .and_then(|d| start.checked_add_signed(d))
-        .ok_or(Error::DateOutOfRange { start, day: days, context })
+    TimeDelta::try_days(days).and_then(|d| start.checked_add_signed(d)).ok_or(Error::DateOutOfRange {
+        start,
+        day: days,
+        context,
+    })
 }
 
 #[cfg(test)]
