@@ -97,7 +97,10 @@ fn design_levers_move_the_finish_the_right_way() {
     let mut none = base.clone();
     none.drains = None;
     let mut stricter = base.clone();
-    stricter.criteria.fs_construction += 0.05;
+    // +0.02: with full-footprint stages the demo's 7.5 m surcharge crest
+    // stays below FS 1.35 even on fully consolidated clay (issue 14), so a
+    // larger step would make the stricter variant unbuildable.
+    stricter.criteria.fs_construction += 0.02;
     let (dc, ds) = (plan_of(&closer).duration_days, plan_of(&stricter).duration_days);
     assert!(dc < d0, "halving drain spacing: {dc} vs {d0} days");
     assert!(ds > d0, "higher FS target: {ds} vs {d0} days");
