@@ -499,7 +499,7 @@ fn plan(path: Option<&Path>, readings_file: Option<&Path>, outs: &PlanOutputs, j
     let runner = Runner::new(&engine);
     let (st, earliest) = start.unwrap_or_else(|| (engine.initial_state(), 0));
     let plan = match with_progress(|tick| planner::plan_or_reach(&runner, st, earliest, tick))? {
-        planner::Planned::Built(plan) => plan,
+        planner::Planned::Built(plan) => *plan,
         planner::Planned::Unbuildable(u) => return Err(unbuildable(&p, &source, &u, json)),
     };
     let rep = PlanReport { project: &p, plan: &plan, source, source_sha256: crate::hash::sha256_hex(text.as_bytes()) };

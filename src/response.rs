@@ -141,11 +141,21 @@ impl<'p> Engine<'p> {
         self.steps.fetch_add(1, Ordering::Relaxed);
     }
 
-    /// `advance` for the centreline column alone (the settlement forecasts
-    /// need no other; the other columns are left as they were). Not counted
-    /// in `steps_taken`.
-    pub fn advance_centre(&self, st: &mut State, dt_days: f64, height_end_m: f64) {
-        self.advance_columns(st, dt_days, height_end_m, 1);
+    /// Advance the centreline column alone by `dt_days` under a fixed
+    /// placed thickness `placed_m` (fill weight with the centreline settled
+    /// by `settlement_m`), for the settlement forecasts: the load does not
+    /// change from step to step, so after the fully implicit start-up the
+    /// steps are Crank–Nicolson. The other columns are left as they were;
+    /// not counted in `steps_taken`.
+    pub fn advance_centre(&self, st: &mut State, dt_days: f64, placed_m: f64, settlement_m: f64) {
+        let mut buf = Vec::new();
+        self.loads(0, placed_m, self.fill_weight(placed_m, settlement_m), &mut buf);
+        if !self.columns[0].step(&mut st.cols[0], &buf, self.project.analysis.pore_pressure, dt_days) {
+            self.unconverged.fetch_add(1, Ordering::Relaxed);
+        }
+        st.settlement_centre_m = self.columns[0].settlement(&st.cols[0]);
+        st.day += dt_days;
+        st.placed_m = placed_m;
     }
 
     fn advance_columns(&self, st: &mut State, dt_days: f64, height_end_m: f64, count: usize) {

@@ -21,7 +21,8 @@
 //!   t_p), t2 = t_finish + design life (none when t_p ≥ t2). The end of
 //!   primary t_p is the day the centreline average degree of consolidation
 //!   reaches `EOP_DEGREE`, found by running the centreline column on under
-//!   the final profile.
+//!   the final profile (Crank–Nicolson steps of 2% of the time since loading
+//!   began).
 
 use crate::model::LayerKind;
 use crate::response::{Engine, State};
@@ -36,7 +37,7 @@ const FIXED_POINT_TOL_M: f64 = 1e-4;
 const FIXED_POINT_MAX: usize = 100;
 /// Steps of the run to the end of primary grow with the time since loading
 /// began, at this fraction of it (at least the rest step of the analysis).
-const EOP_STEP_FRACTION: f64 = 0.005;
+const EOP_STEP_FRACTION: f64 = 0.02;
 
 /// The settlement forecast at the finish, m (centreline).
 #[derive(Debug, Clone, Serialize)]
@@ -80,7 +81,7 @@ pub fn forecast(engine: &Engine, st: &State, loading_start_day: f64) -> Forecast
     let (final_primary_m, converged) = final_primary(engine, st, st.height_m);
     let life = p.info.design_life_years * crate::model::DAYS_PER_YEAR;
     let end = st.day + life;
-    let eop = end_of_primary(engine, st, loading_start_day, end);
+    let eop = end_of_primary(engine, st, loading_start_day, end, final_primary_m);
     let secondary_m = match eop {
         Some(tp) => {
             let (t1, t2) = (st.day.max(tp) - loading_start_day, end - loading_start_day);
@@ -114,12 +115,13 @@ pub fn secondary_per_log_cycle(engine: &Engine) -> f64 {
         .sum()
 }
 
-/// Day the centreline degree reaches `EOP_DEGREE` under the present crest
-/// (fill made up as it settles), by running the centreline column on in
-/// steps growing with the time since loading began; interpolated linearly
-/// in ln(1 − U) between steps (the tail of consolidation decays
+/// Day the centreline degree reaches `EOP_DEGREE` under the final profile
+/// (the present crest plus the make-up for the final primary settlement
+/// `final_m`, placed at once), by running the centreline column on in steps
+/// growing with the time since loading began; interpolated linearly in
+/// ln(1 − U) between steps (the tail of consolidation decays
 /// exponentially). None when not reached by day `until`.
-fn end_of_primary(engine: &Engine, st: &State, loading_start_day: f64, until: f64) -> Option<f64> {
+fn end_of_primary(engine: &Engine, st: &State, loading_start_day: f64, until: f64, final_m: f64) -> Option<f64> {
     let mut s = st.clone();
     let mut u = engine.degree_centre(&s);
     if u >= EOP_DEGREE {
@@ -129,7 +131,7 @@ fn end_of_primary(engine: &Engine, st: &State, loading_start_day: f64, until: f6
     while s.day < until {
         let dt = (EOP_STEP_FRACTION * (s.day - loading_start_day)).max(min_dt).min(until - s.day);
         let (t0, u0) = (s.day, u);
-        engine.advance_centre(&mut s, dt, st.height_m);
+        engine.advance_centre(&mut s, dt, st.height_m + final_m, final_m);
         u = engine.degree_centre(&s);
         if u >= EOP_DEGREE {
             let ln = |v: f64| (1.0 - v).max(1e-12).ln();

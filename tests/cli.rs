@@ -491,3 +491,54 @@ fn quiet_drops_warning_lines_only() {
     assert!(quiet.contains("CAUTIONS") && quiet.contains("Lift timetable"));
     assert!(quiet.trim_end().ends_with(&format!("fillpace {}", env!("CARGO_PKG_VERSION"))), "version footer");
 }
+
+#[test]
+fn an_unreachable_target_still_gives_the_highest_crest_and_its_timetable() {
+    // Issue 14, what to build 6: the demo raised to a 10 m design height
+    // cannot be built at FS 1.30; plan says how high it can go, with the
+    // timetable to there and the blocking mechanism, then exits 1 and
+    // writes no files.
+    let dir = tempfile::tempdir().unwrap();
+    let file = dir.path().join("high.toml");
+    let text = std::fs::read_to_string(root(DEMO)).unwrap().replace("design_height_m = 7.0", "design_height_m = 10.0");
+    std::fs::write(&file, text).unwrap();
+    let csv = dir.path().join("plan.csv");
+    let out = fillpace().arg("plan").arg(&file).arg("--json").arg("--csv").arg(&csv).output().unwrap();
+    assert_eq!(out.status.code(), Some(1));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("cannot be built to 10.50 m"));
+    assert!(!csv.exists());
+    let r = json_result(&out.stdout);
+    let top = r["highest_crest_m"].as_f64().unwrap();
+    assert!(top > 5.0 && top < 10.5, "{top}");
+    let stages = r["partial_plan"]["stages"].as_array().unwrap();
+    assert_eq!(stages.last().unwrap()["height_after_m"].as_f64().unwrap(), top);
+    assert!(r["blocking"]["fs"].as_f64().unwrap() < 1.3);
+    assert!(!r["blocking"]["mechanism"].as_str().unwrap().is_empty());
+    fillpace()
+        .arg("plan")
+        .arg(&file)
+        .assert()
+        .code(1)
+        .stdout(predicate::str::contains("Highest crest reachable at the FS target"))
+        .stdout(predicate::str::contains("Governing mechanism"));
+}
+
+#[test]
+fn a_cv_typed_in_square_metres_per_day_is_flagged_not_refused() {
+    // Issue 14, what to build 7: 0.0041 in cv_m2_per_year is 1.5 m²/year
+    // written in m²/day; check warns and names the unit, exit 0.
+    let dir = tempfile::tempdir().unwrap();
+    let file = dir.path().join("slip.toml");
+    let text = std::fs::read_to_string(root(DEMO)).unwrap().replace("cv_m2_per_year = 1.5", "cv_m2_per_year = 0.0041");
+    std::fs::write(&file, text).unwrap();
+    fillpace()
+        .arg("check")
+        .arg(&file)
+        .assert()
+        .success()
+        .stdout(predicate::str::contains("warning: ground.layers[1].cv_m2_per_year"))
+        .stdout(predicate::str::contains("m²/day"));
+    let out = fillpace().arg("check").arg(&file).arg("--json").output().unwrap();
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert!(v["warnings"].as_array().unwrap().iter().any(|w| w.as_str().unwrap().contains("m²/day")));
+}

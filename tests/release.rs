@@ -39,14 +39,15 @@ fn at(s: &str) -> NaiveDateTime {
     NaiveDateTime::parse_from_str(s, "%Y-%m-%dT%H:%M").unwrap()
 }
 
-/// Synthetic readings of the demo site along the first two planned lifts.
+/// Synthetic readings of the demo site along the first two planned lifts
+/// (full-footprint stages: 2.5 m, then 2.25 m to 4.75 m).
 fn synthetic(multiplier: f64, until: &str, rise_kpa: f64) -> String {
     let p = load(DEMO);
     let fill = vec![
         (at("2027-04-05T07:00"), 0.0),
         (at("2027-04-20T17:00"), 2.5),
         (at("2027-05-05T07:00"), 2.5),
-        (at("2027-05-19T17:00"), 5.0),
+        (at("2027-05-18T17:00"), 4.75),
     ];
     let recipe =
         Recipe { sd_kpa: 0.5, sd_m: 0.002, rise_kpa, rise_days: 12.0, ..Recipe::new(fill, multiplier, at(until), 11) };
@@ -145,11 +146,12 @@ fn a_true_rise_of_2_5_kpa_per_week_is_detected_and_distress_stops_filling() {
 
 #[test]
 fn readings_that_match_a_safe_prediction_release() {
-    // Readings made with the project's own parameters, checked three weeks
-    // after lift 2 for a thin lift: every rule passes.
+    // Readings made with the project's own parameters, checked just after
+    // the plan's release of lift 2 (2027-06-22) for a thin lift: every rule
+    // passes.
     let (dir, project, _) = scratch();
     let readings = dir.path().join("matching.csv");
-    std::fs::write(&readings, synthetic(1.0, "2027-06-10T09:00", 0.0)).unwrap();
+    std::fs::write(&readings, synthetic(1.0, "2027-06-24T09:00", 0.0)).unwrap();
     let out = release(&project, &readings, "0.5", &["--json"]);
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     let r = json_result(&out.stdout);

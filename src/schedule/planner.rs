@@ -156,7 +156,7 @@ pub fn plan_with_progress(r: &Runner, progress: &mut dyn FnMut(f64)) -> Result<P
 /// gives how far it can go).
 pub fn plan_from(r: &Runner, start: State, earliest: i64, progress: &mut dyn FnMut(f64)) -> Result<Plan> {
     match plan_or_reach(r, start, earliest, progress)? {
-        Planned::Built(plan) => Ok(plan),
+        Planned::Built(plan) => Ok(*plan),
         Planned::Unbuildable(u) => Err(Error::Computation(u.reason)),
     }
 }
@@ -164,7 +164,7 @@ pub fn plan_from(r: &Runner, start: State, earliest: i64, progress: &mut dyn FnM
 /// A plan to the target, or how far the target can be approached.
 #[derive(Debug, Clone)]
 pub enum Planned {
-    Built(Plan),
+    Built(Box<Plan>),
     Unbuildable(Box<super::finish::Unbuildable>),
 }
 
@@ -211,7 +211,7 @@ pub fn plan_or_reach(r: &Runner, start: State, earliest: i64, progress: &mut dyn
         let crit = r.stability(&st, &mut effort)?;
         stages.push(stage(r, stages.len() + 1, StageKind::SurchargeRemoval, a, b, change, &st, crit)?);
     }
-    finish_plan(r, &start, stages, &st, effort, warnings, fig).map(Planned::Built)
+    finish_plan(r, &start, stages, &st, effort, warnings, fig).map(|p| Planned::Built(Box::new(p)))
 }
 
 /// The figures' last profile and governing section, then the totals.
