@@ -115,8 +115,11 @@ pub struct Outcome {
     /// Lowest FS at the end of any lift and that stage.
     pub governing_fs: f64,
     pub governing_stage: usize,
+    /// Governing FS at the finish (circle or fill face).
     pub fs_finish: f64,
     pub settlement_at_finish_m: f64,
+    /// Final primary settlement under the final profile (as the plan's
+    /// `final_primary_settlement_m`), m.
     pub final_settlement_m: f64,
     /// Fill brought in by part (removal not deducted), m³.
     pub placed: Volumes,
@@ -297,13 +300,17 @@ fn outcome(s: &SectionSpec, engine: &Engine, w: Works, unconstrained: Option<Nai
         .map(|x| (x.fs_end.unwrap_or(f64::NAN), x.stage.unwrap_or(0)))
         .min_by(|a, b| a.0.total_cmp(&b.0))
         .unwrap_or((f64::INFINITY, 0));
-    let fs_finish = runner.stability(&w.end_state, &mut Default::default())?.critical.fs;
+    let fs_finish = runner.stability(&w.end_state, &mut Default::default())?.governing_fs();
     let placed = w.items.iter().fold(Volumes::default(), |a, x| a.plus(x.volume));
     let removed_m3 = w.items.iter().map(|x| x.removed_m3).sum::<f64>();
     let start = w.items.first().map_or(s.project.info.start_date, |x| x.start);
     let finish = w.items.last().map_or(start, |x| x.end);
     let mut warnings = w.warnings.clone();
     warnings.extend(engine.convergence_warning());
+    warnings.extend(runner.stability_warnings());
+    // Secondary compression and the settlement forecast count from the
+    // first fill placed.
+    let loading_start = w.items.iter().find(|x| x.kind != Kind::Drains).map_or(0.0, |x| x.days[0] as f64);
     Ok(Outcome {
         start,
         finish,
@@ -313,7 +320,7 @@ fn outcome(s: &SectionSpec, engine: &Engine, w: Works, unconstrained: Option<Nai
         governing_stage,
         fs_finish,
         settlement_at_finish_m: w.end_state.settlement_centre_m,
-        final_settlement_m: engine.final_settlement_centre(&w.end_state),
+        final_settlement_m: crate::settlement::forecast(engine, &w.end_state, loading_start).final_primary_m,
         placed,
         removed_m3,
         drain_m: w.items.iter().map(|x| x.drain_m).sum(),

@@ -262,7 +262,7 @@ fn lifts(s: &Setup, ledger: &mut Ledger, items: &mut Vec<Work>, st: &mut State, 
         ledger.book(&w.days, w.need());
         let mut w = w;
         let after = w.state.as_ref().expect("lifts carry their state");
-        w.fs_end = Some(r.stability(after, &mut effort)?.critical.fs);
+        w.fs_end = Some(r.stability(after, &mut effort)?.governing_fs());
         earliest = next_after(r, &w);
         *st = after.clone();
         items.push(w);
@@ -340,7 +340,7 @@ fn removal(
     ledger.book(&w.days, w.need());
     let mut w = w;
     let after = w.state.clone().expect("removal carries its state");
-    w.fs_end = Some(r.stability(&after, &mut Effort::default())?.critical.fs);
+    w.fs_end = Some(r.stability(&after, &mut Effort::default())?.governing_fs());
     *st = after;
     items.push(w);
     Ok(())

@@ -83,7 +83,7 @@ fn first_lift_is_the_thickest_that_meets_the_target_and_above_the_bearing_bound(
         let mut s = st.clone();
         r.rest_until(&mut s, first, &mut |_| {});
         r.place(&mut s, t, &mut |_| {}).unwrap();
-        let fs = r.stability(&s, &mut effort).unwrap().critical.fs;
+        let fs = r.stability(&s, &mut effort).unwrap().governing_fs();
         if fs >= target && best.is_none_or(|b| t > b) {
             best = Some(t);
         }
