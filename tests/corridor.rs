@@ -86,20 +86,30 @@ fn volumes_add_up_and_match_a_hand_computed_trapezoid() {
     let res = "[resources]\nplatform_thickness_m = 0.5\n";
     let prog = run(&parse(&corridor_text(res, &section("only", 0.0, 100.0, ""))));
     let o = prog.sections[0].outcome.as_ref().unwrap();
-    // Hand calculation (quick.toml: crest 12 m, slopes 2H:1V, no berms):
-    // the 0.5 m platform is a trapezoid 12 m wide on top and
-    // 12 + 2·2·0.5 = 14 m at the base: (12 + 14)/2 · 0.5 = 6.5 m², × 100 m
-    // = 650 m³.
+    // Hand calculation (quick.toml: design height 4 m, crest 12 m, slopes
+    // 2H:1V, no berms; full-footprint stages): the final footprint is
+    // 12 + 2·2·4 = 28 m wide, so the 0.5 m platform is a trapezoid 28 m at
+    // the base and 28 − 2·2·0.5 = 26 m on top: (28 + 26)/2 · 0.5 = 13.5 m²,
+    // × 100 m = 1,350 m³.
     let platform = o.works.iter().find(|w| w.kind == Kind::Platform).expect("platform on a drained section");
-    assert!((platform.volume.total() - 650.0).abs() < 0.65, "{}", platform.volume.total());
-    // Lift 1 with the platform under it: the fill in place is a trapezoid
-    // of thickness t (crest height plus centreline settlement after lift 1) with area
-    // t·(12 + 2t) (mean width 12 + 2t); the lift adds that less the platform.
+    assert!((platform.volume.total() - 1350.0).abs() < 1.35, "{}", platform.volume.total());
+    // Lift 1 with the platform under it: its design fill is the layer of
+    // the crest height h over the footprint, h·(28 − 2h) m² (mean width
+    // 28 − 2h), less the platform; its make-up (the fill in the settlement
+    // trough) lies between 0 and the centreline settlement s times the
+    // footprint widened by the slopes carried down, s·(28 + 2·2·s), a
+    // physical bound.
     let lift = o.works.iter().find(|w| w.kind == Kind::Lift).unwrap();
     let st = lift.state.as_ref().unwrap();
-    let t = st.height_m + st.settlement_centre_m;
-    let hand = 100.0 * t * (12.0 + 2.0 * t) - 650.0;
-    assert!((lift.volume.total() - hand).abs() < 1e-3 * hand, "{} vs {hand}", lift.volume.total());
+    let h = st.height_m;
+    let hand = 100.0 * h * (28.0 - 2.0 * h) - 1350.0;
+    assert!((lift.volume.design_m3 - hand).abs() < 1e-3 * hand, "{} vs {hand}", lift.volume.design_m3);
+    let s = st.settlement_centre_m;
+    assert!(
+        lift.volume.makeup_m3 > 0.0 && lift.volume.makeup_m3 < 100.0 * s * (28.0 + 4.0 * s),
+        "{}",
+        lift.volume.makeup_m3
+    );
     // Corridor total = sum over sections and lifts.
     let sum: f64 = o.works.iter().map(|w| w.volume.total()).sum();
     assert!((prog.totals.placed.total() - sum).abs() < 1e-6 * sum);
@@ -278,7 +288,8 @@ fn outputs_carry_sections_activities_and_cautions() {
         "{text}"
     );
     let csv = std::fs::read_to_string(csv).unwrap();
-    assert!(csv.starts_with("section,kind,stage,start,end,quantity,unit"));
+    assert!(csv.starts_with("# fillpace "), "caution line first");
+    assert!(csv.lines().nth(1).unwrap().starts_with("section,kind,stage,start,end,quantity,unit"));
     for kind in [",platform,", ",drains,", ",lift,", ",rest,"] {
         assert!(csv.contains(kind), "{kind} in {csv}");
     }

@@ -147,11 +147,11 @@ fn a_true_rise_of_2_5_kpa_per_week_is_detected_and_distress_stops_filling() {
 #[test]
 fn readings_that_match_a_safe_prediction_release() {
     // Readings made with the project's own parameters, checked just after
-    // the plan's release of lift 2 (2027-06-22) for a thin lift: every rule
+    // the plan's release of lift 2 (2027-07-05) for a thin lift: every rule
     // passes.
     let (dir, project, _) = scratch();
     let readings = dir.path().join("matching.csv");
-    std::fs::write(&readings, synthetic(1.0, "2027-06-24T09:00", 0.0)).unwrap();
+    std::fs::write(&readings, synthetic(1.0, "2027-07-12T09:00", 0.0)).unwrap();
     let out = release(&project, &readings, "0.5", &["--json"]);
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     let r = json_result(&out.stdout);

@@ -21,7 +21,12 @@ fn assert_footer_on_every_page(pdf: &std::path::Path) {
     assert!(!pages.is_empty());
     for (i, t) in pages.iter().enumerate() {
         assert!(t.contains(&footer), "{}: page {} has no caution footer", pdf.display(), i + 1);
-        assert!(t.contains(&fillpace::report::program_version()), "{}: page {} has no program version", pdf.display(), i + 1);
+        assert!(
+            t.contains(&fillpace::report::program_version()),
+            "{}: page {} has no program version",
+            pdf.display(),
+            i + 1
+        );
     }
 }
 

@@ -7,8 +7,8 @@ use super::programme::{Programme, SectionResult};
 use super::section::{Kind, Work};
 use crate::error::{Error, Result};
 use crate::report::fixed as f;
-use crate::report::text::{Table, cautions_block, wrap};
 use crate::report::ics;
+use crate::report::text::{Table, cautions_block, wrap};
 use serde::Serialize;
 
 /// Column headings of the programme table.
@@ -145,8 +145,20 @@ pub fn summary_lines(p: &Programme) -> Vec<String> {
 /// caution line, as every CSV of fillpace).
 pub fn csv(p: &Programme) -> Result<Vec<u8>> {
     let head: Vec<String> = [
-        "section", "kind", "stage", "start", "end", "quantity", "unit", "thickness_m", "height_after_m", "fs_end",
-        "design_m3", "makeup_m3", "surcharge_m3", "platform_m3",
+        "section",
+        "kind",
+        "stage",
+        "start",
+        "end",
+        "quantity",
+        "unit",
+        "thickness_m",
+        "height_after_m",
+        "fs_end",
+        "design_m3",
+        "makeup_m3",
+        "surcharge_m3",
+        "platform_m3",
     ]
     .map(String::from)
     .to_vec();

@@ -3,12 +3,10 @@
 //! supply. A volume is a stage cross-section area (from `load::profile` and
 //! `load::area`, the planner's own stage geometry) times the section length.
 //!
-//! Split of the fill in place when the crest stands h m above original
-//! ground and t m of fill have been placed (t − h is settlement made up),
-//! with A(x) the cross-section area of fill x m thick and D the design
-//! height, per metre run:
-//! design = A(min(h, D)), surcharge = A(h) − A(min(h, D)),
-//! make-up = A(t) − A(h). The three add up to A(t); a stage's volume is the
+//! The fill in place at a state is split as the planner splits it
+//! (`Engine::fill_areas`): design fill (the stage profile up to design
+//! height), surcharge (above design height) and make-up (the fill in the
+//! settlement trough below original ground). A stage's volume is the
 //! change of these between its start and its end (negative for a removal).
 
 use crate::load;
@@ -61,18 +59,11 @@ pub fn area_m2(e: &Embankment, t_m: f64) -> f64 {
     load::area(&load::profile(e, t_m.max(0.0)))
 }
 
-/// Fill in place per metre run, split (see the module note), m³/m.
-pub fn in_place(e: &Embankment, height_m: f64, placed_m: f64) -> Volumes {
-    let d = area_m2(e, height_m.min(e.design_height_m));
-    let h = area_m2(e, height_m);
-    Volumes { design_m3: d, surcharge_m3: h - d, makeup_m3: area_m2(e, placed_m) - h, platform_m3: 0.0 }
-}
-
-/// Fill in place per metre run in a ground state: the crest height made up
-/// for the centreline settlement reached (as the planner's volumes are).
-pub fn of_state(e: &Embankment, st: &crate::response::State) -> Volumes {
-    let placed = if st.height_m > 0.0 { st.height_m + st.settlement_centre_m } else { 0.0 };
-    in_place(e, st.height_m, placed)
+/// Fill in place per metre run in a ground state (the planner's split,
+/// make-up in the settlement trough), m³/m.
+pub fn of_state(engine: &crate::response::Engine, st: &crate::response::State) -> Volumes {
+    let a = engine.fill_areas(st);
+    Volumes { design_m3: a.design_m2, makeup_m3: a.makeup_m2, surcharge_m3: a.surcharge_m2, platform_m3: 0.0 }
 }
 
 /// The working platform per metre run: the bottom `t_m` of the fill,
@@ -125,18 +116,12 @@ mod tests {
 
     #[test]
     fn trapezoid_area_by_hand() {
-        // Hand calculation: crest 12 m, side slopes 2H:1V, no berms. Fill
-        // 1.5 m thick is a trapezoid with top width 12 m and base width
-        // 12 + 2·2·1.5 = 18 m: A = (12 + 18)/2 · 1.5 = 22.5 m².
+        // Hand calculation: design crest 12 m at 3 m, side slopes 2H:1V, no
+        // berms, full-footprint stages. The final toe-to-toe width is
+        // 12 + 2·2·3 = 24 m; fill 1.5 m thick is a layer over that
+        // footprint with top width 24 − 2·2·1.5 = 18 m:
+        // A = (24 + 18)/2 · 1.5 = 31.5 m².
         let a = area_m2(&bank(), 1.5);
-        assert!((a - 22.5).abs() < 22.5e-3, "{a}");
-    }
-
-    #[test]
-    fn split_adds_up_to_the_fill_in_place() {
-        let e = bank();
-        let v = in_place(&e, 3.0, 3.4);
-        assert!((v.total() - area_m2(&e, 3.4)).abs() < 1e-9);
-        assert!(v.surcharge_m3.abs() < 1e-12);
+        assert!((a - 31.5).abs() < 31.5e-3, "{a}");
     }
 }

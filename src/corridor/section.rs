@@ -279,7 +279,8 @@ fn placed(s: &Setup, items: &[Work], prev: &State, from: &State, change_m: f64) 
     let mut after = from.clone();
     let (a, b) = r.place(&mut after, change_m, &mut |_| {})?;
     let days: Vec<i64> = (a..=b).filter(|k| r.calendar.workable(*k)).collect();
-    let mut volume = quantities::of_state(e, &after).minus(quantities::of_state(e, prev)).times(s.length_m);
+    let mut volume =
+        quantities::of_state(r.engine, &after).minus(quantities::of_state(r.engine, prev)).times(s.length_m);
     let removed_m3 = (-volume.surcharge_m3).max(0.0);
     volume.surcharge_m3 += removed_m3;
     if prev.placed_m <= 1e-9 && s.platform_m > 0.0 {

@@ -287,7 +287,7 @@ pub const STAGE_COLUMNS: [&str; 15] = [
     "peak Δu kPa",
     "U centre",
     "settl. m",
-    "circle lowest point: su kPa",
+    "governs: circle lowest point, su kPa",
 ];
 
 /// `v` with `d` decimals (the one number formatter of the reports); a value
@@ -301,11 +301,15 @@ pub fn fixed(v: f64, d: usize) -> String {
     }
 }
 
-/// Where the governing circle bottoms out and the clay strength there:
-/// "Soft clay at 3.2 m: 18.4" (layer, depth below original ground, su kPa);
-/// a circle whose lowest point lies in the fill has no clay strength to show.
+/// What governs the stage's FS. For a slip circle, where it bottoms out
+/// and the clay strength there: "Soft clay at 3.2 m: 18.4" (layer, depth
+/// below original ground, su kPa); a circle whose lowest point lies in the
+/// fill has no clay strength to show. For the fill face (infinite slope),
+/// its name alone.
 pub fn circle_bottom(s: &crate::schedule::planner::Stage) -> String {
-    if s.circle_depth_m > 0.0 {
+    if s.mechanism == crate::stability::search::FACE_MECHANISM {
+        s.mechanism.clone()
+    } else if s.circle_depth_m > 0.0 {
         format!("{} at {:.1} m: {:.1}", s.mechanism, s.circle_depth_m, s.su_governing_kpa)
     } else {
         format!("{} (above original ground)", s.mechanism)

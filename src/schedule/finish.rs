@@ -175,14 +175,7 @@ pub(super) fn blocking(r: &Runner, st: &State, lift_m: f64, effort: &mut Effort)
     let found = r.stability(&s, effort)?;
     let (fs, mechanism) = (found.governing_fs(), found.governing_mechanism());
     let c = found.critical;
-    Ok(Blocking {
-        lift_m,
-        on_crest_m: st.height_m,
-        fs,
-        mechanism,
-        circle_depth_m: c.depth_m,
-        circle: c.circle,
-    })
+    Ok(Blocking { lift_m, on_crest_m: st.height_m, fs, mechanism, circle_depth_m: c.depth_m, circle: c.circle })
 }
 
 /// The answer when the target height cannot be reached at the FS target.
