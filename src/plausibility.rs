@@ -57,7 +57,18 @@ pub fn input_warnings(p: &Project) -> Vec<String> {
         }
     }
     out.extend(strength_ratio(p));
+    out.extend(fill_as_load(p));
     out
+}
+
+/// A fill with no strength is taken as a vertical load on the ground with
+/// no lateral thrust; on circles through the fill that idealisation can
+/// give a higher FS than the fill's own strength does (found in review, not
+/// yet resolved), so the engineer is asked to compare.
+fn fill_as_load(p: &Project) -> Option<String> {
+    (p.stability.fill_strength_factor <= 0.0).then(|| {
+        "stability.fill_strength_factor = 0: the fill is taken as a vertical load on the ground with no lateral thrust; on circles that pass through the fill this can give a higher FS than the fill's own strength, so check the section with fill_strength_factor = 1 too and use the lower FS".to_string()
+    })
 }
 
 /// A warning when a coefficient (m²/year) is outside the range of clays.

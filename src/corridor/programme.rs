@@ -300,7 +300,8 @@ fn outcome(s: &SectionSpec, engine: &Engine, w: Works, unconstrained: Option<Nai
         .map(|x| (x.fs_end.unwrap_or(f64::NAN), x.stage.unwrap_or(0)))
         .min_by(|a, b| a.0.total_cmp(&b.0))
         .unwrap_or((f64::INFINITY, 0));
-    let fs_finish = runner.stability(&w.end_state, &mut Default::default())?.governing_fs();
+    let at_finish = runner.stability(&w.end_state, &mut Default::default())?;
+    let fs_finish = at_finish.governing_fs();
     let placed = w.items.iter().fold(Volumes::default(), |a, x| a.plus(x.volume));
     let removed_m3 = w.items.iter().map(|x| x.removed_m3).sum::<f64>();
     let start = w.items.first().map_or(s.project.info.start_date, |x| x.start);
@@ -308,6 +309,13 @@ fn outcome(s: &SectionSpec, engine: &Engine, w: Works, unconstrained: Option<Nai
     let mut warnings = w.warnings.clone();
     warnings.extend(engine.convergence_warning());
     warnings.extend(runner.stability_warnings());
+    let service = s.project.criteria.fs_service;
+    if fs_finish < service {
+        warnings.push(format!(
+            "FS at the finish {fs_finish:.3} ({}) is below the service target {service:.2}",
+            at_finish.governing_mechanism()
+        ));
+    }
     // Secondary compression and the settlement forecast count from the
     // first fill placed.
     let loading_start = w.items.iter().find(|x| x.kind != Kind::Drains).map_or(0.0, |x| x.days[0] as f64);

@@ -246,9 +246,17 @@ pub fn rule_cells(rule: &crate::monitoring::release::Rule) -> Vec<String> {
     ]
 }
 
-/// The conditions of the recommendation in one sentence.
+/// The conditions of the recommendation in one sentence. Under a hold or
+/// a stop there is nothing to place, so no lift conditions are given (site
+/// staff must not read them as permission), only the reading frequency.
 pub fn conditions_sentence(c: &ReleaseCheck) -> String {
     let k = &c.conditions;
+    if c.recommendation != crate::monitoring::release::Level::CriteriaMet {
+        return format!(
+            "No lift may be placed on this record. Keep reading every instrument at least every {:.0} days until a new check.",
+            k.reading_interval_days
+        );
+    }
     format!(
         "Conditions: a lift of at most {:.2} m, started no later than {} (the check is valid {:.0} days after the hold point; later, a new check is needed); read every instrument at least every {:.0} days, and daily while placing.",
         k.max_lift_m, k.latest_start, k.valid_days, k.reading_interval_days

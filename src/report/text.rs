@@ -335,7 +335,7 @@ pub fn plan(r: &PlanReport) -> String {
     }
     out.push_str(&t.render());
     out.push_str(&format!(
-        "\nFinish {} ({} days, {:.1} months). Lowest FS {:.2} at stage {}; FS at finish {:.2} (service target {:.2}).\n",
+        "\nFinish {} ({} days, {:.1} months). Lowest FS {:.2} at stage {}; FS at finish {:.3} (service target {:.2}).\n",
         pl.finish,
         pl.duration_days,
         pl.duration_days as f64 / 30.44,

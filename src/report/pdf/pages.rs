@@ -151,7 +151,7 @@ pub fn summary(c: &mut Canvas, ctx: &Ctx) {
         ),
         ("Lifts", format!("{}", pl.stages.iter().filter(|s| s.kind == StageKind::Lift).count())),
         ("Lowest FS", format!("{:.2} at the end of stage {}", pl.min_fs, pl.min_fs_stage)),
-        ("FS at finish", format!("{:.2}", pl.fs_finish)),
+        ("FS at finish", format!("{:.3}", pl.fs_finish)),
         ("Stage geometry", pl.stage_shape.describe().to_string()),
         (
             "Settlement (centreline)",
