@@ -80,9 +80,12 @@ fn demo_check_recommends_writes_a_numbered_record_and_logs_it() {
     let doc = lopdf::Document::load(&pdf).expect("the record is a PDF");
     assert_eq!(doc.get_pages().len(), 3);
     let page1 = doc.extract_text(&[1]).unwrap();
-    for needle in ["HOLD-POINT CHECK RECORD 1", "Registration", "Signature", "Conditions"] {
+    // The demo record holds the lift: no lift conditions that site staff
+    // could read as permission (review finding), only the reading frequency.
+    for needle in ["HOLD-POINT CHECK RECORD 1", "Registration", "Signature", "No lift may be placed"] {
         assert!(page1.contains(needle), "{needle} not on page 1: {page1}");
     }
+    assert!(!page1.contains("started no later than"), "{page1}");
     let log = dir.path().join("site.hold-point-log.jsonl");
     let line = std::fs::read_to_string(&log).unwrap();
     let entry: serde_json::Value = serde_json::from_str(line.trim_end()).unwrap();
