@@ -230,7 +230,7 @@ fn stability(path: &Path, height: f64, date: Option<&str>, circle: Option<&str>,
     match circle {
         Some(text) => {
             let c = parse_circle(text)?;
-            let r = section.analyse(c).map_err(|why| Error::Usage(format!("circle {text} cannot be analysed: {why}; a circle must cut the ground surface twice below its centre, move towards the toe and stay above the stiff base")))?;
+            let r = crate::stability::fill_load::lower_circle(&p, height, &field, c).map_err(|why| Error::Usage(format!("circle {text} cannot be analysed: {why}; a circle must cut the ground surface twice below its centre, move towards the toe and stay above the stiff base")))?;
             if json {
                 report::json::envelope_with_warnings("stability", &p, &src, &r, &warnings)
             } else {
@@ -238,7 +238,7 @@ fn stability(path: &Path, height: f64, date: Option<&str>, circle: Option<&str>,
             }
         }
         None => {
-            let r = search::search(&section)?;
+            let r = crate::stability::fill_load::lower_search(&p, height, &field, search::search(&section)?)?;
             if json {
                 report::json::envelope_with_warnings("stability", &p, &src, &r, &warnings)
             } else {

@@ -61,13 +61,13 @@ pub fn input_warnings(p: &Project) -> Vec<String> {
     out
 }
 
-/// A fill with no strength is taken as a vertical load on the ground with
-/// no lateral thrust; on circles through the fill that idealisation can
-/// give a higher FS than the fill's own strength does (found in review, not
-/// yet resolved), so the engineer is asked to compare.
+/// A fill with no strength is taken as a vertical load with no lateral
+/// thrust; on circles through the fill that idealisation can give a higher
+/// FS than the fill's own strength (found in review), so every search also
+/// runs with the fill's strength and keeps the lower (`stability::fill_load`).
 fn fill_as_load(p: &Project) -> Option<String> {
     (p.stability.fill_strength_factor <= 0.0).then(|| {
-        "stability.fill_strength_factor = 0: the fill is taken as a vertical load on the ground with no lateral thrust; on circles that pass through the fill this can give a higher FS than the fill's own strength, so check the section with fill_strength_factor = 1 too and use the lower FS".to_string()
+        "stability.fill_strength_factor = 0: the fill is taken as a vertical load with no lateral thrust, which can overstate the FS of circles through the fill; every FS reported is the lower of that and the fill at its own strength".to_string()
     })
 }
 

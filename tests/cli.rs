@@ -544,23 +544,36 @@ fn a_cv_typed_in_square_metres_per_day_is_flagged_not_refused() {
 }
 
 #[test]
-fn a_fill_taken_as_a_load_asks_for_the_comparison_with_its_strength() {
-    // Review finding (open): with `fill_strength_factor = 0` a given circle
-    // through the fill came out at FS 1.56 against 1.31 with the fill's
-    // full strength, since the load idealisation has no lateral thrust.
-    // Until the model is fixed, every command that reads such a file says
-    // so and asks for the lower of the two.
+fn a_fill_without_strength_never_raises_the_fs_of_a_circle() {
+    // Review finding: with `fill_strength_factor = 0` (the fill a vertical
+    // load with no lateral thrust) a given circle through the fill came out
+    // at FS 1.56 against 1.31 with the fill's own strength. Physical bound:
+    // taking strength away cannot raise the FS, so the reported FS (a
+    // given circle and the search) is never above the full-strength one,
+    // and the output says what was assumed.
     let dir = tempfile::tempdir().unwrap();
     let text = std::fs::read_to_string(root(DEMO)).unwrap();
     let weak = dir.path().join("load.toml");
     std::fs::write(&weak, format!("{text}\n[stability]\nfill_strength_factor = 0\n")).unwrap();
-    for args in [vec!["check"], vec!["stability", "--height", "3"]] {
-        fillpace()
-            .arg(args[0])
-            .arg(&weak)
-            .args(&args[1..])
-            .assert()
-            .success()
-            .stdout(predicate::str::contains("check the section with fill_strength_factor = 1 too"));
+    let fs = |file: &std::path::Path, circle: Option<&str>| {
+        let mut cmd = fillpace();
+        cmd.arg("stability").arg(file).args(["--height", "7.5", "--date", "2032-01-01", "--json"]);
+        if let Some(c) = circle {
+            cmd.args(["--circle", c]);
+        }
+        let out = cmd.output().unwrap();
+        assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+        let r = json_result(&out.stdout);
+        r["fs_governing"].as_f64().or(r["fs"].as_f64()).unwrap()
+    };
+    for circle in [Some("22.72,16.66,27.26"), Some("18.0,14.0,24.0"), None] {
+        let (strong, load) = (fs(&root(DEMO), circle), fs(&weak, circle));
+        assert!(load <= strong + 1e-9, "{circle:?}: fill as a load {load} > full strength {strong}");
     }
+    fillpace()
+        .arg("check")
+        .arg(&weak)
+        .assert()
+        .success()
+        .stdout(predicate::str::contains("every FS reported is the lower of that and the fill at its own strength"));
 }

@@ -196,6 +196,8 @@ impl<'e, 'p> Runner<'e, 'p> {
     /// its `governing_fs()` with a target: it includes the fill face).
     pub fn stability(&self, st: &State, effort: &mut Effort) -> Result<SearchResult> {
         let found = self.stability_uncounted(st, effort)?;
+        let field = self.engine.field(st);
+        let found = crate::stability::fill_load::lower_search(self.engine.project, st.height_m, &field, found)?;
         self.diagnostics.borrow_mut().merge(&found.diagnostics);
         Ok(found)
     }
@@ -233,6 +235,7 @@ impl<'e, 'p> Runner<'e, 'p> {
         effort.stability_searches += 1;
         let field = self.engine.field(st);
         let found = search_from(&Section::new(self.engine.project, st.height_m, &field), seeds, &[])?;
+        let found = crate::stability::fill_load::lower_search(self.engine.project, st.height_m, &field, found)?;
         self.diagnostics.borrow_mut().merge(&found.diagnostics);
         Ok(found)
     }

@@ -14,6 +14,7 @@
 
 pub mod diagnostics;
 pub mod face;
+pub mod fill_load;
 pub mod search;
 mod section;
 mod slicing;
