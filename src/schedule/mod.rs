@@ -13,7 +13,7 @@ pub mod record;
 use crate::error::{Error, Result};
 use crate::response::{Engine, State};
 use crate::stability::search::{BandResult, SearchResult, search, search_from};
-use crate::stability::{Diagnostics, Section};
+use crate::stability::{Diagnostics, Section, fill_load};
 use calendar::Calendar;
 
 /// Drives an engine on a calendar.
@@ -195,9 +195,13 @@ impl<'e, 'p> Runner<'e, 'p> {
     /// Critical slip circle of the section in its current state (compare
     /// its `governing_fs()` with a target: it includes the fill face).
     pub fn stability(&self, st: &State, effort: &mut Effort) -> Result<SearchResult> {
-        let found = self.stability_uncounted(st, effort)?;
-        let field = self.engine.field(st);
-        let found = crate::stability::fill_load::lower_search(self.engine.project, st.height_m, &field, found)?;
+        let mut found = self.stability_uncounted(st, effort)?;
+        if fill_load::applies(self.engine.project) {
+            // The ground field again only for a fill taken as a load: the
+            // planner's hot path pays nothing otherwise.
+            let field = self.engine.field(st);
+            found = fill_load::lower_search(self.engine.project, st.height_m, &field, found)?;
+        }
         self.diagnostics.borrow_mut().merge(&found.diagnostics);
         Ok(found)
     }
@@ -235,7 +239,7 @@ impl<'e, 'p> Runner<'e, 'p> {
         effort.stability_searches += 1;
         let field = self.engine.field(st);
         let found = search_from(&Section::new(self.engine.project, st.height_m, &field), seeds, &[])?;
-        let found = crate::stability::fill_load::lower_search(self.engine.project, st.height_m, &field, found)?;
+        let found = fill_load::lower_search(self.engine.project, st.height_m, &field, found)?;
         self.diagnostics.borrow_mut().merge(&found.diagnostics);
         Ok(found)
     }

@@ -16,11 +16,17 @@ use crate::response::GroundField;
 /// The project with the fill at its own strength, when the file takes it
 /// as a load (None otherwise).
 fn with_fill_strength(p: &Project) -> Option<Project> {
-    (p.stability.fill_strength_factor <= 0.0).then(|| {
+    applies(p).then(|| {
         let mut strong = p.clone();
         strong.stability.fill_strength_factor = 1.0;
         strong
     })
+}
+
+/// Whether the file takes the fill as a load (and so every FS needs the
+/// second evaluation).
+pub fn applies(p: &Project) -> bool {
+    p.stability.fill_strength_factor <= 0.0
 }
 
 /// `found` (a search on the section of `p` at `height_m`), or the search
