@@ -1,5 +1,6 @@
 //! The ground before loading and the constitutive rules every engine shares:
-//! the depth grid, initial stresses (σv0, u0, σ'v0, σ'p0), one-dimensional
+//! the depth grid, initial stresses (σv0, u0 with steady seepage between
+//! piezometric levels, σ'v0, σ'p0), one-dimensional
 //! compressibility from Cr/Cc (e–log σ'), and undrained strength by SHANSEP
 //! (Ladd & Foott 1974; Ladd 1991) or a gain ratio, never below measured su0.
 
@@ -8,6 +9,9 @@ use serde::Serialize;
 
 /// ln(10), for converting Cc/Cr (per log10 cycle) to tangent moduli.
 const LN10: f64 = std::f64::consts::LN_10;
+
+/// Least σ'v0 a node takes, kPa: the surface node's σ'v0 is 0 exactly.
+pub const SURFACE_FLOOR_KPA: f64 = 0.1;
 
 /// Properties a clay node needs, copied from its layer.
 #[derive(Debug, Clone, Copy, Serialize)]
@@ -30,7 +34,7 @@ pub struct Node {
     pub layer: usize,
     /// Total vertical stress, kPa.
     pub sigma_v0_kpa: f64,
-    /// Hydrostatic pore pressure, kPa.
+    /// Initial pore pressure (`u0`), kPa.
     pub u0_kpa: f64,
     /// Initial vertical effective stress, kPa.
     pub sigma_v0_eff_kpa: f64,
@@ -65,9 +69,81 @@ pub fn sigma_v0(ground: &Ground, z_m: f64) -> f64 {
     sum
 }
 
-/// Hydrostatic pore pressure at depth z, kPa.
+/// Initial (steady) pore pressure at depth z below OGL, kPa:
+/// u0 = γw × (h(z) + z) from the piezometric head h of `head_m`, and 0
+/// where the head lies below the point (above the water table, suction
+/// neglected: common practice).
 pub fn u0(ground: &Ground, z_m: f64) -> f64 {
-    GAMMA_W * (z_m - ground.groundwater_depth_m).max(0.0)
+    GAMMA_W * (head_m(ground, z_m) + z_m).max(0.0)
+}
+
+/// Initial piezometric head at depth z, as an elevation above OGL, m
+/// (−groundwater depth where the water is hydrostatic). The one rule every
+/// engine uses for the initial pore pressure (σ'v0, σ'p, su0, the
+/// consolidation start, piezometer baselines, sand in stability):
+/// - a sand layer: its `piezometric_level_m` where given, else the water
+///   table (an `ru` is a stability-only idealisation of the pore pressure
+///   at failure (Bishop & Morgenstern 1960), not an initial state, so an
+///   `ru` sand is hydrostatic here);
+/// - a stack of contiguous clay layers: steady vertical seepage between
+///   its drained boundaries with the head linear in depth (Darcy flow
+///   through a uniform permeability; common practice). The upper boundary
+///   is the sand above with a piezometric level at the stack's top, else
+///   the water table (at the stack's top, or at its own depth where it lies
+///   inside the stack; above it u0 = 0). The lower boundary is the sand
+///   below at the stack's base; on a drained base the water table's head;
+///   on an undrained base no flow, so the head of the upper boundary
+///   throughout.
+pub fn head_m(ground: &Ground, z_m: f64) -> f64 {
+    let layers = &ground.layers;
+    let water = -ground.groundwater_depth_m;
+    let sand_head = |l: &Layer| match l.pore {
+        PoreWater::Level { elevation_m } => elevation_m,
+        PoreWater::Hydrostatic | PoreWater::Ratio { .. } => water,
+    };
+    let is_clay = |i: usize| matches!(layers[i].kind, LayerKind::Clay(_));
+    let mut i = layer_index(ground, z_m);
+    // The base of a clay stack resting on the stiff base is still clay.
+    if !is_clay(i) && i > 0 && is_clay(i - 1) && (z_m - layer_top(ground, i)).abs() < 1e-9 {
+        i -= 1;
+    }
+    if !is_clay(i) {
+        return if matches!(layers[i].kind, LayerKind::StiffBase) { water } else { sand_head(&layers[i]) };
+    }
+    let first = (0..=i).rev().take_while(|&k| is_clay(k)).last().unwrap_or(i);
+    let last = (i..layers.len()).take_while(|&k| is_clay(k)).last().unwrap_or(i);
+    let (z_top, z_bot) = (layer_top(ground, first), layer_top(ground, last) + layers[last].thickness_m);
+    let (z_a, h_a) = match first.checked_sub(1).map(|k| &layers[k]) {
+        Some(l @ Layer { kind: LayerKind::Sand { .. }, pore: PoreWater::Level { .. }, .. }) => (z_top, sand_head(l)),
+        _ if -water > z_top && -water < z_bot => (-water, water),
+        _ => (z_top, water),
+    };
+    let h_b = match layers.get(last + 1) {
+        Some(l) if matches!(l.kind, LayerKind::Sand { .. }) => sand_head(l),
+        _ if ground.base_drained => water,
+        _ => h_a,
+    };
+    if z_m <= z_a { h_a } else { h_a + (h_b - h_a) * (z_m - z_a) / (z_bot - z_a) }
+}
+
+/// Where the initial effective stress σ'v0 = σv0 − u0 is not positive
+/// below the ground surface (the ground would heave: uplift), the first
+/// such depth z m with (σ'v0, σv0, u0) kPa. σ'v0 is piecewise linear in
+/// depth between layer boundaries, the water table and the seepage
+/// boundaries, so it is checked there, at mid-layer and just below the
+/// surface.
+pub fn uplift(ground: &Ground) -> Option<(f64, f64, f64, f64)> {
+    let mut zs = vec![1e-3, ground.groundwater_depth_m];
+    let mut top = 0.0;
+    for l in ground.layers.iter().filter(|l| !matches!(l.kind, LayerKind::StiffBase)) {
+        zs.extend([top + 1e-9, top + 0.5 * l.thickness_m, top + l.thickness_m]);
+        top += l.thickness_m;
+    }
+    zs.sort_by(f64::total_cmp);
+    zs.into_iter().filter(|&z| z > 0.0 && z <= top).find_map(|z| {
+        let (sv, u) = (sigma_v0(ground, z), u0(ground, z));
+        (sv - u <= 0.0).then_some((z, sv - u, sv, u))
+    })
 }
 
 /// Index of the layer containing depth z (the lower one at an interface).
@@ -195,7 +271,11 @@ pub fn node_at_layer(project: &Project, z_m: f64, li: usize) -> Node {
     let layer = &g.layers[li];
     let sv = sigma_v0(g, z_m);
     let u = u0(g, z_m);
-    let se = (sv - u).max(0.1);
+    // σ'v0 is 0 at the ground surface and the e–log σ' law needs a positive
+    // stress: a numerical floor of SURFACE_FLOOR_KPA (reached only in the
+    // top centimetres; σ'v0 ≤ 0 below the surface is refused at input by
+    // `uplift`).
+    let se = (sv - u).max(SURFACE_FLOOR_KPA);
     let (clay, sp, su_m) = match &layer.kind {
         LayerKind::Clay(c) => {
             let sp = match c.preconsolidation {
@@ -345,6 +425,69 @@ mod tests {
         assert!((sigma_v0(&g, 5.0) - u0(&g, 5.0) - 43.76).abs() < 1e-9);
         // Above the water table: σv = 0.5 × 17.
         assert!((sigma_v0(&g, 0.5) - 8.5).abs() < 1e-9);
+    }
+
+    /// 6 m of clay (16 kN/m³, OCR 1.5, SHANSEP 0.22/0.8) on 2 m of sand
+    /// whose piezometric level is `level` (None: hydrostatic), water table
+    /// `dw` m down, on a stiff base.
+    fn clay_on_sand(level: Option<f64>, dw: f64) -> Project {
+        let level = level.map_or(String::new(), |h| format!("piezometric_level_m = {h}\n"));
+        crate::fixtures::project(&format!(
+            "[ground]\ngroundwater_depth_m = {dw}\n[[ground.layers]]\nname = \"clay\"\nkind = \"clay\"\nthickness_m = 6.0\nunit_weight_kn_m3 = 16.0\ne0 = 1.5\ncc = 0.6\ncr = 0.06\nocr = 1.5\ncv_m2_per_year = 1.0\n[[ground.layers]]\nname = \"sand\"\nkind = \"sand\"\nthickness_m = 2.0\nunit_weight_kn_m3 = 19.0\n{level}[[ground.layers]]\nname = \"base\"\nkind = \"stiff-base\"\nunit_weight_kn_m3 = 21.0\n"
+        ))
+    }
+
+    #[test]
+    fn artesian_sand_lowers_the_clay_effective_stress_and_strength() {
+        // Hand calculation (steady vertical seepage, head linear in depth
+        // across the clay: common practice). Water table at OGL (head 0 at
+        // the top of the clay), sand level 2 m above OGL (head +2 m at the
+        // clay's base, z = 6 m). At mid-depth z = 3 m: head = 0 + 2 × 3/6 =
+        // 1 m; u0 = 9.81 × (1 + 3) = 39.24 kPa; σv0 = 16 × 3 = 48 kPa;
+        // σ'v0 = 8.76 kPa; σ'p = 1.5 × 8.76 = 13.14 kPa; SHANSEP (Ladd
+        // 1991) su0 = 0.22 × 8.76 × 1.5^0.8 = 2.666 kPa. Hydrostatic would
+        // give u0 = 29.43, σ'v0 = 18.57 kPa and su0 = 5.651 kPa: more than
+        // twice as strong (the defect this replaces).
+        let p = clay_on_sand(Some(2.0), 0.0);
+        assert!((head_m(&p.ground, 3.0) - 1.0).abs() < 1e-12);
+        let n = node_at(&p, 3.0);
+        assert!((n.u0_kpa - 39.24).abs() < 1e-9, "u0 {}", n.u0_kpa);
+        assert!((n.sigma_v0_eff_kpa - 8.76).abs() < 1e-9, "σ'v0 {}", n.sigma_v0_eff_kpa);
+        assert!((n.sigma_p0_kpa - 13.14).abs() < 1e-9, "σ'p {}", n.sigma_p0_kpa);
+        assert!((n.su0_kpa - 2.6656).abs() < 1e-3, "su0 {}", n.su0_kpa);
+        let hydro = node_at(&clay_on_sand(None, 0.0), 3.0);
+        assert!((hydro.su0_kpa - 5.6508).abs() < 1e-3, "hydrostatic su0 {}", hydro.su0_kpa);
+        // The same u0 reaches the consolidation engine's initial state and
+        // the strength field the stability section reads.
+        let engine = crate::response::Engine::new(&p);
+        let field = engine.field(&engine.initial_state());
+        assert!((field.sample(0.0, 3.0) - n.su0_kpa).abs() < 1e-6, "field {}", field.sample(0.0, 3.0));
+        // In the sand the head is the level: u0 = 9.81 × (2 + 7) at 7 m.
+        assert!((u0(&p.ground, 7.0) - 88.29).abs() < 1e-9);
+        // Water table 1 m down, inside the clay: the seepage runs from the
+        // water table (head −1 m at z = 1 m) to the sand (+2 m at 6 m), so
+        // at z = 3.5 m the head is −1 + 3 × 2.5/5 = 0.5 m and u0 =
+        // 9.81 × 4 = 39.24 kPa; above the water table u0 = 0.
+        let p = clay_on_sand(Some(2.0), 1.0);
+        assert!((u0(&p.ground, 3.5) - 39.24).abs() < 1e-9);
+        assert_eq!(u0(&p.ground, 0.5), 0.0);
+    }
+
+    #[test]
+    fn an_undrained_base_carries_the_upper_head_through_the_clay() {
+        // Hand arithmetic: a 2 m sand at the surface with its level 0.5 m
+        // below OGL (water table 1 m down) over 10 m of clay. On an
+        // undrained base there is no flow, so the head is −0.5 m throughout
+        // and at z = 7 m u0 = 9.81 × 6.5 = 63.765 kPa; on a drained base the
+        // head runs linearly from −0.5 m (z = 2) to −1 m (z = 12): −0.75 m
+        // at z = 7, u0 = 9.81 × 6.25 = 61.3125 kPa.
+        let mut g = two_layer_ground();
+        g.layers[0].kind = LayerKind::Sand { friction_deg: 32.0, cohesion_kpa: 0.0 };
+        g.layers[0].pore = PoreWater::Level { elevation_m: -0.5 };
+        assert!((u0(&g, 7.0) - 61.3125).abs() < 1e-9, "{}", u0(&g, 7.0));
+        g.base_drained = false;
+        assert!((u0(&g, 7.0) - 63.765).abs() < 1e-9, "{}", u0(&g, 7.0));
+        assert!(uplift(&g).is_none());
     }
 
     #[test]

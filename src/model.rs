@@ -113,13 +113,15 @@ pub struct Layer {
     /// Saturated unit weight below the water table, kN/m³.
     pub saturated_unit_weight_kn_m3: f64,
     pub kind: LayerKind,
-    /// Pore pressure in the layer for the stability of a drained (sand)
-    /// layer; clay is analysed undrained and always `Hydrostatic` here.
+    /// Pore water of a drained (sand) layer: its level also sets the
+    /// initial pore pressure of the clay next to it (`ground::head_m`); clay
+    /// is analysed undrained and always `Hydrostatic` here.
     pub pore: PoreWater,
 }
 
-/// How the pore pressure in a drained layer (or the fill) is described for
-/// stability. Excess pore pressure from loading is that of the
+/// How the pore pressure in a drained layer (or the fill) is described:
+/// a level is the initial head (`ground::head_m`); an ru is for stability
+/// only. Excess pore pressure from loading is that of the
 /// consolidation model (none in free-draining sand).
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 #[serde(tag = "by", rename_all = "kebab-case")]
@@ -551,7 +553,8 @@ pub struct MonitoringRules {
     /// RMS misfit of any one instrument, in its reading standard deviations,
     /// above which the model is taken not to explain the readings.
     pub instrument_misfit_limit: f64,
-    /// Piezometer readings further than this below hydrostatic are suspect, kPa.
+    /// Piezometer readings further than this below the initial pore pressure
+    /// u0 (`ground::u0`) are suspect, kPa.
     pub piezometer_tolerance_kpa: f64,
     /// Plate readings showing more heave than this are suspect, m.
     pub settlement_noise_m: f64,

@@ -159,6 +159,7 @@ fn info(c: &mut Check, r: &RawInfo) -> ProjectInfo {
 fn ground(c: &mut Check, r: &RawGround) -> Ground {
     let base_drained =
         c.choice("ground.base_drainage", r.base_drainage.as_deref(), &["drained", "undrained"]) == "drained";
+    let before = c.issues.len();
     let gwd = c.num("ground.groundwater_depth_m", r.groundwater_depth_m, Low::Incl(0.0), 50.0);
     if r.layers.is_empty() {
         c.bad("ground.layers", "is empty; give at least one clay layer".into());
@@ -177,7 +178,40 @@ fn ground(c: &mut Check, r: &RawGround) -> Ground {
     if depth > 80.0 {
         c.bad("ground.layers", format!("total thickness {depth} m above the base exceeds the supported 80 m"));
     }
-    Ground { groundwater_depth_m: gwd, layers, base_drained }
+    let ground = Ground { groundwater_depth_m: gwd, layers, base_drained };
+    if c.issues.len() == before {
+        uplift(c, &ground);
+    }
+    ground
+}
+
+/// A piezometric level that lifts the ground (σ'v0 ≤ 0 below the surface)
+/// is refused, naming the level that causes it: the point's own layer's,
+/// else the nearest below it (artesian pressure acts from below), else the
+/// nearest above.
+fn uplift(c: &mut Check, g: &Ground) {
+    let Some((z, se, sv, u)) = crate::ground::uplift(g) else { return };
+    let at = crate::ground::layer_index(g, (z - 1e-6).max(0.0));
+    let level = |i: usize| matches!(g.layers[i].pore, PoreWater::Level { .. });
+    let i = (at..g.layers.len()).find(|&i| level(i)).or_else(|| (0..at).rev().find(|&i| level(i)));
+    let (key, value) = match i.map(|i| (i, g.layers[i].pore)) {
+        Some((i, PoreWater::Level { elevation_m })) => {
+            (format!("ground.layers[{i}].piezometric_level_m"), format!("= {}", show(elevation_m)))
+        }
+        _ => ("ground.layers".to_string(), "as given".to_string()),
+    };
+    c.bad(
+        &key,
+        format!(
+            "{} lifts the ground: at {:.2} m depth (layer \"{}\") the initial pore pressure u0 = {:.1} kPa reaches the total vertical stress σv0 = {:.1} kPa, so σ'v0 = {:.1} kPa; allowed: a level that leaves σ'v0 > 0 at every depth (the ground would heave or boil: uplift)",
+            value,
+            z,
+            g.layers[at].name,
+            u,
+            sv,
+            se
+        ),
+    );
 }
 
 fn layer(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, last: bool) -> Layer {
@@ -225,9 +259,11 @@ fn layer(c: &mut Check, key: &str, r: &RawLayer, top_m: f64, last: bool) -> Laye
     }
 }
 
-/// Pore pressure of a sand layer for stability: hydrostatic unless a
-/// piezometric level or an ru is given (not both). Clay is analysed
-/// undrained (su from the consolidation model), so neither key applies.
+/// Pore pressure of a sand layer: hydrostatic unless a piezometric level
+/// (which also sets the clay's initial pore pressure by seepage) or an ru
+/// (stability only) is given, not both. Clay is analysed undrained (su
+/// from the consolidation model) and its u0 follows from its boundaries,
+/// so neither key applies to it.
 fn pore_water(c: &mut Check, key: &str, r: &RawLayer, kind: &str) -> PoreWater {
     let k = |f: &str| format!("{key}.{f}");
     if kind != "sand" {

@@ -315,7 +315,7 @@ pub fn parse(text: &str, file: &str, p: &Project) -> Result<Readings> {
                 let low = u0 - p.monitoring.piezometer_tolerance_kpa;
                 let why = (u < low).then(|| {
                     format!(
-                        "{u:.1} kPa is below hydrostatic ({u0:.1} kPa) by more than the tolerance ({:.1} kPa)",
+                        "{u:.1} kPa is below the initial pore pressure u0 ({u0:.1} kPa) by more than the tolerance ({:.1} kPa)",
                         p.monitoring.piezometer_tolerance_kpa
                     )
                 });
@@ -387,7 +387,7 @@ pub fn parse(text: &str, file: &str, p: &Project) -> Result<Readings> {
                 warnings.push(Warning {
                     line: None,
                     instrument: inst.id.clone(),
-                    message: format!("baseline {b:.1} kPa differs from hydrostatic {u0:.1} kPa by more than the tolerance; check the groundwater level or the instrument"),
+                    message: format!("baseline {b:.1} kPa differs from the initial pore pressure u0 = {u0:.1} kPa by more than the tolerance; check the groundwater level or the instrument"),
                 });
             }
         }

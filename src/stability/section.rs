@@ -8,9 +8,9 @@
 //! that has sunk below original ground is fill, not clay, and clay strength
 //! is sampled at the point's original depth where the columns computed it.
 
-use crate::load;
 use crate::model::*;
 use crate::response::GroundField;
+use crate::{ground, load};
 
 #[derive(Debug, Clone, Copy)]
 pub(super) enum Material {
@@ -29,6 +29,9 @@ pub(super) struct SectionLayer {
     pub material: Material,
     /// Pore pressure in a drained layer.
     pub pore: PoreWater,
+    /// Initial piezometric head of the layer (`ground::head_m`; constant in
+    /// a sand), elevation above OGL, m.
+    pub head_m: f64,
 }
 
 /// The section at one moment: fill profile, settled ground, strength field.
@@ -86,6 +89,7 @@ impl<'a> Section<'a> {
                 gamma_sat: l.saturated_unit_weight_kn_m3,
                 material,
                 pore: l.pore,
+                head_m: ground::head_m(&project.ground, top + 0.5 * l.thickness_m),
             });
             top += l.thickness_m;
         }
@@ -257,8 +261,11 @@ impl<'a> Section<'a> {
 
     /// (c kPa, tan φ, u kPa) at a slice base at (x, y), settlement s there,
     /// under a total vertical stress `sigma_v` kPa (for ru): the fill's or
-    /// a sand layer's drained strength and pore pressure, or the clay's su
-    /// on its own side of a layer boundary (undrained, u not used).
+    /// a sand layer's drained strength and pore pressure (from the sand's
+    /// initial head, fixed in space while the point settles), or the clay's
+    /// su on its own side of a layer boundary (undrained: u not used here;
+    /// the clay's initial pore pressure enters through σ'v0 and σ'p0 of the
+    /// ground nodes, from the same `ground::head_m`).
     pub(super) fn strength_at(&self, x: f64, s: f64, y: f64, sigma_v: f64) -> (f64, f64, f64) {
         let hydrostatic = |level: f64| GAMMA_W * (level - y).max(0.0);
         if y >= -s - 1e-9 {
@@ -267,10 +274,9 @@ impl<'a> Section<'a> {
         }
         let z = self.original_depth(s, y);
         match self.layer_at(z) {
-            Some(SectionLayer { material: Material::Sand { c, tan_phi }, pore, .. }) => {
+            Some(SectionLayer { material: Material::Sand { c, tan_phi }, pore, head_m, .. }) => {
                 let u = match *pore {
-                    PoreWater::Hydrostatic => hydrostatic(self.water_y),
-                    PoreWater::Level { elevation_m } => hydrostatic(elevation_m),
+                    PoreWater::Hydrostatic | PoreWater::Level { .. } => hydrostatic(*head_m),
                     PoreWater::Ratio { ru } => ru * sigma_v,
                 };
                 (*c, *tan_phi, u)

@@ -66,3 +66,28 @@ fn several_problems_are_reported_together() {
         other => panic!("not refused: {other:?}"),
     }
 }
+
+#[test]
+fn an_artesian_level_that_lifts_the_ground_is_refused() {
+    // Hand arithmetic: 10 m of clay at 16 kN/m³, water table 1 m down, on
+    // a sand whose level is 8 m above ground. At the clay's base (10 m)
+    // σv0 = 160 kPa and u0 = 9.81 × (8 + 10) = 176.6 kPa: σ'v0 < 0, the
+    // ground would heave. A level of 4 m leaves σ'v0 = 160 − 137.3 > 0.
+    let text =
+        std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/tests/data/bad/artesian-uplift.toml")).unwrap();
+    match crate::input::parse(&text, "uplift.toml") {
+        Err(Error::Input { issues, .. }) => {
+            let hit = issues.iter().find(|i| i.key == "ground.layers[1].piezometric_level_m");
+            let hit = hit.unwrap_or_else(|| panic!("{issues:?}"));
+            let line = text.lines().position(|l| l.starts_with("piezometric_level_m")).unwrap() + 1;
+            assert_eq!(hit.line, Some(line));
+            for words in ["= 8 lifts the ground", "layer \"clay\"", "u0 = 176.6 kPa", "σv0 = 160.0 kPa", "σ'v0 > 0"] {
+                assert!(hit.message.contains(words), "{words}: {}", hit.message);
+            }
+        }
+        other => panic!("not refused: {other:?}"),
+    }
+    assert!(
+        crate::input::parse(&text.replace("piezometric_level_m = 8.0", "piezometric_level_m = 4.0"), "ok.toml").is_ok()
+    );
+}

@@ -290,7 +290,7 @@ pub fn readings_page(c: &mut Canvas, r: &ReleaseReport) {
         vlines: Vec::new(),
     }
     .draw(c);
-    chart_for(InstrumentKind::Piezometer, "Excess pore pressure above hydrostatic", "excess (kPa)", 1.0, cells[1])
+    chart_for(InstrumentKind::Piezometer, "Excess pore pressure above the initial u0", "excess (kPa)", 1.0, cells[1])
         .draw(c);
     chart_for(InstrumentKind::SettlementPlate, "Settlement of the plates", "settlement (mm)", 1000.0, lower[0]).draw(c);
     chart_for(InstrumentKind::LateralMarker, "Outward movement of the markers", "movement (mm)", 1000.0, lower[1])

@@ -187,3 +187,24 @@ fn pore_pressure_descriptions_by_hand() {
     let s = Section::new(&p, 5.0, &field);
     assert!((s.strength_at(0.0, 0.0, -3.0, 0.0).2 - 29.43).abs() < 1e-9);
 }
+
+#[test]
+fn an_artesian_sand_never_raises_the_fs() {
+    // Physical bound: raising the piezometric level of the sand under the
+    // clay raises u0 in the clay (steady seepage), lowers σ'v0, σ'p and
+    // SHANSEP su0, and lowers the sand's effective stress, so the governing
+    // FS of the same section cannot rise; here it must fall, since su0 at
+    // the clay's mid-depth is about halved (ground::tests' hand figures).
+    let fs = |level: &str| {
+        let p = fixtures::project(&format!(
+            "[ground]\ngroundwater_depth_m = 0.0\n[[ground.layers]]\nname = \"clay\"\nkind = \"clay\"\nthickness_m = 6.0\nunit_weight_kn_m3 = 16.0\ne0 = 1.5\ncc = 0.6\ncr = 0.06\nocr = 1.5\ncv_m2_per_year = 1.0\n[[ground.layers]]\nname = \"sand\"\nkind = \"sand\"\nthickness_m = 2.0\nunit_weight_kn_m3 = 19.0\n{level}[[ground.layers]]\nname = \"base\"\nkind = \"stiff-base\"\nunit_weight_kn_m3 = 21.0\n"
+        ));
+        let engine = Engine::new(&p);
+        let field = engine.field(&engine.initial_state());
+        search(&Section::new(&p, 1.5, &field)).unwrap().governing_fs()
+    };
+    let hydrostatic = fs("");
+    let artesian = fs("piezometric_level_m = 2.0\n");
+    assert!(artesian < hydrostatic - 0.05, "artesian {artesian} vs hydrostatic {hydrostatic}");
+    assert!(fs("piezometric_level_m = 1.0\n") <= hydrostatic + 1e-9);
+}
