@@ -147,7 +147,9 @@ fn cohesionless_slope_with_pore_pressure_ratio() {
     // Closed form (Skempton & DeLory 1957): a c' = 0 slope with ru has
     // FS = m − n·ru with m = tan φ'/tan β and n = m sec²β; Bishop &
     // Morgenstern's (1960) stability coefficients for c'/γH = 0 reduce to
-    // these (from memory: their table values were not confirmed here).
+    // these: Smith's Elements of Soil Mechanics, Example 13.10, reads m =
+    // 1.3 and n = 1.54 off their chart at cot β = 2.25, φ' = 30°, where
+    // the closed form gives 1.299 and 1.556 (chart-reading accuracy).
     // φ' = 34°, 2:1 face, ru = 0.2: m = 1.3490, n = 1.6862, FS = 1.0118;
     // the governing FS of the full search within ± 0.02 (no circle lower).
     let mut p = fill_on_rigid_base(0.0, 34.0, 5.0, 2.0);
