@@ -358,6 +358,39 @@ pub struct StabilityOptions {
     /// Pore-pressure ratio ru in the fill (0: hydrostatic below the water
     /// table only).
     pub fill_ru: f64,
+    /// The fill strength of the fill-face check (`stability.face_strength`).
+    pub face_strength: FaceStrength,
+}
+
+/// Which fill strength the infinite-slope check of the fill face uses.
+/// `fill_strength_factor` stands for strain compatibility between the fill
+/// and the clay on deep circles; a shallow slide within the face mobilises
+/// the fill's own strength, hence the default.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum FaceStrength {
+    /// The fill's own c' and φ' (the default).
+    Own,
+    /// c' and tan φ' after `fill_strength_factor`, as on the circles.
+    Factored,
+}
+
+impl FaceStrength {
+    /// Name as written in the project file.
+    pub fn label(self) -> &'static str {
+        match self {
+            FaceStrength::Own => "own",
+            FaceStrength::Factored => "factored",
+        }
+    }
+
+    /// One phrase for reports.
+    pub fn describe(self) -> &'static str {
+        match self {
+            FaceStrength::Own => "the fill's own c' and φ' (not reduced by fill_strength_factor)",
+            FaceStrength::Factored => "the fill's c' and tan φ' reduced by fill_strength_factor, as on the circles",
+        }
+    }
 }
 
 /// How consolidation is modelled.

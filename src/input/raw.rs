@@ -150,6 +150,7 @@ pub struct RawStability {
     pub slices: Option<i64>,
     pub crack_water_fraction: Option<f64>,
     pub fill_ru: Option<f64>,
+    pub face_strength: Option<String>,
 }
 
 #[derive(Debug, Deserialize)]

@@ -597,6 +597,14 @@ fn stability(c: &mut Check, r: Option<&RawStability>) -> StabilityOptions {
             1.0,
         ),
         fill_ru: c.opt("stability.fill_ru", r.and_then(|s| s.fill_ru), 0.0, Low::Incl(0.0), 0.9),
+        face_strength: match c.choice(
+            "stability.face_strength",
+            r.and_then(|s| s.face_strength.as_deref()),
+            &[FaceStrength::Own.label(), FaceStrength::Factored.label()],
+        ) {
+            "factored" => FaceStrength::Factored,
+            _ => FaceStrength::Own,
+        },
     }
 }
 

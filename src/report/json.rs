@@ -28,6 +28,8 @@ struct Head<'a> {
     source: &'a str,
     /// The stage geometry used (`embankment.stage_shape`).
     stage_shape: &'static str,
+    /// The fill strength of the fill-face check (`stability.face_strength`).
+    face_strength: &'static str,
 }
 
 /// Pretty JSON of `result` in the envelope.
@@ -69,6 +71,7 @@ fn with_cautions<T: Serialize>(
             reference: &project.info.reference,
             source,
             stage_shape: project.embankment.stage_shape.label(),
+            face_strength: project.stability.face_strength.label(),
         },
         result,
         warnings,

@@ -101,12 +101,13 @@ pub(crate) fn wrap(text: &str, width: usize, indent: &str) -> String {
 
 fn header(p: &Project, what: &str) -> String {
     format!(
-        "{what}: {}\n{} | {} | rev {}\nStage geometry: {}.\n\n",
+        "{what}: {}\n{} | {} | rev {}\nStage geometry: {}.\nFill face check (infinite slope): {}.\n\n",
         p.info.title,
         p.info.reference,
         p.info.location,
         p.info.revision,
-        p.embankment.stage_shape.describe()
+        p.embankment.stage_shape.describe(),
+        p.stability.face_strength.describe()
     )
 }
 
@@ -305,10 +306,16 @@ pub fn stability_search(p: &Project, height: f64, when: &str, placed: f64, s: &S
 fn face_line(s: &SearchResult) -> String {
     match &s.face {
         Some(f) => format!(
-            "Fill face as an infinite slope (β = {:.1}°, ru = {:.2}, plane {:.2} m deep): FS = {:.3}\n",
-            f.slope_deg, f.ru, f.depth_m, f.fs
+            "Fill face as an infinite slope (β = {:.1}°, ru = {:.2}, plane {:.2} m deep, {} strength c' = {:.1} kPa, φ' = {:.1}°): FS = {:.3}\n",
+            f.slope_deg,
+            f.ru,
+            f.depth_m,
+            f.strength.label(),
+            f.cohesion_kpa,
+            f.friction_deg,
+            f.fs
         ),
-        None => "Fill face: not checked (no fill, or a fill with no strength, taken as a load)\n".into(),
+        None => "Fill face: not checked (no fill, or no fill strength for the face check: a load with face_strength = \"factored\")\n".into(),
     }
 }
 

@@ -4,10 +4,11 @@
 //! strength does (a practising engineer's review found 1.56 against 1.31 on
 //! the demo), so wherever it is used the same section is also evaluated
 //! with the fill at the strength the file gives it, and the lower FS is
-//! kept (the face stays unchecked, as for a load). Conservative by
+//! kept (the face check is the file's: at the fill's own strength by
+//! default, none with `face_strength = "factored"`). Conservative by
 //! construction: the answer never exceeds either idealisation.
 
-use super::search::{SearchResult, search};
+use super::search::{FACE_MECHANISM, SearchResult, search};
 use super::{Circle, CircleResult, Reject, Section};
 use crate::error::Result;
 use crate::model::Project;
@@ -38,9 +39,12 @@ pub fn lower_search(p: &Project, height_m: f64, field: &GroundField, found: Sear
         return Ok(found);
     }
     let mut r = other;
-    r.face = None;
-    r.fs_governing = r.critical.fs;
-    r.mechanism = format!("{} (circle through the fill at its own strength)", r.critical.band);
+    // The face check is that of the file's own settings (`found`).
+    r.face = found.face;
+    (r.fs_governing, r.mechanism) = match r.face {
+        Some(f) if f.fs < r.critical.fs => (f.fs, FACE_MECHANISM.to_string()),
+        _ => (r.critical.fs, format!("{} (circle through the fill at its own strength)", r.critical.band)),
+    };
     Ok(r)
 }
 

@@ -50,6 +50,11 @@ pub struct Section<'a> {
     pub(super) fill_tan_phi: f64,
     /// Pore-pressure ratio in the fill (0: hydrostatic below the water table).
     pub(super) fill_ru: f64,
+    /// Fill c' kPa and tan φ' of the fill-face check, and which they are
+    /// (`stability.face_strength`).
+    pub(super) face_c: f64,
+    pub(super) face_tan_phi: f64,
+    pub(super) face_strength: FaceStrength,
     /// Rankine tension-crack depth of the fill, 2c'/(γ√Ka) with the reduced
     /// c' and φ' (Ka = tan²(45° − φ'/2)), m; 0 with the crack off.
     pub(super) crack_depth_m: f64,
@@ -95,6 +100,10 @@ impl<'a> Section<'a> {
         }
         let fill_c = o.fill_strength_factor * e.fill_cohesion_kpa;
         let fill_tan_phi = o.fill_strength_factor * e.fill_friction_deg.to_radians().tan();
+        let (face_c, face_tan_phi) = match o.face_strength {
+            FaceStrength::Own => (e.fill_cohesion_kpa, e.fill_friction_deg.to_radians().tan()),
+            FaceStrength::Factored => (fill_c, fill_tan_phi),
+        };
         let mut s = Section {
             surface: Vec::new(),
             ground_line: Vec::new(),
@@ -104,6 +113,9 @@ impl<'a> Section<'a> {
             fill_c,
             fill_tan_phi,
             fill_ru: o.fill_ru,
+            face_c,
+            face_tan_phi,
+            face_strength: o.face_strength,
             crack_depth_m: if o.fill_tension_crack {
                 rankine_crack_depth(fill_c, fill_tan_phi, e.fill_unit_weight_kn_m3)
             } else {

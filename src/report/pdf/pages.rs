@@ -153,6 +153,7 @@ pub fn summary(c: &mut Canvas, ctx: &Ctx) {
         ("Lowest FS", format!("{:.2} at the end of stage {}", pl.min_fs, pl.min_fs_stage)),
         ("FS at finish", format!("{:.3}", pl.fs_finish)),
         ("Stage geometry", pl.stage_shape.describe().to_string()),
+        ("Fill face check", format!("infinite slope with {}", p.stability.face_strength.describe())),
         (
             "Settlement (centreline)",
             format!(
@@ -392,7 +393,7 @@ pub fn inputs(c: &mut Canvas, ctx: &Ctx) {
             }
         ),
         format!(
-            "Analysis: {} consolidation, pore pressure {}, node spacing ≤ {} m, steps {} / {} days; stability: {} slices, fill strength factor {}, tension crack {}, fill ru {}; FS is the lower of the critical circle and the fill face as an infinite slope.",
+            "Analysis: {} consolidation, pore pressure {}, node spacing ≤ {} m, steps {} / {} days; stability: {} slices, fill strength factor {}, tension crack {}, fill ru {}; FS is the lower of the critical circle and the fill face as an infinite slope, the face checked with {}.",
             p.analysis.mode.describe(),
             match p.analysis.pore_pressure {
                 crate::model::PorePressureRule::Vertical => "Δu = Δσz".to_string(),
@@ -411,7 +412,8 @@ pub fn inputs(c: &mut Canvas, ctx: &Ctx) {
             } else {
                 "none".to_string()
             },
-            p.stability.fill_ru
+            p.stability.fill_ru,
+            p.stability.face_strength.describe()
         ),
     ];
     for l in lines {

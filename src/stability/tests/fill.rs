@@ -40,7 +40,15 @@ fn strengthless_fill_is_a_load_in_the_full_search() {
     // Every candidate passes through the foundation: each band's best
     // circle reaches below the ground and none is a fill band.
     assert!(r.bands.iter().all(|b| b.band != "fill" && b.circle.depth_m > 0.0));
-    assert!(r.face.is_none());
+    // The face is checked at the fill's own strength (the default): c' = 0,
+    // φ' = 30° on a face at 1000:1, tan 30°/1000 (closed form); with
+    // face_strength = "factored" the load has no strength and no face.
+    let f = r.face.expect("face at the fill's own strength");
+    assert_eq!(f.strength, FaceStrength::Own);
+    assert!((f.fs - 30f64.to_radians().tan() * 0.001).abs() < 1e-9, "{}", f.fs);
+    let mut factored = p.clone();
+    factored.stability.face_strength = FaceStrength::Factored;
+    assert!(search(&Section::new(&factored, h, &field)).unwrap().face.is_none());
     // A circle wholly within the fill cannot be analysed.
     let in_fill = s.analyse(Circle { xc_m: 2.0, yc_m: 6.0, r_m: 3.0 });
     assert_eq!(in_fill.unwrap_err(), Reject::NoIntersection);
@@ -160,4 +168,31 @@ fn cohesionless_slope_with_pore_pressure_ratio() {
     let expect = m - 1.25 * m * 0.2;
     assert!((r.governing_fs() - expect).abs() < 0.02, "{} vs {expect}", r.governing_fs());
     assert!(r.critical.fs > expect - 0.02, "a circle at {} is below the closed form", r.critical.fs);
+}
+
+#[test]
+fn the_face_check_uses_the_strength_the_file_chooses() {
+    // Closed form (Skempton & DeLory 1957; common practice): a c' = 0 face
+    // has FS = tan φ'/tan β. φ' = 34° on 2:1 with fill_strength_factor
+    // 0.5: the fill's own strength gives tan 34° × 2 = 1.3490 (default
+    // `face_strength = "own"`); the factored one 0.5 × 1.3490 = 0.6745,
+    // which then governs (circles in the half-strength fill tend to it
+    // from above). Each within 1%, the strength named in the result.
+    let mut p = fill_on_rigid_base(0.0, 34.0, 5.0, 2.0);
+    p.stability.fill_strength_factor = 0.5;
+    let field = uniform_su(500.0);
+    let own = 34f64.to_radians().tan() * 2.0;
+    let r = search(&Section::new(&p, 5.0, &field)).unwrap();
+    let f = r.face.unwrap();
+    assert_eq!(f.strength, FaceStrength::Own);
+    assert!((f.fs - own).abs() < 0.01 * own, "own: {} vs {own}", f.fs);
+    assert!((f.friction_deg - 34.0).abs() < 1e-9);
+    assert_eq!(r.governing_fs(), r.critical.fs.min(f.fs));
+    p.stability.face_strength = FaceStrength::Factored;
+    let r = search(&Section::new(&p, 5.0, &field)).unwrap();
+    let f = r.face.unwrap();
+    assert_eq!(f.strength, FaceStrength::Factored);
+    assert!((f.fs - 0.5 * own).abs() < 0.01 * own, "factored: {} vs {}", f.fs, 0.5 * own);
+    assert!((r.governing_fs() - 0.5 * own).abs() < 0.01 * 0.5 * own);
+    assert_eq!(r.governing_mechanism(), FACE_MECHANISM);
 }
