@@ -378,6 +378,28 @@ fn every_output_names_the_stage_geometry() {
         .stdout(predicate::str::contains("Stage geometry: full-footprint"));
 }
 
+#[test]
+fn every_output_names_the_strength_of_the_face_check() {
+    // stability.face_strength: the text header, the JSON envelope and the
+    // face check itself say which fill strength the face check used.
+    let out = fillpace().args(["stability", DEMO, "--height", "2", "--json"]).output().unwrap();
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["project"]["face_strength"], "own");
+    assert_eq!(v["result"]["face"]["strength"], "own", "{}", v["result"]);
+    fillpace()
+        .args(["stability", DEMO, "--height", "2"])
+        .assert()
+        .success()
+        .stdout(predicate::str::contains("Fill face check (infinite slope): the fill's own c' and φ'"))
+        .stdout(predicate::str::contains("own strength c' = 0.0 kPa, φ' = 34.0°"));
+    let dir = tempfile::tempdir().unwrap();
+    let path =
+        demo_variant(dir.path(), "factored.toml", |t| format!("{t}\n[stability]\nface_strength = \"factored\"\n"));
+    let out = fillpace().arg("stability").arg(&path).args(["--height", "2", "--json"]).output().unwrap();
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["project"]["face_strength"], "factored");
+}
+
 /// Write `text` with `edit` applied to the demo into a temporary folder.
 fn demo_variant(dir: &std::path::Path, name: &str, edit: impl Fn(&str) -> String) -> std::path::PathBuf {
     let path = dir.join(name);
