@@ -16,6 +16,7 @@ mod more_inputs;
 mod options;
 mod pages;
 mod programme;
+mod programme_charts;
 
 pub use programme::corridor;
 
