@@ -52,7 +52,10 @@ fn one_section_with_unlimited_resources_is_the_sections_own_plan() {
         assert_eq!((w.start, w.end), (s.start, s.end), "stage {}", s.number);
         assert!((w.thickness_m - s.thickness_m).abs() < 1e-12);
         assert!((w.fs_end.unwrap() - s.fs_end).abs() < 1e-12, "{:?} vs {}", w.fs_end, s.fs_end);
+        assert_eq!(w.mechanism.as_deref(), Some(s.mechanism.as_str()), "stage {}", s.number);
     }
+    let lowest = plan.stages.iter().min_by(|a, b| a.fs_end.total_cmp(&b.fs_end)).unwrap();
+    assert_eq!((o.governing_stage, o.governing_mechanism.as_str()), (lowest.number, lowest.mechanism.as_str()));
     assert_eq!(o.finish, plan.finish);
     assert_eq!(prog.finish, Some(plan.finish));
     assert!((o.final_settlement_m - plan.final_primary_settlement_m).abs() < 1e-12);
@@ -416,4 +419,18 @@ fn a_forty_section_corridor_pdf_shows_every_section_on_paginated_pages() {
     assert_every_page_signed(&pages);
     let total = pages.len();
     assert!(pages.iter().enumerate().all(|(i, t)| t.contains(&format!("Page {} of {total}", i + 1))));
+}
+
+#[test]
+fn the_pdf_never_overwrites_a_section_file() {
+    let dir = tempfile::tempdir().unwrap();
+    let quick = dir.path().join("quick.toml");
+    std::fs::copy(root("tests/data/corridor/quick.toml"), &quick).unwrap();
+    let before = std::fs::read(&quick).unwrap();
+    let path = dir.path().join("c.toml");
+    std::fs::write(&path, corridor_text("", &section("a", 0.0, 100.0, ""))).unwrap();
+    let out = fillpace().arg("corridor").arg(&path).arg("--pdf").arg(&quick).output().unwrap();
+    assert_eq!(out.status.code(), Some(2), "{}", String::from_utf8_lossy(&out.stderr));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("is also an input"));
+    assert_eq!(std::fs::read(&quick).unwrap(), before, "the section file is untouched");
 }
