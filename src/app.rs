@@ -67,8 +67,9 @@ fn dispatch(cmd: &Command) -> Result<String> {
             let opts = crate::risk::RiskOptions { runs: *runs, seed: *seed, threads: *threads };
             risk(project, opts, *max_failure_probability, pdf.as_deref(), *json)
         }
-        Command::Corridor { corridor, csv, ics, json } => {
-            corridor_cmd(corridor.as_deref(), csv.as_deref(), ics.as_deref(), *json)
+        Command::Corridor { corridor, csv, ics, pdf, json } => {
+            let outs = CorridorOutputs { csv: csv.as_deref(), ics: ics.as_deref(), pdf: pdf.as_deref() };
+            corridor_cmd(corridor.as_deref(), &outs, *json)
         }
         Command::Release { project, readings, lift, on, pdf, log, json } => {
             let files = ReleaseFiles { readings, pdf: pdf.as_deref(), log: log.as_deref() };
@@ -397,11 +398,14 @@ pub const DEMO_CORRIDOR: &str = include_str!("../examples/kestrel-fen-corridor.t
 /// The demo corridor's low-embankment section file.
 const DEMO_LOW: &str = include_str!("../examples/kestrel-fen-low.toml");
 
-fn corridor_cmd(path: Option<&Path>, csv: Option<&Path>, ics: Option<&Path>, json: bool) -> Result<String> {
-    let inputs: Vec<&Path> = path.into_iter().collect();
-    for out in [csv, ics].into_iter().flatten() {
-        output::refuse_overwrite_of_inputs(out, &inputs)?;
-    }
+/// Where `corridor` writes its files.
+pub struct CorridorOutputs<'a> {
+    pub csv: Option<&'a Path>,
+    pub ics: Option<&'a Path>,
+    pub pdf: Option<&'a Path>,
+}
+
+fn corridor_cmd(path: Option<&Path>, outs: &CorridorOutputs, json: bool) -> Result<String> {
     let c = match path {
         Some(f) => crate::corridor::file::load(f)?,
         None => {
@@ -419,13 +423,31 @@ fn corridor_cmd(path: Option<&Path>, csv: Option<&Path>, ics: Option<&Path>, jso
             )?
         }
     };
+    if path.is_some() {
+        // The corridor file and every section file (the bundled demo's
+        // are not on disk).
+        let read: Vec<PathBuf> = c.inputs.iter().map(|i| PathBuf::from(&i.file)).collect();
+        let read: Vec<&Path> = read.iter().map(PathBuf::as_path).collect();
+        for out in [outs.csv, outs.ics, outs.pdf].into_iter().flatten() {
+            output::refuse_overwrite_of_inputs(out, &read)?;
+        }
+    }
     let total = 2 * c.sections.len();
     let p = with_counter(total, "planning sections", |tick| crate::corridor::programme::run(&c, tick))?;
-    if let Some(out) = csv {
-        output::write_atomic(out, &crate::corridor::output::csv(&p)?)?;
+    // Every file is made before any is written, so that an error leaves
+    // none behind; each is written atomically.
+    let mut files = Vec::new();
+    if let Some(out) = outs.csv {
+        files.push((out, crate::corridor::output::csv(&p)?));
     }
-    if let Some(out) = ics {
-        output::write_atomic(out, crate::corridor::output::ics(&p).as_bytes())?;
+    if let Some(out) = outs.ics {
+        files.push((out, crate::corridor::output::ics(&p).into_bytes()));
+    }
+    if let Some(out) = outs.pdf {
+        files.push((out, report::pdf::corridor(&c, &p, report::today())?));
+    }
+    for (out, bytes) in files {
+        output::write_atomic(out, &bytes)?;
     }
     if json { crate::corridor::output::json(&p, &c.file) } else { Ok(crate::corridor::output::text(&p, &c.file)) }
 }

@@ -165,7 +165,7 @@ pub enum Command {
     /// with shared fill supply, placing crews and drain rigs (the bundled
     /// demo corridor when no file is given).
     #[command(
-        after_help = "Example:\n  fillpace corridor\n  fillpace corridor examples/kestrel-fen-corridor.toml --csv works.csv --ics works.ics"
+        after_help = "Example:\n  fillpace corridor\n  fillpace corridor examples/kestrel-fen-corridor.toml --csv works.csv --ics works.ics --pdf programme.pdf"
     )]
     Corridor {
         /// Corridor file (TOML); omit to run the bundled demo corridor.
@@ -177,6 +177,10 @@ pub enum Command {
         /// iCalendar file.
         #[arg(long)]
         ics: Option<PathBuf>,
+        /// Write the programme as a PDF report (charts, section table,
+        /// inputs with SHA-256, cautions and sign-off fields).
+        #[arg(long)]
+        pdf: Option<PathBuf>,
         /// Print JSON instead of tables.
         #[arg(long)]
         json: bool,

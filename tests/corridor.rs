@@ -52,7 +52,10 @@ fn one_section_with_unlimited_resources_is_the_sections_own_plan() {
         assert_eq!((w.start, w.end), (s.start, s.end), "stage {}", s.number);
         assert!((w.thickness_m - s.thickness_m).abs() < 1e-12);
         assert!((w.fs_end.unwrap() - s.fs_end).abs() < 1e-12, "{:?} vs {}", w.fs_end, s.fs_end);
+        assert_eq!(w.mechanism.as_deref(), Some(s.mechanism.as_str()), "stage {}", s.number);
     }
+    let lowest = plan.stages.iter().min_by(|a, b| a.fs_end.total_cmp(&b.fs_end)).unwrap();
+    assert_eq!((o.governing_stage, o.governing_mechanism.as_str()), (lowest.number, lowest.mechanism.as_str()));
     assert_eq!(o.finish, plan.finish);
     assert_eq!(prog.finish, Some(plan.finish));
     assert!((o.final_settlement_m - plan.final_primary_settlement_m).abs() < 1e-12);
@@ -224,16 +227,17 @@ proptest! {
 }
 
 /// Write a corridor into a scratch folder with the quick section beside
-/// it, run the binary with --csv, and return (exit code, stderr, whether
-/// the CSV exists).
+/// it, run the binary with --csv and --pdf, and return (exit code, stderr,
+/// whether anything was written: either output or a temporary file).
 fn run_bad(text: &str) -> (Option<i32>, String, bool) {
     let dir = tempfile::tempdir().unwrap();
     std::fs::copy(root("tests/data/corridor/quick.toml"), dir.path().join("quick.toml")).unwrap();
     let path = dir.path().join("bad-corridor.toml");
     std::fs::write(&path, text).unwrap();
-    let csv = dir.path().join("works.csv");
-    let out = fillpace().args(["corridor"]).arg(&path).arg("--csv").arg(&csv).output().unwrap();
-    (out.status.code(), String::from_utf8_lossy(&out.stderr).into_owned(), csv.exists())
+    let (csv, pdf) = (dir.path().join("works.csv"), dir.path().join("works.pdf"));
+    let out = fillpace().args(["corridor"]).arg(&path).arg("--csv").arg(&csv).arg("--pdf").arg(&pdf).output().unwrap();
+    let written = csv.exists() || pdf.exists() || std::fs::read_dir(dir.path()).unwrap().count() != 2;
+    (out.status.code(), String::from_utf8_lossy(&out.stderr).into_owned(), written)
 }
 
 #[test]
@@ -300,4 +304,133 @@ fn outputs_carry_sections_activities_and_cautions() {
     let v = common::json_result(&json.stdout);
     assert_eq!(v["sections"].as_array().unwrap().len(), 2);
     assert!(v["bounds"]["latest_unconstrained_finish"].is_string());
+}
+
+/// SHA-256 of a file's bytes, computed here with the sha2 crate directly
+/// (not through fillpace's hash module); FIPS 180-4.
+fn sha256_of(path: &std::path::Path) -> String {
+    use sha2::Digest;
+    sha2::Sha256::digest(std::fs::read(path).unwrap()).iter().map(|b| format!("{b:02x}")).collect()
+}
+
+/// Every page carries the caution footer, the program version and the
+/// engineer of record's sign-off fields.
+fn assert_every_page_signed(pages: &[String]) {
+    let footer = common::collapse(&fillpace::report::caution_footer());
+    for (i, t) in pages.iter().enumerate() {
+        for needle in [
+            footer.as_str(),
+            &fillpace::report::program_version(),
+            "Engineer of record:",
+            "Name",
+            "Signature",
+            "Date",
+            "Registration / licence no.",
+        ] {
+            assert!(t.contains(needle), "page {}: no '{needle}' in {t}", i + 1);
+        }
+    }
+}
+
+#[test]
+fn the_demo_corridor_pdf_has_its_pages_sections_cautions_and_input_hashes() {
+    let dir = tempfile::tempdir().unwrap();
+    let pdf = dir.path().join("programme.pdf");
+    let corridor = "examples/kestrel-fen-corridor.toml";
+    let out = fillpace().args(["corridor", corridor, "--json", "--pdf"]).arg(&pdf).output().unwrap();
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    // --json is printed as without --pdf.
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["command"], "corridor");
+    assert_eq!(v["result"]["sections"].as_array().unwrap().len(), 10);
+    let pages = common::pages_text(&pdf);
+    // Summary, programme chart (10 sections on one page), weekly fill, long
+    // section, section table, files, section sources, then the notes (one
+    // page or more, as many as the warnings need).
+    let n = pages.len();
+    assert!(n >= 8, "{pages:#?}");
+    assert!(pages[7..].iter().all(|t| t.contains("Notes, warnings and method")));
+    let headings = [
+        "Corridor programme: summary",
+        "Programme chart",
+        "Weekly fill against the supply",
+        "Long section",
+        "Sections",
+        "Inputs: files used and their SHA-256",
+        "Inputs: sections, their files and overrides",
+        "Notes, warnings and method",
+    ];
+    for (i, (t, h)) in pages.iter().zip(headings).enumerate() {
+        assert!(t.contains(h), "page {}: heading '{h}'", i + 1);
+        assert!(t.contains(&format!("Page {} of {n}", i + 1)), "page {} numbered", i + 1);
+    }
+    assert_every_page_signed(&pages);
+    let all = pages.join(" ");
+    let c = fillpace::corridor::file::load(&root(corridor)).unwrap();
+    for s in &c.sections {
+        // On the chart, in the table and among the inputs.
+        for page in [1, 4, 6] {
+            assert!(pages[page].contains(&s.name), "'{}' on page {}", s.name, page + 1);
+        }
+    }
+    assert!(pages[1].contains("CANNOT BE BUILT") && pages[4].contains("CANNOT BE BUILT"));
+    for note in fillpace::report::cautions() {
+        assert!(pages[0].contains(&common::collapse(&note)), "caution '{note}' on the summary");
+    }
+    // The corridor file and both section files, hashed here independently.
+    for file in [corridor, "examples/kestrel-fen.toml", "examples/kestrel-fen-low.toml"] {
+        let sha = sha256_of(&root(file));
+        assert!(pages[5].contains(&sha), "SHA-256 of {file} ({sha})");
+    }
+    assert!(all.matches("CANNOT BE BUILT").count() >= 3, "chart, table, long section");
+}
+
+#[test]
+fn a_forty_section_corridor_pdf_shows_every_section_on_paginated_pages() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::copy(root("tests/data/corridor/quick.toml"), dir.path().join("quick.toml")).unwrap();
+    let names: Vec<String> = (1..=40).map(|i| format!("S{i:02} generated length {}", i * 100)).collect();
+    let secs: String = names
+        .iter()
+        .enumerate()
+        .map(|(i, n)| section(n, 100.0 * i as f64, 100.0 * (i + 1) as f64, &format!("priority = {}", i % 3 + 1)))
+        .collect();
+    let res = "[resources]\nplacing_crews = 6\n[[resources.supply]]\nname = \"pit\"\nm3_per_day = 20000\n";
+    let path = dir.path().join("forty.toml");
+    std::fs::write(&path, corridor_text(res, &secs)).unwrap();
+    let pdf = dir.path().join("forty.pdf");
+    let out = fillpace().arg("corridor").arg(&path).arg("--pdf").arg(&pdf).arg("--quiet").output().unwrap();
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let pages = common::pages_text(&pdf);
+    let with = |h: &str| pages.iter().filter(|t| t.contains(h)).cloned().collect::<Vec<_>>();
+    // 16 sections a chart page, 26 rows a table page (40 + the totals row),
+    // 26 rows a sources page (one row a section here).
+    let chart = with("Programme chart");
+    let table = with("mechanism (stage)");
+    let sources = with("Inputs: sections, their files and overrides");
+    assert_eq!((chart.len(), table.len(), sources.len()), (3, 2, 2));
+    for n in &names {
+        for (what, group) in [("chart", &chart), ("table", &table), ("sources", &sources)] {
+            let k = group.iter().filter(|t| t.contains(n.as_str())).count();
+            assert_eq!(k, 1, "'{n}' on exactly one {what} page");
+        }
+    }
+    assert!(table[1].contains("Corridor total"));
+    assert_every_page_signed(&pages);
+    let total = pages.len();
+    assert!(pages.iter().enumerate().all(|(i, t)| t.contains(&format!("Page {} of {total}", i + 1))));
+}
+
+#[test]
+fn the_pdf_never_overwrites_a_section_file() {
+    let dir = tempfile::tempdir().unwrap();
+    let quick = dir.path().join("quick.toml");
+    std::fs::copy(root("tests/data/corridor/quick.toml"), &quick).unwrap();
+    let before = std::fs::read(&quick).unwrap();
+    let path = dir.path().join("c.toml");
+    std::fs::write(&path, corridor_text("", &section("a", 0.0, 100.0, ""))).unwrap();
+    let out = fillpace().arg("corridor").arg(&path).arg("--pdf").arg(&quick).output().unwrap();
+    assert_eq!(out.status.code(), Some(2), "{}", String::from_utf8_lossy(&out.stderr));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("is also an input"));
+    assert_eq!(std::fs::read(&quick).unwrap(), before, "the section file is untouched");
 }

@@ -6,15 +6,6 @@
 mod common;
 use common::*;
 
-/// Text of each page of a PDF, whitespace collapsed (lopdf).
-fn pages_text(pdf: &std::path::Path) -> Vec<String> {
-    let doc = lopdf::Document::load(pdf).expect("valid PDF");
-    doc.get_pages()
-        .keys()
-        .map(|n| doc.extract_text(&[*n]).expect("text").split_whitespace().collect::<Vec<_>>().join(" "))
-        .collect()
-}
-
 fn assert_footer_on_every_page(pdf: &std::path::Path) {
     let footer: String = fillpace::report::caution_footer();
     let pages = pages_text(pdf);

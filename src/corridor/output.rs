@@ -5,11 +5,10 @@
 
 use super::programme::{Programme, SectionResult};
 use super::section::{Kind, Work};
-use crate::error::{Error, Result};
+use crate::error::Result;
 use crate::report::fixed as f;
 use crate::report::ics;
 use crate::report::text::{Table, cautions_block, wrap};
-use serde::Serialize;
 
 /// Column headings of the programme table.
 pub const PROGRAMME_COLUMNS: [&str; 14] = [
@@ -259,33 +258,8 @@ pub fn ics(p: &Programme) -> String {
     lines.iter().map(|l| ics::fold(l)).collect()
 }
 
-#[derive(Serialize)]
-struct Envelope<'a> {
-    fillpace: &'static str,
-    command: &'static str,
-    corridor: Head<'a>,
-    result: &'a Programme,
-    cautions: Vec<String>,
-}
-
-#[derive(Serialize)]
-struct Head<'a> {
-    title: &'a str,
-    reference: &'a str,
-    source: &'a str,
-}
-
 /// The programme as JSON in the common envelope (with `corridor` in place
 /// of `project`).
 pub fn json(p: &Programme, source: &str) -> Result<String> {
-    let e = Envelope {
-        fillpace: env!("CARGO_PKG_VERSION"),
-        command: "corridor",
-        corridor: Head { title: &p.title, reference: &p.reference, source },
-        result: p,
-        cautions: crate::report::cautions(),
-    };
-    serde_json::to_string_pretty(&e)
-        .map(|s| s + "\n")
-        .map_err(|e| Error::Computation(format!("JSON serialisation failed: {e}")))
+    crate::report::json::corridor(&p.title, &p.reference, source, p)
 }

@@ -112,9 +112,11 @@ pub struct Outcome {
     pub finish: NaiveDate,
     pub unconstrained_finish: NaiveDate,
     pub lifts: usize,
-    /// Lowest FS at the end of any lift and that stage.
+    /// Lowest FS at the end of any lift, that stage and its mechanism
+    /// (the fill face or the band of the critical circle).
     pub governing_fs: f64,
     pub governing_stage: usize,
+    pub governing_mechanism: String,
     /// Governing FS at the finish (circle or fill face).
     pub fs_finish: f64,
     pub settlement_at_finish_m: f64,
@@ -296,10 +298,10 @@ fn section_result(
 fn outcome(s: &SectionSpec, engine: &Engine, w: Works, unconstrained: Option<NaiveDate>) -> Result<Outcome> {
     let runner = Runner::new(engine);
     let stages = || w.items.iter().filter(|x| matches!(x.kind, Kind::Lift | Kind::Surcharge));
-    let (governing_fs, governing_stage) = stages()
-        .map(|x| (x.fs_end.unwrap_or(f64::NAN), x.stage.unwrap_or(0)))
+    let (governing_fs, governing_stage, governing_mechanism) = stages()
+        .map(|x| (x.fs_end.unwrap_or(f64::NAN), x.stage.unwrap_or(0), x.mechanism.clone().unwrap_or_default()))
         .min_by(|a, b| a.0.total_cmp(&b.0))
-        .unwrap_or((f64::INFINITY, 0));
+        .unwrap_or((f64::INFINITY, 0, String::new()));
     let at_finish = runner.stability(&w.end_state, &mut Default::default())?;
     let fs_finish = at_finish.governing_fs();
     let placed = w.items.iter().fold(Volumes::default(), |a, x| a.plus(x.volume));
@@ -326,6 +328,7 @@ fn outcome(s: &SectionSpec, engine: &Engine, w: Works, unconstrained: Option<Nai
         lifts: stages().count(),
         governing_fs,
         governing_stage,
+        governing_mechanism,
         fs_finish,
         settlement_at_finish_m: w.end_state.settlement_centre_m,
         final_settlement_m: crate::settlement::forecast(engine, &w.end_state, loading_start).final_primary_m,

@@ -57,6 +57,9 @@ pub struct Work {
     pub height_after_m: f64,
     /// FS at the end of the stage (None for platform and drains).
     pub fs_end: Option<f64>,
+    /// The mechanism that gives `fs_end`: the fill face or the band of the
+    /// critical circle (None for platform and drains).
+    pub mechanism: Option<String>,
     /// Fill brought in, m³: the change of the fill in place since the end
     /// of the previous stage (so the make-up for settlement during a rest
     /// is booked with the stage that follows it); for a removal only the
@@ -195,6 +198,7 @@ fn work(r: &Runner, kind: Kind, days: Vec<i64>, volume: Volumes, drain_m: f64) -
         thickness_m: 0.0,
         height_after_m: 0.0,
         fs_end: None,
+        mechanism: None,
         volume,
         removed_m3: 0.0,
         drain_m,
@@ -262,7 +266,8 @@ fn lifts(s: &Setup, ledger: &mut Ledger, items: &mut Vec<Work>, st: &mut State, 
         ledger.book(&w.days, w.need());
         let mut w = w;
         let after = w.state.as_ref().expect("lifts carry their state");
-        w.fs_end = Some(r.stability(after, &mut effort)?.governing_fs());
+        let at_end = r.stability(after, &mut effort)?;
+        (w.fs_end, w.mechanism) = (Some(at_end.governing_fs()), Some(at_end.governing_mechanism()));
         earliest = next_after(r, &w);
         *st = after.clone();
         items.push(w);
@@ -301,6 +306,7 @@ fn placed(s: &Setup, items: &[Work], prev: &State, from: &State, change_m: f64) 
         thickness_m: change_m,
         height_after_m: after.height_m,
         fs_end: None,
+        mechanism: None,
         volume,
         removed_m3,
         drain_m: 0.0,
@@ -341,7 +347,8 @@ fn removal(
     ledger.book(&w.days, w.need());
     let mut w = w;
     let after = w.state.clone().expect("removal carries its state");
-    w.fs_end = Some(r.stability(&after, &mut Effort::default())?.governing_fs());
+    let at_end = r.stability(&after, &mut Effort::default())?;
+    (w.fs_end, w.mechanism) = (Some(at_end.governing_fs()), Some(at_end.governing_mechanism()));
     *st = after;
     items.push(w);
     Ok(())

@@ -1,6 +1,7 @@
 //! JSON output: every command's result inside one envelope
-//! `{ "fillpace": version, "command", "project": {title, reference, source},
-//! "result": ..., "cautions": [...] }`. Field meanings are documented in
+//! `{ "fillpace": version, "command", "project": {title, reference, source,
+//! stage_shape}, "result": ..., "cautions": [...] }` (the corridor programme
+//! has `"corridor": {title, reference, source}` in place of `project`). Field meanings are documented in
 //! README.md ("Machine-readable output").
 
 use super::{Exporter, PlanReport};
@@ -12,13 +13,23 @@ use serde::Serialize;
 struct Envelope<'a, T: Serialize> {
     fillpace: &'static str,
     command: &'a str,
-    project: Head<'a>,
+    /// `"project": {...}` or, for the corridor programme, `"corridor": {...}`.
+    #[serde(flatten)]
+    subject: Subject<'a>,
     result: &'a T,
     /// Plausibility warnings of commands whose result has no warnings of
     /// its own (check, stability); left out when empty.
     #[serde(skip_serializing_if = "<[String]>::is_empty")]
     warnings: &'a [String],
     cautions: Vec<String>,
+}
+
+/// What the result is about.
+#[derive(Serialize)]
+#[serde(rename_all = "lowercase")]
+enum Subject<'a> {
+    Project(Head<'a>),
+    Corridor(CorridorHead<'a>),
 }
 
 #[derive(Serialize)]
@@ -30,6 +41,15 @@ struct Head<'a> {
     stage_shape: &'static str,
     /// The fill strength of the fill-face check (`stability.face_strength`).
     face_strength: &'static str,
+}
+
+/// A corridor file's title block (its sections name their own stage
+/// geometry).
+#[derive(Serialize)]
+struct CorridorHead<'a> {
+    title: &'a str,
+    reference: &'a str,
+    source: &'a str,
 }
 
 /// Pretty JSON of `result` in the envelope.
@@ -55,6 +75,13 @@ pub fn risk<T: Serialize>(project: &Project, source: &str, result: &T, warnings:
     with_cautions("risk", project, source, result, warnings, cautions)
 }
 
+/// The corridor programme in the envelope, with `corridor` (title,
+/// reference, source) in place of `project`.
+pub fn corridor<T: Serialize>(title: &str, reference: &str, source: &str, result: &T) -> Result<String> {
+    let subject = Subject::Corridor(CorridorHead { title, reference, source });
+    pretty("corridor", subject, result, &[], super::cautions())
+}
+
 fn with_cautions<T: Serialize>(
     command: &str,
     project: &Project,
@@ -63,20 +90,24 @@ fn with_cautions<T: Serialize>(
     warnings: &[String],
     cautions: Vec<String>,
 ) -> Result<String> {
-    let e = Envelope {
-        fillpace: env!("CARGO_PKG_VERSION"),
-        command,
-        project: Head {
-            title: &project.info.title,
-            reference: &project.info.reference,
-            source,
-            stage_shape: project.embankment.stage_shape.label(),
-            face_strength: project.stability.face_strength.label(),
-        },
-        result,
-        warnings,
-        cautions,
-    };
+    let subject = Subject::Project(Head {
+        title: &project.info.title,
+        reference: &project.info.reference,
+        source,
+        stage_shape: project.embankment.stage_shape.label(),
+        face_strength: project.stability.face_strength.label(),
+    });
+    pretty(command, subject, result, warnings, cautions)
+}
+
+fn pretty<T: Serialize>(
+    command: &str,
+    subject: Subject,
+    result: &T,
+    warnings: &[String],
+    cautions: Vec<String>,
+) -> Result<String> {
+    let e = Envelope { fillpace: env!("CARGO_PKG_VERSION"), command, subject, result, warnings, cautions };
     serde_json::to_string_pretty(&e)
         .map(|mut s| {
             s.push('\n');

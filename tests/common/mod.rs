@@ -30,3 +30,15 @@ pub fn json_result(out: &[u8]) -> serde_json::Value {
     let v: serde_json::Value = serde_json::from_slice(out).expect("JSON on stdout");
     v["result"].clone()
 }
+
+/// Text of each page of a PDF, whitespace collapsed (read back with a
+/// general-purpose PDF library, lopdf).
+pub fn pages_text(pdf: &Path) -> Vec<String> {
+    let doc = lopdf::Document::load(pdf).expect("valid PDF");
+    doc.get_pages().keys().map(|n| collapse(&doc.extract_text(&[*n]).expect("text"))).collect()
+}
+
+/// `s` with every run of whitespace made one space.
+pub fn collapse(s: &str) -> String {
+    s.split_whitespace().collect::<Vec<_>>().join(" ")
+}

@@ -85,7 +85,7 @@ fn tick_label(v: f64, step: f64) -> String {
 /// or two weeks for a span under about three months, else month starts
 /// every 1, 2, 3 or 6 months, or year starts every 1, 2, 5 or 10 years, so
 /// that a short programme still gets several ticks.
-fn date_ticks(start: NaiveDate, min: f64, max: f64) -> Vec<(f64, String)> {
+pub(super) fn date_ticks(start: NaiveDate, min: f64, max: f64) -> Vec<(f64, String)> {
     let span = max - min;
     if span <= 92.0 {
         let every = if span <= 45.0 { 7 } else { 14 };
@@ -132,12 +132,14 @@ impl Chart {
         }
     }
 
-    fn px(&self, v: f64) -> f32 {
+    /// Page x (mm) of an x value.
+    pub(super) fn px(&self, v: f64) -> f32 {
         let (a, b) = self.x_range();
         self.x + ((v - a) / (b - a)) as f32 * self.w
     }
 
-    fn py(&self, v: f64, right: bool) -> f32 {
+    /// Page y (mm) of a value on the left (or right) axis.
+    pub(super) fn py(&self, v: f64, right: bool) -> f32 {
         let axis = if right { self.right.as_ref().unwrap_or(&self.left) } else { &self.left };
         let f = ((v - axis.min) / (axis.max - axis.min)) as f32;
         if self.left_down && !right { self.y + f * self.h } else { self.y + self.h - f * self.h }

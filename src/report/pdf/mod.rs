@@ -4,7 +4,9 @@
 //! SHA-256, methods and assumptions, caution notes and monitoring plan, and
 //! a caution footer with the program version on every page of every PDF. A4
 //! landscape, black and grey only, fonts embedded (DejaVu Sans Condensed).
-//! The hold-point release certificate shares the title block and charts.
+//! The hold-point release certificate, the option comparison, the Monte
+//! Carlo and the corridor programme (`programme`) share the title block and
+//! charts.
 
 mod canvas;
 mod certificate;
@@ -13,6 +15,10 @@ mod figures;
 mod more_inputs;
 mod options;
 mod pages;
+mod programme;
+mod programme_charts;
+
+pub use programme::corridor;
 
 use super::{CompareReport, Exporter, PlanReport, ReleaseReport, RiskReport};
 use crate::error::{Error, Result};
