@@ -3,6 +3,35 @@
 
 use crate::model::Project;
 
+/// The construction and criteria tables of every synthetic test project
+/// (shared with the integration tests).
+pub const CONSTRUCTION: &str = include_str!("../tests/data/fixture-construction.toml");
+
+/// A stiff base layer under the clay of a test project.
+pub const STIFF_BASE: &str = r#"
+[[ground.layers]]
+name = "base"
+kind = "stiff-base"
+unit_weight_kn_m3 = 21.0
+"#;
+
+/// An `[embankment]` table of design height `height_m` and crest width
+/// `crest_m` (slopes 2H:1V, fill 20 kN/m³ at φ' 30°) followed by the
+/// construction and criteria tables.
+pub fn tables(height_m: f64, crest_m: f64) -> String {
+    format!(
+        r#"
+[embankment]
+design_height_m = {height_m:?}
+crest_width_m = {crest_m:?}
+side_slope_h_per_v = 2.0
+fill_unit_weight_kn_m3 = 20.0
+fill_friction_deg = 30.0
+
+{CONSTRUCTION}"#
+    )
+}
+
 /// Parse a test project made from `body` (the `[ground]` section and
 /// anything else) plus minimal embankment, construction and criteria tables.
 pub fn project(body: &str) -> Project {
@@ -11,24 +40,10 @@ pub fn project(body: &str) -> Project {
 [project]
 title = "test"
 start_date = "2030-01-07"
-
-[embankment]
-design_height_m = 4.0
-crest_width_m = 20.0
-side_slope_h_per_v = 2.0
-fill_unit_weight_kn_m3 = 20.0
-fill_friction_deg = 30.0
-
-[construction]
-placement_rate_m_per_day = 0.5
-lift_min_m = 0.5
-lift_max_m = 2.0
-
-[criteria]
-fs_construction = 1.3
-
+{}
 {body}
-"#
+"#,
+        tables(4.0, 20.0)
     );
     match crate::input::parse(&text, "fixture.toml") {
         Ok(p) => p,
@@ -54,12 +69,7 @@ e0 = 1.5
 cc = 0.6
 cr = 0.06
 cv_m2_per_year = {cv}
-
-[[ground.layers]]
-name = "base"
-kind = "stiff-base"
-unit_weight_kn_m3 = 21.0
-
+{STIFF_BASE}
 [analysis]
 mode = "linear"
 {extra}

@@ -78,7 +78,7 @@ fn demo_check_recommends_writes_a_numbered_record_and_logs_it() {
     }
     let pdf = dir.path().join("site-hold-point-2027-07-05-record-1.pdf");
     let doc = lopdf::Document::load(&pdf).expect("the record is a PDF");
-    assert_eq!(doc.get_pages().len(), 3);
+    assert_eq!(doc.get_pages().len(), 4);
     let page1 = doc.extract_text(&[1]).unwrap();
     // The demo record holds the lift: no lift conditions that site staff
     // could read as permission (review finding), only the reading frequency.

@@ -84,18 +84,12 @@ stage_shape = "{shape}"
 width_m = 6.0
 height_m = 1.5
 
-[construction]
-placement_rate_m_per_day = 0.5
-lift_min_m = 0.5
-lift_max_m = 2.0
-
-[criteria]
-fs_construction = 1.3
-
+{construction}
 [stability]
 fill_tension_crack = false
 slices = 200
-"#
+"#,
+        construction = include_str!("data/fixture-construction.toml")
     );
     fillpace::input::parse(&text, "uniform.toml").unwrap()
 }

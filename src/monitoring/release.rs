@@ -206,6 +206,9 @@ pub struct ReleaseCheck {
     pub warnings: Vec<Warning>,
     #[serde(skip)]
     pub tracks: Vec<Track>,
+    /// The trend rules' alarm limits as lines for the plots.
+    #[serde(skip)]
+    pub limits: Vec<trends::LimitTrace>,
 }
 
 /// Today's calibrated ground: the calibrated project, the fit and the
@@ -357,6 +360,7 @@ pub fn check(p: &Project, r: &Readings, lift_m: f64, on: Option<NaiveDate>) -> R
         lift_end: runner.calendar.date(b)?,
         asaoka: plates_asaoka(p, &engine, r),
         tracks: tracks(p, r, &cal),
+        limits: trends::limit_traces(p, r),
         instruments,
         fit: cal.fit,
         fit_explains_readings: explains,

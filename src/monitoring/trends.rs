@@ -178,17 +178,24 @@ fn acceleration(p: &Project, r: &Readings) -> Rule {
     )
 }
 
-/// Δu/Δσv of the last lift at each piezometer: the change of pore pressure
-/// from the last reading before the lift began to the first after it ended,
-/// over the vertical stress the lift added at the tip (elastic increments
-/// of the fill placed: the crest height plus the settlement made up, read
-/// on the plate nearest the centreline, at the lift's start and end).
-fn lift_ratio(p: &Project, r: &Readings) -> Rule {
-    let name = "Δu/Δσv of the last lift";
-    let limit = p.monitoring.pore_pressure_ratio_limit;
-    let Some((start, end)) = r.last_change() else {
-        return Rule::not_evaluated(name, limit, "", "no lift in the fill record");
-    };
+/// One piezometer across the last lift: its readings before the lift
+/// began and after it ended (day, u kPa) and the vertical stress the lift
+/// added at the tip, kPa.
+struct LiftTip<'a> {
+    inst: &'a crate::model::Instrument,
+    before: (f64, f64),
+    after: (f64, f64),
+    dsv: f64,
+}
+
+/// The last lift (start and end day) and every piezometer read before and
+/// after it where the lift added more than 5 kPa: the change of pore
+/// pressure from the last reading before the lift began to the first after
+/// it ended, over the vertical stress the lift added at the tip (elastic
+/// increments of the fill placed: the crest height plus the settlement made
+/// up, read on the plate nearest the centreline, at the lift's start and end).
+fn lift_tips<'a>(p: &'a Project, r: &Readings) -> Option<((f64, f64), Vec<LiftTip<'a>>)> {
+    let (start, end) = r.last_change()?;
     let e = &p.embankment;
     let plate: Vec<(f64, f64)> = of_kind(p, InstrumentKind::SettlementPlate)
         .min_by(|a, b| a.1.offset_m.abs().total_cmp(&b.1.offset_m.abs()))
@@ -200,15 +207,28 @@ fn lift_ratio(p: &Project, r: &Readings) -> Rule {
         let at = |h: f64| load::stress(&load::profile(e, h), e.fill_unit_weight_kn_m3, x.abs(), z).sz;
         at(placed(end)) - at(placed(start))
     };
-    let best = of_kind(p, InstrumentKind::Piezometer)
-        .filter_map(|(k, i)| {
+    let tips = of_kind(p, InstrumentKind::Piezometer)
+        .filter_map(|(k, inst)| {
             let pts: Vec<(f64, f64)> = r.of(k).map(|x| (x.day, x.value)).collect();
-            let before = pts.iter().rev().find(|x| x.0 <= start + 1e-9)?;
-            let after = pts.iter().find(|x| x.0 >= end - 1e-9)?;
-            let d = dsv(i.offset_m, i.depth_m);
-            (d > 5.0).then(|| ((after.1 - before.1) / d, i.id.clone()))
+            let before = *pts.iter().rev().find(|x| x.0 <= start + 1e-9)?;
+            let after = *pts.iter().find(|x| x.0 >= end - 1e-9)?;
+            let d = dsv(inst.offset_m, inst.depth_m);
+            (d > 5.0).then_some(LiftTip { inst, before, after, dsv: d })
         })
-        .max_by(|a, b| a.0.total_cmp(&b.0));
+        .collect();
+    Some(((start, end), tips))
+}
+
+/// Δu/Δσv of the last lift at each piezometer (`lift_tips`), the largest
+/// against the limit.
+fn lift_ratio(p: &Project, r: &Readings) -> Rule {
+    let name = "Δu/Δσv of the last lift";
+    let limit = p.monitoring.pore_pressure_ratio_limit;
+    let Some((_, tips)) = lift_tips(p, r) else {
+        return Rule::not_evaluated(name, limit, "", "no lift in the fill record");
+    };
+    let best =
+        tips.iter().map(|t| ((t.after.1 - t.before.1) / t.dsv, t.inst.id.clone())).max_by(|a, b| a.0.total_cmp(&b.0));
     match best {
         Some((v, id)) => Rule::at_most(
             name,
@@ -237,7 +257,7 @@ fn lateral_ratio(p: &Project, r: &Readings) -> Rule {
     };
     let increment = |k: usize| -> Option<f64> {
         let pts: Vec<(f64, f64)> = r.of(k).map(|x| (x.day, x.value)).collect();
-        let before = pts.iter().rev().find(|x| x.0 <= start + 1e-9).or(pts.first())?;
+        let before = before_lift(&pts, start)?;
         let now = pts.last()?;
         (now.0 > before.0).then_some(now.1 - before.1)
     };
@@ -261,6 +281,107 @@ fn lateral_ratio(p: &Project, r: &Readings) -> Rule {
         }
         None => Rule::not_evaluated(name, limit, "", "no lateral-marker readings span the last lift"),
     }
+}
+
+/// The reading a lift's increments start from: the last at or before the
+/// lift began, else the first.
+fn before_lift(pts: &[(f64, f64)], start: f64) -> Option<(f64, f64)> {
+    pts.iter().rev().find(|x| x.0 <= start + 1e-9).or(pts.first()).copied()
+}
+
+/// An alarm limit as a line on the record's time plots: the project key
+/// (in `[monitoring]`), its value and unit, the instrument it is drawn for
+/// and the line's points (days since the project start; excess pore
+/// pressure kPa, settlement m or outward movement m, as the plots' tracks).
+#[derive(Debug, Clone)]
+pub struct LimitTrace {
+    pub kind: InstrumentKind,
+    pub key: &'static str,
+    pub value: f64,
+    pub unit: &'static str,
+    pub id: String,
+    pub points: Vec<(f64, f64)>,
+}
+
+/// The alarm limits of the trend rules drawn where they apply, each for
+/// every instrument the rule reads: the pore-pressure rise rate and the
+/// settlement and lateral rates as lines of the limiting slope ending at
+/// the last reading and spanning the rule's window (readings steeper than
+/// the line exceed the limit); Δu/Δσv as the excess pore pressure the limit
+/// allows after the last lift (reading before the lift plus the limit times
+/// Δσv at the tip); ΔL/ΔS as the outward movement the limit allows for the
+/// settlement measured since the lift began at the plate nearest the
+/// centreline.
+pub fn limit_traces(p: &Project, r: &Readings) -> Vec<LimitTrace> {
+    let m = &p.monitoring;
+    let mut out = Vec::new();
+    let mut slope = |kind, key, value: f64, unit, per_day: f64, window: f64, u0: &dyn Fn(f64) -> f64| {
+        for (k, inst) in of_kind(p, kind) {
+            let from = r.today_day - window;
+            let Some(last) = r.of(k).last() else { continue };
+            let first = r.of(k).map(|x| x.day).find(|d| *d >= from - 1e-9).unwrap_or(last.day);
+            if last.day - first < 1e-9 {
+                continue;
+            }
+            let y = last.value - u0(inst.depth_m);
+            out.push(LimitTrace {
+                kind,
+                key,
+                value,
+                unit,
+                id: inst.id.clone(),
+                points: vec![(first, y - per_day * (last.day - first)), (last.day, y)],
+            });
+        }
+    };
+    let pore_window = r.today_day - r.last_change_end().max(r.today_day - m.trend_window_days);
+    let u0 = |z: f64| crate::ground::u0(&p.ground, z);
+    let (rise, settle, lateral) =
+        (m.pore_rise_limit_kpa_per_week, m.settlement_rate_limit_mm_per_day, m.lateral_rate_limit_mm_per_day);
+    let none = |_: f64| 0.0;
+    slope(InstrumentKind::Piezometer, "pore_rise_limit_kpa_per_week", rise, "kPa/week", rise / 7.0, pore_window, &u0);
+    let w = m.rate_window_days;
+    let (s_key, l_key) = ("settlement_rate_limit_mm_per_day", "lateral_rate_limit_mm_per_day");
+    slope(InstrumentKind::SettlementPlate, s_key, settle, "mm/day", settle / 1000.0, w, &none);
+    slope(InstrumentKind::LateralMarker, l_key, lateral, "mm/day", lateral / 1000.0, w, &none);
+    if let Some(((start, end), tips)) = lift_tips(p, r) {
+        for t in tips {
+            let y = t.before.1 - u0(t.inst.depth_m) + m.pore_pressure_ratio_limit * t.dsv;
+            out.push(LimitTrace {
+                kind: InstrumentKind::Piezometer,
+                key: "pore_pressure_ratio_limit",
+                value: m.pore_pressure_ratio_limit,
+                unit: "",
+                id: t.inst.id.clone(),
+                points: vec![(start, y), (end.max(t.after.0), y)],
+            });
+        }
+    }
+    let plate =
+        of_kind(p, InstrumentKind::SettlementPlate).min_by(|a, b| a.1.offset_m.abs().total_cmp(&b.1.offset_m.abs()));
+    if let (Some((start, _)), Some((kp, _))) = (r.last_change(), plate) {
+        let s: Vec<(f64, f64)> = r.of(kp).map(|x| (x.day, x.value)).collect();
+        for (k, inst) in of_kind(p, InstrumentKind::LateralMarker) {
+            let l: Vec<(f64, f64)> = r.of(k).map(|x| (x.day, x.value)).collect();
+            let (Some(s0), Some(l0)) = (before_lift(&s, start), before_lift(&l, start)) else { continue };
+            let points: Vec<(f64, f64)> = s
+                .iter()
+                .filter(|x| x.0 >= s0.0 - 1e-9)
+                .map(|x| (x.0, l0.1 + m.lateral_ratio_limit * (x.1 - s0.1)))
+                .collect();
+            if points.len() > 1 {
+                out.push(LimitTrace {
+                    kind: InstrumentKind::LateralMarker,
+                    key: "lateral_ratio_limit",
+                    value: m.lateral_ratio_limit,
+                    unit: "",
+                    id: inst.id.clone(),
+                    points,
+                });
+            }
+        }
+    }
+    out
 }
 
 #[cfg(test)]

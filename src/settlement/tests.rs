@@ -5,7 +5,8 @@ use super::*;
 /// (Cc = 0.006) so that the make-up fill and its buoyancy change the load
 /// by a few parts per thousand only.
 fn layer() -> crate::model::Project {
-    let text = r#"
+    let text = format!(
+        r#"
 [project]
 title = "residual check"
 start_date = "2030-01-07"
@@ -25,31 +26,14 @@ cc = 0.006
 cr = 0.001
 c_alpha = 0.02
 cv_m2_per_year = 3.6525
-
-[[ground.layers]]
-name = "base"
-kind = "stiff-base"
-unit_weight_kn_m3 = 21.0
-
-[embankment]
-design_height_m = 2.0
-crest_width_m = 200.0
-side_slope_h_per_v = 2.0
-fill_unit_weight_kn_m3 = 20.0
-fill_friction_deg = 30.0
-
-[construction]
-placement_rate_m_per_day = 0.5
-lift_min_m = 0.5
-lift_max_m = 2.0
-
-[criteria]
-fs_construction = 1.3
-
+{}{}
 [analysis]
 mode = "linear"
-"#;
-    crate::input::parse(text, "residual.toml").unwrap()
+"#,
+        crate::fixtures::STIFF_BASE,
+        crate::fixtures::tables(2.0, 200.0)
+    );
+    crate::input::parse(&text, "residual.toml").unwrap()
 }
 
 /// Terzaghi's (1925) average degree of consolidation, exact series

@@ -67,10 +67,26 @@ impl Fonts {
     }
 }
 
-/// Operations of one page.
+/// The box a placed text occupies on the page, mm from the top-left
+/// corner: left, top, right, bottom (baseline; the top is the ascent of
+/// 0.75 em). Recorded for every text in test builds so that tests can
+/// check the margins.
+#[cfg(test)]
+#[derive(Debug, Clone)]
+pub struct Placed {
+    pub x0: f32,
+    pub y0: f32,
+    pub x1: f32,
+    pub y1: f32,
+    pub text: String,
+}
+
+/// Operations of one page (and, in tests, the box of every text placed).
 pub struct Canvas<'f> {
     pub fonts: &'f Fonts,
     pub ops: Vec<Op>,
+    #[cfg(test)]
+    pub placed: Vec<Placed>,
 }
 
 fn pt(x: f32, y: f32) -> Point {
@@ -83,13 +99,23 @@ fn grey(level: f32) -> Color {
 
 impl<'f> Canvas<'f> {
     pub fn new(fonts: &'f Fonts) -> Canvas<'f> {
-        Canvas { fonts, ops: Vec::new() }
+        Canvas {
+            fonts,
+            ops: Vec::new(),
+            #[cfg(test)]
+            placed: Vec::new(),
+        }
     }
 
     /// Text with its baseline-left at (x, y) mm.
     pub fn text(&mut self, x: f32, y: f32, size: f32, bold: bool, s: &str) {
         if s.is_empty() {
             return;
+        }
+        #[cfg(test)]
+        {
+            let (w, em) = (self.fonts.width(s, size, bold), size / PT_PER_MM);
+            self.placed.push(Placed { x0: x, y0: y - 0.75 * em, x1: x + w, y1: y, text: s.to_string() });
         }
         let font = if bold { self.fonts.bold.clone() } else { self.fonts.regular.clone() };
         self.ops.extend([
@@ -118,6 +144,11 @@ impl<'f> Canvas<'f> {
 
     /// Text rotated 90° (reading upwards) with its start at (x, y).
     pub fn text_up(&mut self, x: f32, y: f32, size: f32, s: &str) {
+        #[cfg(test)]
+        {
+            let (w, em) = (self.fonts.width(s, size, false), size / PT_PER_MM);
+            self.placed.push(Placed { x0: x - 0.75 * em, y0: y - w, x1: x, y1: y, text: s.to_string() });
+        }
         let font = self.fonts.regular.clone();
         let p = pt(x, y);
         self.ops.extend([
@@ -131,17 +162,28 @@ impl<'f> Canvas<'f> {
         ]);
     }
 
-    /// Wrap `s` into lines no wider than `width` mm; returns the lines.
+    /// Wrap `s` into lines no wider than `width` mm, measured with the
+    /// font; a word wider than a line (a hash, a path) is broken between
+    /// characters. Returns the lines.
     pub fn wrap(&self, s: &str, width: f32, size: f32, bold: bool) -> Vec<String> {
+        let fits = |t: &str| self.fonts.width(t, size, bold) <= width;
         let mut lines = Vec::new();
         let mut cur = String::new();
         for word in s.split_whitespace() {
             let trial = if cur.is_empty() { word.to_string() } else { format!("{cur} {word}") };
-            if self.fonts.width(&trial, size, bold) > width && !cur.is_empty() {
-                lines.push(std::mem::take(&mut cur));
-                cur = word.to_string();
-            } else {
+            if fits(&trial) {
                 cur = trial;
+                continue;
+            }
+            if !cur.is_empty() {
+                lines.push(std::mem::take(&mut cur));
+            }
+            for ch in word.chars() {
+                cur.push(ch);
+                if !fits(&cur) && cur.chars().count() > 1 {
+                    cur.pop();
+                    lines.push(std::mem::replace(&mut cur, ch.to_string()));
+                }
             }
         }
         if !cur.is_empty() {
@@ -159,6 +201,19 @@ impl<'f> Canvas<'f> {
             y += lead;
         }
         y
+    }
+
+    /// `s` shortened from the left with "…" until it fits `width` mm (for
+    /// file paths in a fixed box: the file name stays readable).
+    pub fn fit_left(&self, s: &str, width: f32, size: f32, bold: bool) -> String {
+        if self.fonts.width(s, size, bold) <= width {
+            return s.to_string();
+        }
+        let chars: Vec<char> = s.chars().collect();
+        (1..chars.len())
+            .map(|k| format!("…{}", chars[k..].iter().collect::<String>()))
+            .find(|t| self.fonts.width(t, size, bold) <= width)
+            .unwrap_or_default()
     }
 
     /// A polyline through points (mm), width in mm, grey level 0 = black.

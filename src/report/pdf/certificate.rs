@@ -5,12 +5,15 @@
 //! model. The program recommends; the engineer of record releases.
 
 use super::canvas::{Canvas, Dash, Marker, PAGE_W};
-use super::chart::{Axis, Chart, Series, XAxis};
+use super::chart::{Axis, Chart, Limit, Series, XAxis};
 use super::pages::{CONTENT_TOP, MARGIN, table};
 use crate::model::InstrumentKind;
 use crate::monitoring::release::{Track, Verdict};
 use crate::report::ReleaseReport;
 use crate::report::fixed as f;
+
+/// Width of the text between the margins, mm.
+const WIDTH: f32 = PAGE_W - 2.0 * MARGIN;
 
 /// Page 1: recommendation, rules, calibration, conditions, signature
 /// fields, warnings, cautions.
@@ -39,15 +42,14 @@ pub fn decision_page(c: &mut Canvas, r: &ReleaseReport) {
     ];
     let mut fy = y + 3.0;
     for t in &facts {
-        c.text(bx + bw + 6.0, fy, 6.8, false, t);
-        fy += 3.3;
+        fy = c.paragraph(bx + bw + 6.0, fy, PAGE_W - MARGIN - (bx + bw + 6.0), 6.8, t) + 0.3;
     }
-    y += bh + 5.0;
+    y = (y + bh).max(fy) + 5.0;
     for why in k.reasons.iter().take(6) {
-        y = c.paragraph(MARGIN, y, 270.0, 7.0, &format!("• {why}")) + 0.3;
+        y = c.paragraph(MARGIN, y, WIDTH, 7.0, &format!("• {why}")) + 0.3;
     }
     for act in &k.actions {
-        y = c.paragraph(MARGIN, y, 270.0, 7.5, &format!("ACTION: {act}")) + 0.3;
+        y = c.paragraph(MARGIN, y, WIDTH, 7.5, &format!("ACTION: {act}")) + 0.3;
     }
     let rows: Vec<Vec<String>> = k.rules.iter().map(crate::report::rule_cells).collect();
     y = table(
@@ -65,17 +67,17 @@ pub fn decision_page(c: &mut Canvas, r: &ReleaseReport) {
         7.0,
     ) + 2.0;
     if !k.release_note.is_empty() {
-        y = c.paragraph(MARGIN, y + 1.0, 270.0, 7.0, &format!("Note: {}.", k.release_note)) + 1.0;
+        y = c.paragraph(MARGIN, y + 1.0, WIDTH, 7.0, &format!("Note: {}.", k.release_note)) + 1.0;
     }
-    y = c.paragraph(MARGIN, y + 1.0, 270.0, 7.0, &crate::report::fit_sentence(k)) + 1.0;
-    y = c.paragraph(MARGIN, y + 1.0, 270.0, 7.0, &crate::report::conditions_sentence(k)) + 1.0;
+    y = c.paragraph(MARGIN, y + 1.0, WIDTH, 7.0, &crate::report::fit_sentence(k)) + 1.0;
+    y = c.paragraph(MARGIN, y + 1.0, WIDTH, 7.0, &crate::report::conditions_sentence(k)) + 1.0;
     y = signature_block(c, y + 2.0);
-    c.text(
+    c.paragraph(
         MARGIN,
         y + 3.0,
+        WIDTH,
         6.8,
-        false,
-        "Instruments, Asaoka's forecast, warnings and cautions: page 2. Readings against the model: page 3.",
+        "Instruments, Asaoka's forecast, warnings and cautions: page 2. Instrument layout on the cross-section: page 3. Readings against the model, with the alarm limits: page 4.",
     );
 }
 
@@ -109,7 +111,7 @@ pub fn details_page(c: &mut Canvas, r: &ReleaseReport) {
         y = c.paragraph(
             MARGIN,
             y + 1.0,
-            270.0,
+            WIDTH,
             7.5,
             &format!("{not_eval} rule(s) could not be evaluated for lack of readings; the engineer must judge them from the site."),
         ) + 1.0;
@@ -139,20 +141,20 @@ pub fn details_page(c: &mut Canvas, r: &ReleaseReport) {
             ("final mm", 18.0, true),
             ("U now", 14.0, true),
             ("implied", 40.0, false),
-            ("reliable", 100.0, false),
+            ("reliable", 160.0, false),
         ],
         &asaoka,
         7.2,
     ) + 2.0;
     for w in k.warnings.iter().take(4) {
         let at = w.line.map_or(String::new(), |l| format!("line {l}: "));
-        y = c.paragraph(MARGIN, y + 1.0, 270.0, 7.0, &format!("Warning — {at}{} {}", w.instrument, w.message));
+        y = c.paragraph(MARGIN, y + 1.0, WIDTH, 7.0, &format!("Warning — {at}{} {}", w.instrument, w.message));
     }
     if k.warnings.len() > 4 {
         y = c.paragraph(
             MARGIN,
             y + 1.0,
-            270.0,
+            WIDTH,
             7.0,
             &format!("… and {} more warnings (see the terminal or JSON output).", k.warnings.len() - 4),
         );
@@ -161,7 +163,7 @@ pub fn details_page(c: &mut Canvas, r: &ReleaseReport) {
     c.text(MARGIN, y, 8.0, true, "CAUTIONS");
     y += 4.0;
     for note in crate::report::cautions() {
-        y = c.paragraph(MARGIN + 2.0, y, 270.0, 6.8, &format!("• {note}")) + 0.4;
+        y = c.paragraph(MARGIN + 2.0, y, WIDTH - 2.0, 6.8, &format!("• {note}")) + 0.4;
     }
 }
 
@@ -169,7 +171,7 @@ pub fn details_page(c: &mut Canvas, r: &ReleaseReport) {
 fn signature_block(c: &mut Canvas, y: f32) -> f32 {
     c.text(MARGIN, y + 3.0, 7.5, true, "Engineer of record (the lift is released only by this signature)");
     let fields = ["Name", "Signature", "Date", "Registration / licence no."];
-    let w = 270.0 / fields.len() as f32;
+    let w = WIDTH / fields.len() as f32;
     for (i, label) in fields.iter().enumerate() {
         let x = MARGIN + i as f32 * w;
         c.text(x, y + 11.0, 6.5, false, label);
@@ -208,13 +210,40 @@ fn series(label: &str, points: &[(f64, f64)], dash: Dash, marker: Marker, marker
     }
 }
 
-fn range(tracks: &[&Track], scale: f64) -> (f64, f64) {
+/// The alarm limits of one kind of instrument, one entry per project key
+/// (rates dashed, ratios chain-dotted), in the plot's units.
+fn limits(k: &crate::monitoring::release::ReleaseCheck, kind: InstrumentKind, scale: f64) -> Vec<Limit> {
+    let mut out: Vec<(&str, Limit)> = Vec::new();
+    for t in k.limits.iter().filter(|t| t.kind == kind) {
+        let line: Vec<(f64, f64)> = t.points.iter().map(|p| (p.0, p.1 * scale)).collect();
+        if let Some((_, l)) = out.iter_mut().find(|(key, _)| *key == t.key) {
+            l.lines.push(line);
+            continue;
+        }
+        let (dash, what) = match t.key {
+            "pore_pressure_ratio_limit" => (Dash::Chain, "Δu/Δσv of the last lift"),
+            "lateral_ratio_limit" => (Dash::Chain, "ΔL/ΔS since the lift began"),
+            _ => (Dash::Dashed, "slope ending at each last reading"),
+        };
+        let value = format!("{} {}", f(t.value, 2), t.unit);
+        out.push((
+            t.key,
+            Limit { label: format!("limit {} = {} ({what})", t.key, value.trim()), dash, lines: vec![line] },
+        ));
+    }
+    out.into_iter().map(|(_, l)| l).collect()
+}
+
+/// Axis range of the tracks and limit lines (scaled), from 0 or below.
+fn range(tracks: &[&Track], limits: &[Limit], scale: f64) -> (f64, f64) {
     let v = tracks.iter().flat_map(|t| t.measured.iter().chain(&t.predicted).chain(&t.calibrated)).map(|p| p.1 * scale);
+    let v = v.chain(limits.iter().flat_map(|l| l.lines.iter().flatten()).map(|p| p.1));
     let (lo, hi) = v.fold((0.0f64, 0.0f64), |(a, b), x| (a.min(x), b.max(x)));
     (lo.floor(), (hi * 1.1).max(lo + 1.0).ceil())
 }
 
-/// Page 2: fill record, pore pressures, settlements and lateral movement.
+/// Page 4: fill record, pore pressures, settlements and lateral movement,
+/// each with the alarm limits that apply to it.
 pub fn readings_page(c: &mut Canvas, r: &ReleaseReport) {
     let k = r.check;
     let start = r.project.info.start_date;
@@ -223,9 +252,10 @@ pub fn readings_page(c: &mut Canvas, r: &ReleaseReport) {
     let axis = || XAxis::Dates { start, label: "date".into(), min: x_min, max: x_max };
     let marks = [Marker::Circle, Marker::Square, Marker::Triangle];
     let dashes = [Dash::Solid, Dash::Dashed, Dash::Chain];
-    let (w, h) = (0.5 * (PAGE_W - 2.0 * MARGIN) - 22.0, 52.0);
+    // Room below each chart for its axis label and legend rows.
+    let (w, h) = (0.5 * (PAGE_W - 2.0 * MARGIN) - 22.0, 44.0);
     let cells = [(MARGIN + 14.0, CONTENT_TOP + 2.0), (MARGIN + 14.0 + w + 30.0, CONTENT_TOP + 2.0)];
-    let lower = [(MARGIN + 14.0, CONTENT_TOP + h + 32.0), (MARGIN + 14.0 + w + 30.0, CONTENT_TOP + h + 32.0)];
+    let lower = [(MARGIN + 14.0, CONTENT_TOP + h + 40.0), (MARGIN + 14.0 + w + 30.0, CONTENT_TOP + h + 40.0)];
     let of = |kind: InstrumentKind| -> Vec<&Track> { k.tracks.iter().filter(|t| t.kind == Some(kind)).collect() };
     let chart_for = |kind: InstrumentKind, title: &str, label: &str, scale: f64, at: (f32, f32)| {
         let tracks = of(kind);
@@ -252,7 +282,8 @@ pub fn readings_page(c: &mut Canvas, r: &ReleaseReport) {
                 ));
             }
         }
-        let (lo, hi) = range(&tracks, scale);
+        let limits = limits(k, kind, scale);
+        let (lo, hi) = range(&tracks, &limits, scale);
         Chart {
             x: at.0,
             y: at.1,
@@ -265,6 +296,7 @@ pub fn readings_page(c: &mut Canvas, r: &ReleaseReport) {
             left_down: kind == InstrumentKind::SettlementPlate,
             series: s,
             vlines: Vec::new(),
+            limits,
         }
     };
     let fill = k.tracks.iter().find(|t| t.kind.is_none());
@@ -288,6 +320,7 @@ pub fn readings_page(c: &mut Canvas, r: &ReleaseReport) {
             1.0,
         )],
         vlines: Vec::new(),
+        limits: Vec::new(),
     }
     .draw(c);
     chart_for(InstrumentKind::Piezometer, "Excess pore pressure above the initial u0", "excess (kPa)", 1.0, cells[1])

@@ -18,6 +18,14 @@ pub struct Series {
     pub markers_only: bool,
 }
 
+/// An alarm limit drawn as thin grey lines (one per instrument it applies
+/// to) with one legend entry naming the project key and its value.
+pub struct Limit {
+    pub label: String,
+    pub dash: Dash,
+    pub lines: Vec<Vec<(f64, f64)>>,
+}
+
 /// A value axis.
 pub struct Axis {
     pub label: String,
@@ -54,7 +62,13 @@ pub struct Chart {
     pub series: Vec<Series>,
     /// Vertical marker lines (x value, short label), e.g. hold points.
     pub vlines: Vec<(f64, String)>,
+    /// Alarm limits (left axis).
+    pub limits: Vec<Limit>,
 }
+
+/// Grey level and width (mm) of alarm-limit lines.
+const LIMIT_GREY: f32 = 0.45;
+const LIMIT_WIDTH: f32 = 0.3;
 
 /// "Nice" tick step for a range, giving about `n` ticks.
 pub fn nice_step(span: f64, n: f64) -> f64 {
@@ -162,6 +176,14 @@ impl Chart {
                 }
             }
         }
+        let (x0, x1) = self.x_range();
+        for l in &self.limits {
+            for pts in &l.lines {
+                let inside = pts.iter().filter(|p| p.0 >= x0 - 1e-9 && p.0 <= x1 + 1e-9);
+                let pts: Vec<(f32, f32)> = inside.map(|&(x, y)| (self.px(x), self.py(y, false))).collect();
+                c.polyline(&pts, LIMIT_WIDTH, l.dash, LIMIT_GREY);
+            }
+        }
         c.rect(self.x, self.y, self.w, self.h, 0.35);
         self.legend(c);
     }
@@ -238,23 +260,26 @@ impl Chart {
         }
     }
 
-    /// Legend in rows under the x-axis label, wrapping within the width.
+    /// Legend in rows under the x-axis label, wrapping within the width:
+    /// the series, then the alarm limits.
     fn legend(&self, c: &mut Canvas) {
+        let entries = self.series.iter().map(|s| (&s.label, s.dash, !s.markers_only, s.marker, 0.0, 0.45));
+        let limits = self.limits.iter().map(|l| (&l.label, l.dash, true, Marker::None, LIMIT_GREY, LIMIT_WIDTH));
         let mut x = self.x;
         let mut y = self.y + self.h + 12.5;
-        for s in &self.series {
-            let w = c.fonts.width(&s.label, 6.5, false) + 16.0;
+        for (label, dash, line, marker, grey, width) in entries.chain(limits) {
+            let w = c.fonts.width(label, 6.5, false) + 16.0;
             if x + w > self.x + self.w && x > self.x {
                 x = self.x;
                 y += 4.0;
             }
-            if !s.markers_only {
-                c.line((x, y - 1.0), (x + 9.0, y - 1.0), 0.45, s.dash, 0.0);
+            if line {
+                c.line((x, y - 1.0), (x + 9.0, y - 1.0), width, dash, grey);
             }
-            if s.marker != Marker::None {
-                c.marker(x + 4.5, y - 1.0, s.marker, 1.6);
+            if marker != Marker::None {
+                c.marker(x + 4.5, y - 1.0, marker, 1.6);
             }
-            c.text(x + 11.0, y, 6.5, false, &s.label);
+            c.text(x + 11.0, y, 6.5, false, label);
             x += w;
         }
     }

@@ -52,6 +52,7 @@ pub fn figures_time(c: &mut Canvas, ctx: &Ctx) {
         left_down: false,
         series: vec![line("crest height above original ground", crest, Dash::Solid)],
         vlines: hold_lines(ctx),
+        limits: Vec::new(),
     }
     .draw(c);
     let fs_end: Vec<(f64, f64)> = pl.stages.iter().map(|s| (days_since(ctx, s.end), s.fs_end)).collect();
@@ -84,6 +85,7 @@ pub fn figures_time(c: &mut Canvas, ctx: &Ctx) {
             markers("FS at release", fs_rel, Marker::Circle),
         ],
         vlines: hold_lines(ctx),
+        limits: Vec::new(),
     }
     .draw(c);
     settlement_chart(c, ctx, CONTENT_TOP + 112.0);
@@ -130,6 +132,7 @@ fn settlement_chart(c: &mut Canvas, ctx: &Ctx, y: f32) {
             },
         ],
         vlines: Vec::new(),
+        limits: Vec::new(),
     }
     .draw(c);
 }
@@ -171,6 +174,7 @@ pub fn figures_pore_strength(c: &mut Canvas, ctx: &Ctx) {
         left_down: false,
         series,
         vlines: hold_lines(ctx),
+        limits: Vec::new(),
     }
     .draw(c);
     // Strength profiles: start, up to three releases spread over the works, end.
@@ -224,6 +228,7 @@ pub fn figures_pore_strength(c: &mut Canvas, ctx: &Ctx) {
         left_down: true,
         series,
         vlines: Vec::new(),
+        limits: Vec::new(),
     }
     .draw(c);
 }
@@ -239,22 +244,22 @@ pub fn drawing_scale(span_x: f64, span_y: f64, w: f32, h: f32) -> f64 {
 }
 
 /// Model (x from the centreline, y up from original ground, m) to page mm.
-struct Frame {
-    bx: f32,
-    by: f32,
-    x_min: f64,
-    x_max: f64,
-    y_min: f64,
-    y_max: f64,
+pub(super) struct Frame {
+    pub bx: f32,
+    pub by: f32,
+    pub x_min: f64,
+    pub x_max: f64,
+    pub y_min: f64,
+    pub y_max: f64,
     /// mm per m.
-    scale: f32,
+    pub scale: f32,
 }
 
 impl Frame {
-    fn tx(&self, x: f64) -> f32 {
+    pub fn tx(&self, x: f64) -> f32 {
         self.bx + (x - self.x_min) as f32 * self.scale
     }
-    fn ty(&self, y: f64) -> f32 {
+    pub fn ty(&self, y: f64) -> f32 {
         self.by + (self.y_max - y) as f32 * self.scale
     }
 }
@@ -283,8 +288,9 @@ pub fn cross_section(c: &mut Canvas, ctx: &Ctx) {
             g.stage, g.height_m, g.critical.fs
         ),
     );
-    section_ground(c, &f, p, g, depth);
-    section_fill(c, &f, &prof, g);
+    let settled = |x: f64| g.field.settlement(x);
+    section_ground(c, &f, p, &settled, depth);
+    section_fill(c, &f, &prof, &settled);
     if let Some(d) = &p.drains {
         section_drains(c, &f, d, toe, g);
     }
@@ -296,17 +302,18 @@ pub fn cross_section(c: &mut Canvas, ctx: &Ctx) {
     c.text(f.bx + 95.0, y + 1.0, 6.5, false, "Fill at the governing stage (white), settled original ground (dashed), layers shaded, groundwater dash-dot, drains thin lines, critical circle bold.");
 }
 
-/// Layers (boundaries moved down by s(x)(1 − z/D)), their names and levels
-/// on the left, the groundwater level on the right.
-fn section_ground(
+/// Layers (boundaries moved down by s(x)(1 − z/D) for the surface
+/// settlement s(x) m), their names and levels on the left, the groundwater
+/// level on the right.
+pub(super) fn section_ground(
     c: &mut Canvas,
     f: &Frame,
     p: &crate::model::Project,
-    g: &crate::schedule::record::Governing,
+    settled: &dyn Fn(f64) -> f64,
     depth: f64,
 ) {
     let xs: Vec<f64> = (0..=200).map(|k| f.x_min + (f.x_max - f.x_min) * k as f64 / 200.0).collect();
-    let sink = |x: f64, z: f64| -z - g.field.settlement(x) * (1.0 - (z / depth).min(1.0));
+    let sink = |x: f64, z: f64| -z - settled(x) * (1.0 - (z / depth).min(1.0));
     let mut top = 0.0;
     let shades = [0.90, 0.80, 0.70, 0.62];
     for (i, l) in p.ground.layers.iter().enumerate() {
@@ -335,16 +342,16 @@ fn section_ground(
     );
 }
 
-/// The fill at the governing stage over the settled ground, the original
-/// ground line and the centreline.
-fn section_fill(c: &mut Canvas, f: &Frame, prof: &[(f64, f64)], g: &crate::schedule::record::Governing) {
+/// The fill of profile `prof` over the ground settled by s(x) m, the
+/// original ground line and the centreline.
+pub(super) fn section_fill(c: &mut Canvas, f: &Frame, prof: &[(f64, f64)], settled: &dyn Fn(f64) -> f64) {
     let xs: Vec<f64> = (0..=200).map(|k| f.x_min + (f.x_max - f.x_min) * k as f64 / 200.0).collect();
-    let ground: Vec<(f32, f32)> = xs.iter().map(|&x| (f.tx(x), f.ty(-g.field.settlement(x)))).collect();
+    let ground: Vec<(f32, f32)> = xs.iter().map(|&x| (f.tx(x), f.ty(-settled(x)))).collect();
     let mut fill: Vec<(f32, f32)> = xs
         .iter()
         .map(|&x| {
             let h = crate::load::height_at(prof, x);
-            (f.tx(x), f.ty(if h > 0.0 { h } else { -g.field.settlement(x) }))
+            (f.tx(x), f.ty(if h > 0.0 { h } else { -settled(x) }))
         })
         .collect();
     fill.extend(ground.iter().rev());
@@ -428,7 +435,7 @@ fn section_circle(c: &mut Canvas, f: &Frame, g: &crate::schedule::record::Govern
 
 /// Level axis (m relative to original ground) on the left and offset axis
 /// (m from the centreline) below.
-fn section_axes(c: &mut Canvas, f: &Frame) {
+pub(super) fn section_axes(c: &mut Canvas, f: &Frame) {
     let (left, bottom) = (f.bx - 3.0, f.ty(f.y_min) + 2.0);
     c.line((left, f.ty(f.y_max)), (left, f.ty(f.y_min)), 0.3, Dash::Solid, 0.0);
     let step = nice_step(f.y_max - f.y_min, 8.0);
@@ -480,7 +487,7 @@ fn dimension(c: &mut Canvas, a: (f32, f32), b: (f32, f32), label: &str) {
 }
 
 /// A scale bar of five alternating segments with its drawing scale.
-fn scale_bar(c: &mut Canvas, f: &Frame, n: f64, y: f32) {
+pub(super) fn scale_bar(c: &mut Canvas, f: &Frame, n: f64, y: f32) {
     let length = [5.0, 10.0, 20.0, 25.0, 50.0, 100.0].into_iter().find(|l| l * f.scale as f64 >= 30.0).unwrap_or(100.0);
     let seg = (length / 5.0) as f32 * f.scale;
     for k in 0..5 {

@@ -4,19 +4,22 @@
 //! SHA-256, methods and assumptions, caution notes and monitoring plan, and
 //! a caution footer with the program version on every page of every PDF. A4
 //! landscape, black and grey only, fonts embedded (DejaVu Sans Condensed).
-//! The hold-point release certificate, the option comparison, the Monte
-//! Carlo and the corridor programme (`programme`) share the title block and
-//! charts.
+//! The hold-point check record, the option comparison, the Monte Carlo and
+//! the corridor programme (`programme`) share the title block and charts; the
+//! record also shares the cross-section drawing.
 
 mod canvas;
 mod certificate;
 mod chart;
 mod figures;
+mod layout;
 mod more_inputs;
 mod options;
 mod pages;
 mod programme;
 mod programme_charts;
+#[cfg(test)]
+mod tests;
 
 pub use programme::corridor;
 
@@ -100,23 +103,35 @@ impl Exporter for Pdf {
     }
 }
 
-/// The hold-point check record (three pages): recommendation, rules,
-/// conditions and signature fields; instruments and cautions; the readings
-/// against the model.
+/// The hold-point check record (four pages): recommendation, rules,
+/// conditions and signature fields; instruments and cautions; the
+/// instrument layout on the cross-section; the readings against the model
+/// with the alarm limits.
 pub fn certificate(r: &ReleaseReport, date: chrono::NaiveDate) -> Result<Vec<u8>> {
     let source = format!("{} and {}", r.project_file, r.check.readings_file);
     let title =
         pages::Title { info: &r.project.info, source: &source, date, document: "fillpace hold-point check record" };
     let name = format!("{} — hold-point check record {}", r.project.info.title, r.record);
-    document(&name, 3, |c, i| {
-        let heading = ["Hold-point check record", "Instruments and cautions", "Readings against the model"][i];
-        pages::frame(c, &title, heading, i + 1, 3);
-        match i {
-            0 => certificate::decision_page(c, r),
-            1 => certificate::details_page(c, r),
-            _ => certificate::readings_page(c, r),
-        }
-    })
+    document(&name, RECORD_PAGES.len(), |c, i| record_page(c, &title, r, i))
+}
+
+/// Headings of the record's pages.
+const RECORD_PAGES: [&str; 4] = [
+    "Hold-point check record",
+    "Instruments and cautions",
+    "Instrument layout on the cross-section",
+    "Readings against the model",
+];
+
+/// Page `i` of the record with its frame.
+fn record_page(c: &mut Canvas, title: &pages::Title, r: &ReleaseReport, i: usize) {
+    pages::frame(c, title, RECORD_PAGES[i], i + 1, RECORD_PAGES.len());
+    match i {
+        0 => certificate::decision_page(c, r),
+        1 => certificate::details_page(c, r),
+        2 => layout::layout_page(c, r),
+        _ => certificate::readings_page(c, r),
+    }
 }
 
 /// The design-option comparison (one page).
@@ -159,16 +174,21 @@ fn footer(c: &mut Canvas) {
     c.text_right(PAGE_W - pages::MARGIN, y, 6.5, false, &crate::report::program_version());
 }
 
-/// An A4-landscape document of `pages` pages, each drawn by `draw(canvas,
-/// index)`, with the bundled fonts embedded (subset).
-fn document(name: &str, pages: usize, mut draw: impl FnMut(&mut Canvas, usize)) -> Result<Vec<u8>> {
-    let mut doc = PdfDocument::new(name);
+/// The bundled fonts added to `doc`, with their metrics.
+fn fonts(doc: &mut PdfDocument) -> Result<Fonts> {
     let mut warn = Vec::new();
     let regular = ParsedFont::from_bytes(canvas::REGULAR_TTF, 0, &mut warn)
         .ok_or_else(|| Error::Computation("the bundled regular font could not be read".into()))?;
     let bold = ParsedFont::from_bytes(canvas::BOLD_TTF, 0, &mut warn)
         .ok_or_else(|| Error::Computation("the bundled bold font could not be read".into()))?;
-    let fonts = Fonts::new((doc.add_font(&regular), regular), (doc.add_font(&bold), bold));
+    Ok(Fonts::new((doc.add_font(&regular), regular), (doc.add_font(&bold), bold)))
+}
+
+/// An A4-landscape document of `pages` pages, each drawn by `draw(canvas,
+/// index)`, with the bundled fonts embedded (subset).
+fn document(name: &str, pages: usize, mut draw: impl FnMut(&mut Canvas, usize)) -> Result<Vec<u8>> {
+    let mut doc = PdfDocument::new(name);
+    let fonts = fonts(&mut doc)?;
     stamp_metadata(&mut doc.metadata.info);
     let mut out = Vec::with_capacity(pages);
     for i in 0..pages {

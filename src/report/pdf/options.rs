@@ -93,6 +93,7 @@ pub fn comparison_page(c: &mut Canvas, r: &CompareReport) {
             })
             .collect(),
         vlines: Vec::new(),
+        limits: Vec::new(),
     }
     .draw(c);
 }
@@ -203,6 +204,7 @@ pub fn risk_charts(c: &mut Canvas, r: &RiskReport) {
                 markers_only: false,
             }],
             vlines,
+            limits: Vec::new(),
         }
         .draw(c);
     } else {
@@ -246,6 +248,7 @@ pub fn risk_charts(c: &mut Canvas, r: &RiskReport) {
             series("FS 1.0", level(1.0), Dash::Dotted, Marker::None, false),
         ],
         vlines: Vec::new(),
+        limits: Vec::new(),
     }
     .draw(c);
 }

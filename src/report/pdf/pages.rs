@@ -57,7 +57,8 @@ pub fn frame(c: &mut Canvas, t: &Title, heading: &str, page: usize, pages: usize
     c.text(x + 2.0, y + 5.0, 8.5, true, &info.title);
     c.text(x + 2.0, y + 10.0, 7.0, false, &format!("Reference {}", info.reference));
     c.text(x + 2.0, y + 14.5, 7.0, false, &info.location);
-    c.text(x + 2.0, y + 18.5, 6.0, false, &format!("Source: {}", t.source));
+    let source = c.fit_left(&format!("Source: {}", t.source), cols[0] - x - 4.0, 6.0, false);
+    c.text(x + 2.0, y + 18.5, 6.0, false, &source);
     c.text(cols[0] + 2.0, y + 5.0, 7.0, false, &format!("Revision {}", info.revision));
     c.text(cols[0] + 2.0, y + 10.0, 7.0, false, &format!("Date {}", t.date));
     c.text(cols[0] + 2.0, y + 15.0, 8.0, true, &format!("Page {page} of {pages}"));
@@ -76,39 +77,50 @@ pub fn frame(c: &mut Canvas, t: &Title, heading: &str, page: usize, pages: usize
     }
 }
 
-/// A table at (x, y); columns (header, width mm, right-aligned); returns
-/// the y below it.
+/// A table at (x, y); columns (header, width mm, right-aligned); a text
+/// wider than its left-aligned column wraps onto more lines of the row
+/// (measured with the font). Returns the y below it.
 pub fn table(c: &mut Canvas, x: f32, y: f32, cols: &[(&str, f32, bool)], rows: &[Vec<String>], size: f32) -> f32 {
     let lead = size * 0.62;
     let below = 0.3 * lead;
-    let band = |c: &mut Canvas, base: f32, level: f32| {
-        let total: f32 = cols.iter().map(|c| c.1).sum();
-        let (top, bottom) = (base - lead + below, base + below);
+    let total: f32 = cols.iter().map(|c| c.1).sum();
+    // Rows band from the top of their first line to below their last.
+    let band = |c: &mut Canvas, first: f32, last: f32, level: f32| {
+        let (top, bottom) = (first - lead + below, last + below);
         c.fill(&[(x, top), (x + total, top), (x + total, bottom), (x, bottom)], level, false);
     };
-    let total: f32 = cols.iter().map(|c| c.1).sum();
-    band(c, y, 0.85);
-    let cells = |c: &mut Canvas, base: f32, row: &[String], bold: bool| {
+    let lines = |c: &Canvas, row: &[String], bold: bool| -> Vec<Vec<String>> {
+        cols.iter()
+            .zip(row)
+            .map(|((_, w, right), cell)| if *right { vec![cell.clone()] } else { c.wrap(cell, w - 2.0, size, bold) })
+            .collect()
+    };
+    // Draws a row whose first baseline is `base`; returns its last baseline.
+    let cells = |c: &mut Canvas, base: f32, row: &[Vec<String>], bold: bool| -> f32 {
         let mut cx = x;
         for ((_, w, right), cell) in cols.iter().zip(row) {
-            if *right {
-                c.text_right(cx + w - 1.0, base, size, bold, cell);
-            } else {
-                c.text(cx + 1.0, base, size, bold, cell);
+            for (k, l) in cell.iter().enumerate() {
+                let at = base + k as f32 * lead;
+                if *right { c.text_right(cx + w - 1.0, at, size, bold, l) } else { c.text(cx + 1.0, at, size, bold, l) }
             }
             cx += w;
         }
+        base + (row.iter().map(Vec::len).max().unwrap_or(1).max(1) - 1) as f32 * lead
     };
     let head: Vec<String> = cols.iter().map(|c| c.0.to_string()).collect();
-    cells(c, y, &head, true);
-    c.line((x, y + below), (x + total, y + below), 0.3, Dash::Solid, 0.0);
-    let mut base = y;
+    let head = lines(c, &head, true);
+    let n_head = head.iter().map(Vec::len).max().unwrap_or(1).max(1);
+    band(c, y, y + (n_head - 1) as f32 * lead, 0.85);
+    let mut base = cells(c, y, &head, true);
+    c.line((x, base + below), (x + total, base + below), 0.3, Dash::Solid, 0.0);
     for (k, row) in rows.iter().enumerate() {
-        base += lead;
+        let row = lines(c, row, false);
+        let first = base + lead;
+        let n = row.iter().map(Vec::len).max().unwrap_or(1).max(1);
         if k % 2 == 1 {
-            band(c, base, 0.94);
+            band(c, first, first + (n - 1) as f32 * lead, 0.94);
         }
-        cells(c, base, row, false);
+        base = cells(c, first, &row, false);
     }
     c.line((x, base + below), (x + total, base + below), 0.3, Dash::Solid, 0.0);
     base + lead
