@@ -177,6 +177,7 @@ pub(super) fn fill_chart(c: &mut Canvas, p: &Programme) {
         left_down: false,
         series,
         vlines: Vec::new(),
+        limits: Vec::new(),
     }
     .draw(c);
 }
@@ -208,6 +209,7 @@ pub(super) fn long_section(c: &mut Canvas, p: &Programme) {
         left_down: false,
         series: Vec::new(),
         vlines: Vec::new(),
+        limits: Vec::new(),
     };
     ch.draw(c);
     let rect = |a: f64, b: f64, lo: f64, hi: f64| {
