@@ -486,12 +486,25 @@ impl Column {
 
     /// Settlement of the column, m (positive down).
     pub fn settlement(&self, st: &ColumnState) -> f64 {
+        self.settlement_below(st, f64::NEG_INFINITY)
+    }
+
+    /// Compression of the ground below depth `z_m` (original depth), m: the
+    /// settlement of a point at that depth (a piezometer tip moves down with
+    /// the ground below it). An element cut by z_m counts by the fraction of
+    /// its thickness below z_m.
+    pub fn settlement_below(&self, st: &ColumnState, z_m: f64) -> f64 {
         let mut s = 0.0;
         // (node, log10 max(σ'max, σ'), log10 σ') of the last node evaluated,
         // shared by the two elements that meet there.
         let mut logs = (usize::MAX, 0.0, 0.0);
         for (e, el) in self.elements.iter().enumerate() {
             let Some(c) = &el.clay else { continue };
+            let (top, bottom) = (self.nodes[e].z_m, self.nodes[e + 1].z_m);
+            if bottom <= z_m {
+                continue;
+            }
+            let part = if top >= z_m { 1.0 } else { (bottom - z_m) / (bottom - top) };
             for end in 0..2 {
                 let i = e + end;
                 let se = self.sigma_eff(st, i);
@@ -504,7 +517,7 @@ impl Column {
                         ground::strain_log10(c, el.log_s0[end], el.log_sp0[end], logs.1, logs.2)
                     }
                 };
-                s += 0.5 * el.h_m * eps;
+                s += 0.5 * part * el.h_m * eps;
             }
         }
         s
@@ -771,6 +784,27 @@ mod tests {
         let st = run_terzaghi(&col, 40.0, 0.3, 5.0, 0.01, 1.0);
         let ratio = col.settlement(&st) / col.final_settlement(&st);
         assert!((ratio - col.degree(&st)).abs() < 0.005 * col.degree(&st), "{ratio} vs {}", col.degree(&st));
+    }
+
+    #[test]
+    fn compression_below_a_depth_by_hand() {
+        // Linear mode, uniform load fully consolidated: the strain mv·Δσ is
+        // the same at every depth, so the ground below depth z compresses by
+        // mv·Δσ·(H − z) (hand calculation, 1-D), whatever the node spacing;
+        // z at the surface gives the whole settlement.
+        let p = fixtures::uniform_clay(10.0, 3.6525, "drained", "");
+        let col = Column::new(&p, 0.0);
+        let mut st = col.initial_state();
+        let load = vec![Stress { sz: 40.0, sx: 0.0, txz: 0.0 }; col.nodes.len()];
+        col.step(&mut st, &load, PorePressureRule::Vertical, 1.0);
+        col.consolidate_fully(&mut st);
+        let mv = col.elements[0].mv_lin;
+        for z in [0.0, 2.5, 3.3, 7.0] {
+            let hand = mv * 40.0 * (10.0 - z);
+            let got = col.settlement_below(&st, z);
+            assert!((got - hand).abs() < 1e-9 * hand.max(1e-3), "z {z}: {got} against {hand}");
+        }
+        assert!((col.settlement_below(&st, 0.0) - col.settlement(&st)).abs() < 1e-12);
     }
 
     #[test]
