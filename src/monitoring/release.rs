@@ -460,7 +460,7 @@ fn explains(p: &Project, fit: &Fit, st: &[InstrumentStatus], asaoka: &[AsaokaChe
 }
 
 /// The level and its reasons.
-fn level(
+pub(super) fn level(
     p: &Project,
     fs_now: f64,
     rules: &[Rule],
