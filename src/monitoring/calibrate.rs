@@ -8,7 +8,7 @@
 //! the standard deviations. Piezometer readings are turned into excess pore
 //! pressure at the tip's settled depth (`tip`).
 //!
-//! Method: Levenberg–Marquardt (Press et al. 1992, Numerical Recipes §15.5;
+//! Method: Levenberg–Marquardt (Press et al. 1992, Numerical Recipes in C §15.5;
 //! Bard 1974, Nonlinear Parameter Estimation, ch. 5) on θ = (ln m, ln c),
 //! with the Jacobian by central differences, started from the best point
 //! of a log grid of m in which c is the weighted least-squares scale of the
