@@ -212,7 +212,13 @@ pub fn fit(p: &Project, r: &Readings, obs: &[Observation], tips: Vec<TipSettleme
         let sse: f64 = obs
             .iter()
             .enumerate()
-            .map(|(j, o)| if is_plate[j] { (c.exp() * (res[j] + o.measured / o.sd) - o.measured / o.sd).powi(2) } else { res[j].powi(2) })
+            .map(|(j, o)| {
+                if is_plate[j] {
+                    (c.exp() * (res[j] + o.measured / o.sd) - o.measured / o.sd).powi(2)
+                } else {
+                    res[j].powi(2)
+                }
+            })
             .sum();
         if sse < start.0 {
             start = (sse, Vector2::new(x, c));

@@ -50,7 +50,9 @@ impl TipSettlement {
     pub fn source(&self) -> String {
         match (&self.plate, self.from_model) {
             (Some(p), 0) => format!("plate {p} × model profile"),
-            (Some(p), n) => format!("plate {p} × model profile (model alone for {n} early reading(s): no plate reading or no settlement yet)"),
+            (Some(p), n) => format!(
+                "plate {p} × model profile (model alone for {n} early reading(s): no plate reading or no settlement yet)"
+            ),
             (None, _) => "model (no plate)".into(),
         }
     }
