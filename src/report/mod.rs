@@ -215,10 +215,16 @@ pub fn fit_sentence(c: &ReleaseCheck) -> String {
     let fit = &c.fit;
     let o = |v: Option<f64>, d: usize| v.map_or("-".to_string(), |x| fixed(x, d));
     let est = |e: &crate::monitoring::calibrate::Estimate| {
-        format!("{:.2} (95% interval {:.2}–{:.2})", e.value, e.interval95.0, e.interval95.1)
+        format!(
+            "{:.2} (standard error of ln {:.3}; 95% interval {:.2}–{:.2})",
+            e.value, e.se_ln, e.interval95.0, e.interval95.1
+        )
     };
     let widened = if fit.birge_ratio > 1.0 {
-        format!(" (intervals widened by the Birge ratio √(χ²/dof) = {:.2})", fit.birge_ratio)
+        format!(
+            " (standard errors from (JᵀWJ)⁻¹; intervals widened by the Birge ratio √(χ²/dof) = {:.2})",
+            fit.birge_ratio
+        )
     } else {
         String::new()
     };
