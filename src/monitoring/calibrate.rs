@@ -13,7 +13,8 @@
 //! with the Jacobian by central differences, started from the best point
 //! of a log grid of m in which c is the weighted least-squares scale of the
 //! plates at that m (settlement is nearly proportional to c), and kept in
-//! the box M_MIN–M_MAX, C_MIN–C_MAX. The standard errors and correlation
+//! the box M_MIN–M_MAX, C_MIN–C_MAX (a multiplier on a bound whose step
+//! points out of the box is held there). The standard errors and correlation
 //! come from the covariance (JᵀWJ)⁻¹ at the optimum (J of the weighted
 //! residuals, so W is inside it). When χ²/dof > 1 the standard errors are
 //! multiplied by the Birge ratio √(χ²/dof) (Birge 1932; the misfit is
@@ -41,6 +42,8 @@ const GRID: usize = 13;
 const TOL_STEP: f64 = 1e-4;
 const MAX_STEP: f64 = 1.0;
 const MAX_ITER: usize = 40;
+/// Relative decrease of the sum of squares below which it has converged.
+const TOL_GAIN: f64 = 1e-9;
 const H: f64 = 0.01;
 
 /// A reading the model can predict.
@@ -148,6 +151,9 @@ pub struct Fit {
     /// Model evaluations and Levenberg–Marquardt iterations used.
     pub evaluations: usize,
     pub iterations: usize,
+    /// False when the iteration stopped at its limit (the last iterate is
+    /// reported, and the check holds for review).
+    pub converged: bool,
     /// How each piezometer's tip settlement was found.
     pub tip_settlement: Vec<TipSettlement>,
 }
@@ -238,14 +244,16 @@ pub fn fit(p: &Project, r: &Readings, obs: &[Observation], tips: Vec<TipSettleme
     let mut sse = res.norm_squared();
     let mut lambda = 1e-3;
     let mut iterations = 0;
-    loop {
+    let b = bounds();
+    // A coordinate on a bound whose step points out of the box is held
+    // there (projected Levenberg–Marquardt).
+    let outward = |t: &Vector2<f64>, k: usize, dk: f64| {
+        (t[k] <= b[k].0 + 1e-9 && dk < 0.0) || (t[k] >= b[k].1 - 1e-9 && dk > 0.0)
+    };
+    let converged = loop {
         iterations += 1;
         if iterations > MAX_ITER {
-            return Err(Error::Computation(format!(
-                "the back-analysis did not converge in {MAX_ITER} Levenberg–Marquardt iterations (rate × {:.3}, compressibility × {:.3})",
-                t[0].exp(),
-                t[1].exp()
-            )));
+            break false;
         }
         let j = jacobian(t, &mut residuals);
         let a = j.tr_mul(&j);
@@ -253,19 +261,31 @@ pub fn fit(p: &Project, r: &Readings, obs: &[Observation], tips: Vec<TipSettleme
         let a2 = Matrix2::new(a[(0, 0)], a[(0, 1)], a[(1, 0)], a[(1, 1)]);
         let g2 = Vector2::new(g[0], g[1]);
         let mut step = Vector2::zeros();
+        let mut gain = 0.0;
         let mut improved = false;
         while lambda < 1e10 {
             let damped = a2 + Matrix2::from_diagonal(&Vector2::new(a2[(0, 0)], a2[(1, 1)])) * lambda;
-            let Some(d) = damped.lu().solve(&-g2) else {
+            let Some(mut d) = damped.lu().solve(&-g2) else {
                 lambda *= 10.0;
                 continue;
             };
+            for k in 0..2 {
+                if outward(&t, k, d[k]) {
+                    let o = 1 - k;
+                    d[k] = 0.0;
+                    d[o] = if outward(&t, o, -g2[o]) { 0.0 } else { -g2[o] / (a2[(o, o)] * (1.0 + lambda)) };
+                }
+            }
+            if d.amax() == 0.0 {
+                break;
+            }
             let d = d * (MAX_STEP / d.amax().max(MAX_STEP));
             let trial = clamp_box(t + d);
             let r_trial = residuals(trial);
             let s_trial = r_trial.norm_squared();
             if s_trial < sse {
                 step = trial - t;
+                gain = (sse - s_trial) / sse.max(f64::MIN_POSITIVE);
                 (t, res, sse) = (trial, r_trial, s_trial);
                 lambda = (lambda / 10.0).max(1e-9);
                 improved = true;
@@ -273,10 +293,10 @@ pub fn fit(p: &Project, r: &Readings, obs: &[Observation], tips: Vec<TipSettleme
             }
             lambda *= 10.0;
         }
-        if !improved || step.amax() < TOL_STEP {
-            break;
+        if !improved || step.amax() < TOL_STEP || gain < TOL_GAIN {
+            break true;
         }
-    }
+    };
     // Covariance of θ at the optimum: (JᵀWJ)⁻¹ (W inside the weighted J).
     let j = jacobian(t, &mut residuals);
     let a = j.tr_mul(&j);
@@ -287,7 +307,6 @@ pub fn fit(p: &Project, r: &Readings, obs: &[Observation], tips: Vec<TipSettleme
     let birge = chi2.sqrt().max(1.0);
     let se = |k: usize| cov.map_or(f64::INFINITY, |c| c[(k, k)].max(0.0).sqrt());
     let correlation = cov.map_or(f64::NAN, |c| c[(0, 1)] / (c[(0, 0)] * c[(1, 1)]).sqrt());
-    let b = bounds();
     let estimate = |k: usize| {
         let (s, w) = (se(k), se(k) * birge);
         Estimate {
@@ -317,6 +336,7 @@ pub fn fit(p: &Project, r: &Readings, obs: &[Observation], tips: Vec<TipSettleme
         birge_ratio: birge,
         evaluations,
         iterations,
+        converged,
         tip_settlement: tips,
     })
 }

@@ -495,6 +495,12 @@ pub(super) fn level(
             100.0 * ASAOKA_TOLERANCE
         ));
     }
+    if !fit.converged {
+        hold.push(format!(
+            "the back-analysis stopped after {} iterations without converging (last rate × {:.2}, compressibility × {:.2})",
+            fit.iterations, fit.rate.value, fit.compressibility.value
+        ));
+    }
     if !fit.rate.within_range {
         hold.push(format!(
             "the fitted rate multiplier {:.2} lies at the edge of its search range {}–{}",

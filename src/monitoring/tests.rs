@@ -293,9 +293,9 @@ fn hydrostatic_piezometers_give_the_fs_of_fully_consolidated_ground() {
 fn a_rejected_fit_never_leads_to_criteria_met() {
     // Conservatism (issue 15 item 2): with every rule passing, no
     // shortfall and FS now above the stop limit, the level is "criteria
-    // met" only while the fit explains the readings and both multipliers
-    // lie inside their search ranges; a rejected fit, or either multiplier
-    // at a bound, holds for review.
+    // met" only while the fit explains the readings, has converged and both
+    // multipliers lie inside their search ranges; a rejected fit, either
+    // multiplier at a bound, or an unconverged fit holds for review.
     use super::release::{Level, level};
     let (p, text) = demo_readings(1.0, 1.0, 3, 0.0);
     let mut fit = fit_of(&p, &text);
@@ -305,5 +305,8 @@ fn a_rejected_fit_never_leads_to_criteria_met() {
     assert_eq!(lvl, Level::HoldForReview);
     assert!(reasons.iter().any(|r| r.contains("model does not explain the readings")), "{reasons:?}");
     fit.compressibility.within_range = false;
+    assert_eq!(level(&p, 1.5, &[], &[], true, &fit).0, Level::HoldForReview);
+    fit.compressibility.within_range = true;
+    fit.converged = false;
     assert_eq!(level(&p, 1.5, &[], &[], true, &fit).0, Level::HoldForReview);
 }
