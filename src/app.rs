@@ -500,10 +500,16 @@ fn plan(path: Option<&Path>, readings_file: Option<&Path>, outs: &PlanOutputs, j
         let min_rest = f64::from(p.construction.min_rest_days);
         let earliest = (r.today_day.ceil()).max((r.last_change_end() + min_rest).ceil()) as i64;
         source = format!(
-            "{source}, re-planned from the hold point {} of {} (cv, ch × {:.2}; pore pressures as the piezometers read)",
+            "{source}, re-planned from the hold point {} of {} (cv, ch × {:.2}; Cc, Cr × {:.2}; pore pressures as the piezometers read){}",
             r.today.format("%Y-%m-%d %H:%M"),
             rf.display(),
-            cal.fit.multiplier,
+            cal.fit.rate.value,
+            cal.fit.compressibility.value,
+            if release_check::fit_accepted(&p, &r, &cal) {
+                String::new()
+            } else {
+                "; FROM A REJECTED FIT: the model does not explain the readings, so the dates below are not to be relied on".into()
+            },
         );
         inputs.push(rf.to_path_buf());
         start = Some((state, earliest));
@@ -658,7 +664,9 @@ fn log_fields(
         "fs_now": check.fs_now,
         "fs_next": check.fs_next,
         "fs_target": check.fs_target,
-        "multiplier": check.fit.multiplier,
+        "rate_multiplier": check.fit.rate.value,
+        "compressibility_multiplier": check.fit.compressibility.value,
+        "fit_explains_readings": check.fit_explains_readings,
         "failing_rules": check.rules.iter().filter(|r| r.verdict == release_check::Verdict::Fail).map(|r| r.name).collect::<Vec<_>>(),
         "insufficient": check.insufficient,
         "earliest_release": check.earliest_release.map(|d| d.to_string()),

@@ -473,12 +473,25 @@ impl Column {
 
     /// Settlement of the column, m (positive down).
     pub fn settlement(&self, st: &ColumnState) -> f64 {
+        self.settlement_below(st, f64::NEG_INFINITY)
+    }
+
+    /// Compression of the ground below depth `z_m` (original depth), m: the
+    /// settlement of a point at that depth (a piezometer tip moves down with
+    /// the ground below it). An element cut by z_m counts by the fraction of
+    /// its thickness below z_m.
+    pub fn settlement_below(&self, st: &ColumnState, z_m: f64) -> f64 {
         let mut s = 0.0;
         // (node, log10 max(σ'max, σ'), log10 σ') of the last node evaluated,
         // shared by the two elements that meet there.
         let mut logs = (usize::MAX, 0.0, 0.0);
         for (e, el) in self.elements.iter().enumerate() {
             let Some(c) = &el.clay else { continue };
+            let (top, bottom) = (self.nodes[e].z_m, self.nodes[e + 1].z_m);
+            if bottom <= z_m {
+                continue;
+            }
+            let part = if top >= z_m { 1.0 } else { (bottom - z_m) / (bottom - top) };
             for end in 0..2 {
                 let i = e + end;
                 let se = self.sigma_eff(st, i);
@@ -491,7 +504,7 @@ impl Column {
                         ground::strain_log10(c, el.log_s0[end], el.log_sp0[end], logs.1, logs.2)
                     }
                 };
-                s += 0.5 * el.h_m * eps;
+                s += 0.5 * part * el.h_m * eps;
             }
         }
         s

@@ -656,11 +656,28 @@ impl Project {
     /// The project with every clay layer's cv and ch multiplied by `factor`
     /// (the back-analysed consolidation-rate multiplier).
     pub fn with_consolidation_factor(&self, factor: f64) -> Project {
+        self.with_each_clay(|c| {
+            c.cv_m2_per_day *= factor;
+            c.ch_m2_per_day *= factor;
+        })
+    }
+
+    /// The project with every clay layer's Cc and Cr multiplied by `factor`
+    /// (the back-analysed compressibility multiplier: it scales the
+    /// settlement; cv and ch stay as given, the permeability k = cv·mv·γw
+    /// scaling with mv).
+    pub fn with_compressibility_factor(&self, factor: f64) -> Project {
+        self.with_each_clay(|c| {
+            c.cc *= factor;
+            c.cr *= factor;
+        })
+    }
+
+    fn with_each_clay(&self, f: impl Fn(&mut Clay)) -> Project {
         let mut p = self.clone();
         for l in &mut p.ground.layers {
             if let LayerKind::Clay(c) = &mut l.kind {
-                c.cv_m2_per_day *= factor;
-                c.ch_m2_per_day *= factor;
+                f(c);
             }
         }
         p

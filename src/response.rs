@@ -256,8 +256,14 @@ impl<'p> Engine<'p> {
 
     /// Surface settlement at offset x, m (linear between columns).
     pub fn settlement_at(&self, st: &State, x_m: f64) -> f64 {
+        self.settlement_below_at(st, x_m, f64::NEG_INFINITY)
+    }
+
+    /// Settlement of the point at offset x and original depth z (the
+    /// compression of the ground below it), m (linear between columns).
+    pub fn settlement_below_at(&self, st: &State, x_m: f64, z_m: f64) -> f64 {
         let (j, w) = self.column_bracket(x_m);
-        let s = |c: usize| self.columns[c].settlement(&st.cols[c]);
+        let s = |c: usize| self.columns[c].settlement_below(&st.cols[c], z_m);
         s(j) * (1.0 - w) + s(j + 1) * w
     }
 

@@ -98,8 +98,13 @@ fn demo_check_recommends_writes_a_numbered_record_and_logs_it() {
 /// The result of a check on one readings file of the independent textbook
 /// model (tests/truth/README.md).
 fn truth(file: &str) -> serde_json::Value {
+    truth_of(&format!("tests/data/truth/{file}"))
+}
+
+/// The result of a check (lift 1.0 m) on a readings file of the repository.
+fn truth_of(path: &str) -> serde_json::Value {
     let (_dir, project, _) = scratch();
-    let out = release(&project, &root(&format!("tests/data/truth/{file}")), "1.0", &["--json"]);
+    let out = release(&project, &root(path), "1.0", &["--json"]);
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     json_result(&out.stdout)
 }
@@ -110,8 +115,86 @@ fn independent_readings_with_ten_percent_more_compressibility_give_the_rate_with
     // cv, ch × 1.0 and Cc, Cr × 1.1 (tests/truth/README.md): the rate
     // multiplier must come back within ±25% of the truth, 1.0.
     let r = truth("rate1.0-comp1.1-seed102.csv");
-    let m = r["fit"]["multiplier"].as_f64().unwrap();
+    let m = r["fit"]["rate"]["value"].as_f64().unwrap();
     assert!((m - 1.0).abs() <= 0.25, "rate multiplier {m}");
+}
+
+/// (rate, compressibility) multipliers fitted to an independent file.
+fn multipliers(r: &serde_json::Value) -> (f64, f64) {
+    let f = &r["fit"];
+    (f["rate"]["value"].as_f64().unwrap(), f["compressibility"]["value"].as_f64().unwrap())
+}
+
+#[test]
+fn joint_fit_of_independent_readings_with_rate_0_8_and_compressibility_1_1() {
+    // Issue 15's check, brief item 4: the independent textbook model
+    // (tests/truth/README.md) with cv, ch × 0.8 and Cc, Cr × 1.1,
+    // noise-free and with noise (seed 109). The rate must come back within
+    // ±25% of 0.8. The compressibility is judged two ways:
+    // - absolute, within ±15% of 1.1: the two models' settlement magnitudes
+    //   differ by themselves (the engine makes up fill for settlement and
+    //   lets σ' and mv follow the partly consolidated state, the textbook
+    //   model does neither: its README, approximations 3 and 6); measured
+    //   on the same model at Cc, Cr × 1.0 (noise-free) the fit gives 0.94,
+    //   6% low, so ±15% allows that bias and the noise;
+    // - relative to the fit of the same model at Cc, Cr × 1.0 (noise-free,
+    //   which cancels that bias): 1.1 within ±5% (noise of 3 mm on
+    //   ~0.57 m and the rate–compressibility correlation near −0.95).
+    let (_, c_ref) = multipliers(&truth("rate0.8-comp1.0-noisefree.csv"));
+    for file in ["rate0.8-comp1.1-noisefree.csv", "rate0.8-comp1.1-seed109.csv"] {
+        let r = truth(file);
+        let (m, c) = multipliers(&r);
+        assert!((m - 0.8).abs() <= 0.25 * 0.8, "{file}: rate {m}");
+        assert!((c - 1.1).abs() <= 0.15 * 1.1, "{file}: compressibility {c}");
+        assert!((c / c_ref - 1.1).abs() <= 0.05 * 1.1, "{file}: {c} / {c_ref}");
+        let f = &r["fit"];
+        let rho = f["correlation"].as_f64().unwrap();
+        assert!((-1.0..=1.0).contains(&rho), "{file}: correlation {rho}");
+        // Birge ratio (stated): intervals widened by √(χ²/dof) when above 1.
+        let chi2 = f["chi2_per_dof"].as_f64().unwrap();
+        assert!((f["birge_ratio"].as_f64().unwrap() - chi2.sqrt().max(1.0)).abs() < 1e-9);
+    }
+}
+
+#[test]
+fn piezometer_excess_is_taken_at_the_settled_tip() {
+    // Hand calculation on the demo readings' last row (2027-07-05 09:00):
+    // P1 (z = 5.0 m under the centreline) reads 118.0 kPa; SP1 (nearest
+    // plate, same offset) reads 1.845 m against its baseline 2.415 m, a
+    // settlement of 0.570 m; the tip settles 0.570 × the model's profile
+    // ratio (reported); water table 1.0 m (examples/kestrel-fen.toml):
+    // excess = 118.0 − 9.81 (5.0 + s_tip − 1.0).
+    let r = truth_of(READINGS);
+    let tip = r["fit"]["tip_settlement"].as_array().unwrap().iter().find(|t| t["id"] == "P1").unwrap().clone();
+    assert_eq!(tip["plate"], "SP1");
+    let ratio = tip["latest_profile_ratio"].as_f64().unwrap();
+    // Physical bound: the ground below 5 m compresses less than the whole
+    // column, and by more than nothing.
+    assert!(ratio > 0.0 && ratio < 1.0, "{ratio}");
+    let s_tip = 0.570 * ratio;
+    assert!((tip["latest_m"].as_f64().unwrap() - s_tip).abs() < 1e-9, "{tip}");
+    assert!((tip["latest_kpa"].as_f64().unwrap() - 9.81 * s_tip).abs() < 1e-9, "{tip}");
+    let p1 = r["instruments"].as_array().unwrap().iter().find(|x| x["id"] == "P1").unwrap().clone();
+    let hand = 118.0 - 9.81 * (5.0 + s_tip - 1.0);
+    assert!((p1["measured"].as_f64().unwrap() - hand).abs() < 1e-9, "{p1} against {hand}");
+}
+
+#[test]
+fn a_forecast_from_a_rejected_fit_is_marked_and_never_criteria_met() {
+    // The demo readings (independent model, rate × 0.8) are not explained
+    // by the engine (χ²/dof ≈ 6 above the limit 4): the check holds, and
+    // the forecast date says it comes from a rejected fit in JSON and text.
+    let r = truth_of(READINGS);
+    assert_eq!(r["fit_explains_readings"], false);
+    assert_ne!(r["recommendation"], "criteria-met");
+    assert!(r["earliest_release"].is_string(), "{}", r["release_note"]);
+    assert_eq!(r["forecast_from_rejected_fit"], true);
+    assert!(r["release_note"].as_str().unwrap().starts_with("FROM A REJECTED FIT"));
+    let (_dir, project, readings) = scratch();
+    let out = release(&project, &readings, "1.0", &[]);
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert!(text.contains("FROM A REJECTED FIT"), "{text}");
+    assert!(text.contains("Birge ratio"), "{text}");
 }
 
 #[test]
@@ -159,7 +242,8 @@ fn readings_that_match_a_safe_prediction_release() {
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     let r = json_result(&out.stdout);
     assert_eq!(r["recommendation"], "criteria-met", "{}", serde_json::to_string_pretty(&r["reasons"]).unwrap());
-    assert!((r["fit"]["multiplier"].as_f64().unwrap() - 1.0).abs() < 0.1);
+    assert!((r["fit"]["rate"]["value"].as_f64().unwrap() - 1.0).abs() < 0.1);
+    assert!((r["fit"]["compressibility"]["value"].as_f64().unwrap() - 1.0).abs() < 0.05);
     assert!(r["rules"].as_array().unwrap().iter().all(|x| x["verdict"] != "fail"));
 }
 
@@ -175,7 +259,11 @@ fn plan_from_readings_starts_after_the_hold_point() {
     let h = r["stages"][0]["height_after_m"].as_f64().unwrap();
     assert!((5.75 + 0.5 - 1e-9..=5.75 + 2.5 + 1e-9).contains(&h), "first lift to {h} m");
     let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
-    assert!(v["project"]["source"].as_str().unwrap().contains("re-planned from the hold point"));
+    let source = v["project"]["source"].as_str().unwrap();
+    assert!(source.contains("re-planned from the hold point"));
+    // The demo readings' calibration is rejected (χ²/dof ≈ 6 above 4): the
+    // re-planned dates say so.
+    assert!(source.contains("FROM A REJECTED FIT"), "{source}");
 }
 
 #[test]

@@ -152,6 +152,27 @@ fn linear_settlement_is_degree_times_final() {
 }
 
 #[test]
+fn compression_below_a_depth_by_hand() {
+    // Linear mode, uniform load fully consolidated: the strain mv·Δσ is
+    // the same at every depth, so the ground below depth z compresses by
+    // mv·Δσ·(H − z) (hand calculation, 1-D), whatever the node spacing;
+    // z at the surface gives the whole settlement.
+    let p = fixtures::uniform_clay(10.0, 3.6525, "drained", "");
+    let col = Column::new(&p, 0.0);
+    let mut st = col.initial_state();
+    let load = vec![Stress { sz: 40.0, sx: 0.0, txz: 0.0 }; col.nodes.len()];
+    col.step(&mut st, &load, PorePressureRule::Vertical, 1.0);
+    col.consolidate_fully(&mut st);
+    let mv = col.elements[0].mv_lin;
+    for z in [0.0, 2.5, 3.3, 7.0] {
+        let hand = mv * 40.0 * (10.0 - z);
+        let got = col.settlement_below(&st, z);
+        assert!((got - hand).abs() < 1e-9 * hand.max(1e-3), "z {z}: {got} against {hand}");
+    }
+    assert!((col.settlement_below(&st, 0.0) - col.settlement(&st)).abs() < 1e-12);
+}
+
+#[test]
 fn radial_only_matches_hansbo() {
     // Hansbo (1981): with no vertical flow (undrained top and base — here
     // a very low cv with drains of ch = 2 m²/year), U_h = 1 − exp(−8 T_h/μ).

@@ -1,30 +1,50 @@
-//! Back-analysis of a consolidation-rate multiplier m (applied to cv and ch
-//! of every clay layer) from the piezometer and settlement-plate histories.
-//! Weighted least squares: residual_i = (model_i(m) − reading_i) / sd_i
-//! with the reading standard deviations of `[monitoring]`. The sum of
-//! squares is scanned on a log grid of m from 0.1 to 10, and the best
-//! bracket is refined by golden-section search on ln m (a robust 1-D
-//! search: no derivatives, cannot diverge). The uncertainty is the
-//! linearised one at the optimum: var(ln m) = s² / (JᵀJ), J = ∂r/∂ln m by
-//! central differences, s² = SSE / (n − 1) (e.g. Bates & Watts 1988, ch. 2).
+//! Back-analysis of two multipliers of the project's clay parameters from
+//! the piezometer and settlement-plate histories: a consolidation-rate
+//! multiplier m on cv and ch, and a compressibility multiplier c on Cc and
+//! Cr (the settlement magnitude; cv and ch stay as given, so c does not
+//! change the rate). Weighted least squares over both kinds of instrument:
+//! residual_i = (model_i(m, c) − reading_i) / sd_i with the reading
+//! precisions of `[monitoring]` (piezometer_sd_kpa, settlement_sd_m) as
+//! the standard deviations. Piezometer readings are turned into excess pore
+//! pressure at the tip's settled depth (`tip`).
+//!
+//! Method: Levenberg–Marquardt (Press et al. 1992, Numerical Recipes in C §15.5;
+//! Bard 1974, Nonlinear Parameter Estimation, ch. 5) on θ = (ln m, ln c),
+//! with the Jacobian by central differences, started from the best point
+//! of a log grid of m in which c is the weighted least-squares scale of the
+//! plates at that m (settlement is nearly proportional to c), and kept in
+//! the box M_MIN–M_MAX, C_MIN–C_MAX (a multiplier on a bound whose step
+//! points out of the box is held there). The standard errors and correlation
+//! come from the covariance (JᵀWJ)⁻¹ at the optimum (J of the weighted
+//! residuals, so W is inside it). When χ²/dof > 1 the standard errors are
+//! multiplied by the Birge ratio √(χ²/dof) (Birge 1932; the misfit is
+//! larger than the stated precisions explain), never narrowed when below 1.
 
 use super::readings::Readings;
 use super::replay::replay;
+use super::tip::{self, TipSettlement};
 use crate::error::{Error, Result};
-use crate::ground;
 use crate::model::{InstrumentKind, Project};
 use crate::response::{Engine, State};
-use nalgebra::DVector;
+use nalgebra::{DMatrix, DVector, Matrix2, Vector2};
 use serde::Serialize;
 
-/// Search range of the multiplier.
+/// Search range of the rate multiplier.
 pub const M_MIN: f64 = 0.1;
 pub const M_MAX: f64 = 10.0;
-/// Points of the coarse log grid over the range.
-const GRID: usize = 17;
-/// Golden-section tolerance on ln m, and its iteration limit.
-const TOL_LN: f64 = 1e-3;
-const MAX_ITER: usize = 60;
+/// Search range of the compressibility multiplier.
+pub const C_MIN: f64 = 0.25;
+pub const C_MAX: f64 = 4.0;
+/// Points of the starting grid of ln m over its range.
+const GRID: usize = 13;
+/// Levenberg–Marquardt: step on θ (ln units) below which it has converged,
+/// largest step, iteration limit, central-difference step on θ.
+const TOL_STEP: f64 = 1e-4;
+const MAX_STEP: f64 = 1.0;
+const MAX_ITER: usize = 40;
+/// Relative decrease of the sum of squares below which it has converged.
+const TOL_GAIN: f64 = 1e-9;
+const H: f64 = 0.01;
 
 /// A reading the model can predict.
 #[derive(Debug, Clone, Copy)]
@@ -34,14 +54,19 @@ pub struct Observation {
     pub kind: InstrumentKind,
     pub x_m: f64,
     pub z_m: f64,
-    /// Measured excess pore pressure kPa (piezometer) or settlement m.
+    /// Measured excess pore pressure kPa at the settled tip (piezometer) or
+    /// settlement m (plate).
     pub measured: f64,
     pub sd: f64,
 }
 
-/// The usable piezometer and plate readings of a file.
-pub fn observations(p: &Project, r: &Readings) -> Vec<Observation> {
-    r.readings
+/// The usable piezometer and plate readings of a file, piezometers
+/// corrected for the tip's settlement (`tip`), and how each tip's
+/// settlement was found.
+pub fn observations(p: &Project, r: &Readings) -> (Vec<Observation>, Vec<TipSettlement>) {
+    let (s_tip, tips) = tip::settlements(p, r);
+    let obs = r
+        .readings
         .iter()
         .enumerate()
         .filter(|(_, x)| x.suspect.is_none())
@@ -49,14 +74,15 @@ pub fn observations(p: &Project, r: &Readings) -> Vec<Observation> {
             let inst = &p.instruments[x.instrument];
             let (measured, sd) = match inst.kind {
                 InstrumentKind::Piezometer => {
-                    (x.value - ground::u0(&p.ground, inst.depth_m), p.monitoring.piezometer_sd_kpa)
+                    (tip::excess(p, x.value, inst.depth_m, s_tip[k]), p.monitoring.piezometer_sd_kpa)
                 }
                 InstrumentKind::SettlementPlate => (x.value, p.monitoring.settlement_sd_m),
                 InstrumentKind::LateralMarker => return None,
             };
             Some(Observation { reading: k, kind: inst.kind, x_m: inst.offset_m, z_m: inst.depth_m, measured, sd })
         })
-        .collect()
+        .collect();
+    (obs, tips)
 }
 
 /// Model values at the observations, and the state at the last reading.
@@ -75,18 +101,41 @@ pub fn predict(engine: &Engine, r: &Readings, obs: &[Observation]) -> (Vec<f64>,
     (out, st)
 }
 
-/// The fitted multiplier and how well it fits.
+/// The project with both multipliers applied.
+pub fn calibrated_project(p: &Project, rate: f64, compressibility: f64) -> Project {
+    p.with_consolidation_factor(rate).with_compressibility_factor(compressibility)
+}
+
+/// One back-analysed multiplier.
+#[derive(Debug, Clone, Serialize)]
+pub struct Estimate {
+    /// Best-fit value.
+    pub value: f64,
+    /// Standard error of ln(value) from the covariance (JᵀWJ)⁻¹ with the
+    /// stated reading precisions.
+    pub se_ln: f64,
+    /// The same widened by the Birge ratio (what the interval uses).
+    pub se_ln_widened: f64,
+    /// Approximate 95% interval, exp(ln value ± 1.96 se_ln_widened).
+    pub interval95: (f64, f64),
+    /// False when the estimate lies at a bound of its search range.
+    pub within_range: bool,
+}
+
+/// The fitted multipliers and how well they fit.
 #[derive(Debug, Clone, Serialize)]
 pub struct Fit {
-    /// Best-fit multiplier on cv and ch.
-    pub multiplier: f64,
-    /// Approximate 95% interval of the multiplier (exp(ln m ± 1.96 sd)).
-    pub interval95: (f64, f64),
-    /// Standard deviation of ln m.
-    pub sd_ln: f64,
-    /// Readings used (piezometer, plate).
+    /// Multiplier on cv and ch.
+    pub rate: Estimate,
+    /// Multiplier on Cc and Cr.
+    pub compressibility: Estimate,
+    /// Correlation coefficient of ln(rate) and ln(compressibility) from the
+    /// covariance.
+    pub correlation: f64,
+    /// Readings used (piezometer, plate) and degrees of freedom (n − 2).
     pub piezometer_readings: usize,
     pub plate_readings: usize,
+    pub dof: usize,
     /// Root-mean-square misfit with the project's values and after fitting:
     /// excess pore pressure kPa and settlement mm (None without readings of
     /// that kind).
@@ -95,12 +144,25 @@ pub struct Fit {
     pub rms_settlement_mm_before: Option<f64>,
     pub rms_settlement_mm_after: Option<f64>,
     /// Weighted sum of squares per degree of freedom after fitting (≈ 1
-    /// when the misfit is as large as the stated reading scatter).
+    /// when the misfit is as large as the stated reading precision).
     pub chi2_per_dof: f64,
-    /// Model evaluations used.
+    /// max(1, √(χ²/dof)): the factor on the standard errors.
+    pub birge_ratio: f64,
+    /// Model evaluations and Levenberg–Marquardt iterations used.
     pub evaluations: usize,
-    /// False when the best fit lies at the edge of the search range.
-    pub within_range: bool,
+    pub iterations: usize,
+    /// False when the iteration stopped at its limit (the last iterate is
+    /// reported, and the check holds for review).
+    pub converged: bool,
+    /// How each piezometer's tip settlement was found.
+    pub tip_settlement: Vec<TipSettlement>,
+}
+
+impl Fit {
+    /// Both estimates inside their search ranges.
+    pub fn within_range(&self) -> bool {
+        self.rate.within_range && self.compressibility.within_range
+    }
 }
 
 fn rms(v: impl Iterator<Item = f64>) -> Option<f64> {
@@ -108,9 +170,18 @@ fn rms(v: impl Iterator<Item = f64>) -> Option<f64> {
     (n > 0).then(|| (s / n as f64).sqrt())
 }
 
-/// Fit the multiplier to the readings.
-pub fn fit(p: &Project, r: &Readings) -> Result<Fit> {
-    let obs = observations(p, r);
+/// The box of θ = (ln m, ln c).
+fn bounds() -> [(f64, f64); 2] {
+    [(M_MIN.ln(), M_MAX.ln()), (C_MIN.ln(), C_MAX.ln())]
+}
+
+fn clamp_box(t: Vector2<f64>) -> Vector2<f64> {
+    let b = bounds();
+    Vector2::new(t[0].clamp(b[0].0, b[0].1), t[1].clamp(b[1].0, b[1].1))
+}
+
+/// Fit both multipliers to the observations (from `observations`).
+pub fn fit(p: &Project, r: &Readings, obs: &[Observation], tips: Vec<TipSettlement>) -> Result<Fit> {
     if obs.len() < 3 {
         return Err(Error::input(
             &r.file,
@@ -123,70 +194,149 @@ pub fn fit(p: &Project, r: &Readings) -> Result<Fit> {
         ));
     }
     let mut evaluations = 0;
-    let mut residuals = |m: f64| -> DVector<f64> {
+    let mut residuals = |t: Vector2<f64>| -> DVector<f64> {
         evaluations += 1;
-        let q = p.with_consolidation_factor(m);
-        let engine = Engine::new(&q);
-        let (pred, _) = predict(&engine, r, &obs);
+        let q = calibrated_project(p, t[0].exp(), t[1].exp());
+        let (pred, _) = predict(&Engine::new(&q), r, obs);
         DVector::from_iterator(obs.len(), obs.iter().zip(&pred).map(|(o, m)| (m - o.measured) / o.sd))
     };
-    let (lo, hi) = (M_MIN.ln(), M_MAX.ln());
-    let grid: Vec<(f64, f64)> = (0..GRID)
-        .map(|k| {
-            let x = lo + (hi - lo) * k as f64 / (GRID - 1) as f64;
-            (x, residuals(x.exp()).norm_squared())
-        })
-        .collect();
-    let best = grid.iter().enumerate().min_by(|a, b| a.1.1.total_cmp(&b.1.1)).map_or(0, |(k, _)| k);
-    let within_range = best > 0 && best < GRID - 1;
-    let (mut a, mut b) = (grid[best.saturating_sub(1)].0, grid[(best + 1).min(GRID - 1)].0);
-    let g = 0.5 * (5f64.sqrt() - 1.0);
-    let mut c = b - g * (b - a);
-    let mut d = a + g * (b - a);
-    let (mut fc, mut fd) = (residuals(c.exp()).norm_squared(), residuals(d.exp()).norm_squared());
-    let mut iter = 0;
-    while b - a > TOL_LN {
-        iter += 1;
-        if iter > MAX_ITER {
-            return Err(Error::Computation(format!(
-                "the back-analysis did not converge in {MAX_ITER} golden-section steps (bracket ln m {a:.4}–{b:.4})"
-            )));
+    // Start: a grid of ln m at c = 1, each with the plates' weighted
+    // least-squares scale c* = Σ s_i y_i / Σ s_i² (residuals in sd units).
+    let is_plate: Vec<bool> = obs.iter().map(|o| o.kind == InstrumentKind::SettlementPlate).collect();
+    let [bm, bc] = bounds();
+    let mut start = (f64::INFINITY, Vector2::new(0.0, 0.0));
+    for k in 0..GRID {
+        let x = bm.0 + (bm.1 - bm.0) * k as f64 / (GRID - 1) as f64;
+        let res = residuals(Vector2::new(x, 0.0));
+        let (mut sy, mut ss) = (0.0, 0.0);
+        for (j, o) in obs.iter().enumerate().filter(|(j, _)| is_plate[*j]) {
+            let model = res[j] + o.measured / o.sd;
+            sy += model * o.measured / o.sd;
+            ss += model * model;
         }
-        if fc < fd {
-            (b, d, fd) = (d, c, fc);
-            c = b - g * (b - a);
-            fc = residuals(c.exp()).norm_squared();
-        } else {
-            (a, c, fc) = (c, d, fd);
-            d = a + g * (b - a);
-            fd = residuals(d.exp()).norm_squared();
+        let c = if ss > 0.0 && sy > 0.0 { (sy / ss).ln().clamp(bc.0, bc.1) } else { 0.0 };
+        let sse: f64 = obs
+            .iter()
+            .enumerate()
+            .map(|(j, o)| {
+                if is_plate[j] {
+                    (c.exp() * (res[j] + o.measured / o.sd) - o.measured / o.sd).powi(2)
+                } else {
+                    res[j].powi(2)
+                }
+            })
+            .sum();
+        if sse < start.0 {
+            start = (sse, Vector2::new(x, c));
         }
     }
-    let x = 0.5 * (a + b);
-    let r_best = residuals(x.exp());
-    let h = 0.02;
-    let jac = (residuals((x + h).exp()) - residuals((x - h).exp())) / (2.0 * h);
-    let n = obs.len() as f64;
-    let sse = r_best.norm_squared();
-    let s2 = sse / (n - 1.0);
-    let jtj = jac.dot(&jac);
-    let sd_ln = if jtj > 0.0 { (s2 / jtj).sqrt() } else { f64::INFINITY };
-    let r_one = residuals(1.0);
+    let jacobian = |t: Vector2<f64>, residuals: &mut dyn FnMut(Vector2<f64>) -> DVector<f64>| {
+        let mut j = DMatrix::zeros(obs.len(), 2);
+        for k in 0..2 {
+            let mut e = Vector2::zeros();
+            e[k] = H;
+            j.set_column(k, &((residuals(t + e) - residuals(t - e)) / (2.0 * H)));
+        }
+        j
+    };
+    let mut t = start.1;
+    let mut res = residuals(t);
+    let mut sse = res.norm_squared();
+    let mut lambda = 1e-3;
+    let mut iterations = 0;
+    let b = bounds();
+    // A coordinate on a bound whose step points out of the box is held
+    // there (projected Levenberg–Marquardt).
+    let outward = |t: &Vector2<f64>, k: usize, dk: f64| {
+        (t[k] <= b[k].0 + 1e-9 && dk < 0.0) || (t[k] >= b[k].1 - 1e-9 && dk > 0.0)
+    };
+    let converged = loop {
+        iterations += 1;
+        if iterations > MAX_ITER {
+            break false;
+        }
+        let j = jacobian(t, &mut residuals);
+        let a = j.tr_mul(&j);
+        let g = j.tr_mul(&res);
+        let a2 = Matrix2::new(a[(0, 0)], a[(0, 1)], a[(1, 0)], a[(1, 1)]);
+        let g2 = Vector2::new(g[0], g[1]);
+        let mut step = Vector2::zeros();
+        let mut gain = 0.0;
+        let mut improved = false;
+        while lambda < 1e10 {
+            let damped = a2 + Matrix2::from_diagonal(&Vector2::new(a2[(0, 0)], a2[(1, 1)])) * lambda;
+            let Some(mut d) = damped.lu().solve(&-g2) else {
+                lambda *= 10.0;
+                continue;
+            };
+            for k in 0..2 {
+                if outward(&t, k, d[k]) {
+                    let o = 1 - k;
+                    d[k] = 0.0;
+                    d[o] = if outward(&t, o, -g2[o]) { 0.0 } else { -g2[o] / (a2[(o, o)] * (1.0 + lambda)) };
+                }
+            }
+            if d.amax() == 0.0 {
+                break;
+            }
+            let d = d * (MAX_STEP / d.amax().max(MAX_STEP));
+            let trial = clamp_box(t + d);
+            let r_trial = residuals(trial);
+            let s_trial = r_trial.norm_squared();
+            if s_trial < sse {
+                step = trial - t;
+                gain = (sse - s_trial) / sse.max(f64::MIN_POSITIVE);
+                (t, res, sse) = (trial, r_trial, s_trial);
+                lambda = (lambda / 10.0).max(1e-9);
+                improved = true;
+                break;
+            }
+            lambda *= 10.0;
+        }
+        if !improved || step.amax() < TOL_STEP || gain < TOL_GAIN {
+            break true;
+        }
+    };
+    // Covariance of θ at the optimum: (JᵀWJ)⁻¹ (W inside the weighted J).
+    let j = jacobian(t, &mut residuals);
+    let a = j.tr_mul(&j);
+    let cov = Matrix2::new(a[(0, 0)], a[(0, 1)], a[(1, 0)], a[(1, 1)]).try_inverse();
+    let n = obs.len();
+    let dof = n.saturating_sub(2).max(1);
+    let chi2 = sse / dof as f64;
+    let birge = chi2.sqrt().max(1.0);
+    let se = |k: usize| cov.map_or(f64::INFINITY, |c| c[(k, k)].max(0.0).sqrt());
+    let correlation = cov.map_or(f64::NAN, |c| c[(0, 1)] / (c[(0, 0)] * c[(1, 1)]).sqrt());
+    let estimate = |k: usize| {
+        let (s, w) = (se(k), se(k) * birge);
+        Estimate {
+            value: t[k].exp(),
+            se_ln: s,
+            se_ln_widened: w,
+            interval95: ((t[k] - 1.96 * w).exp(), (t[k] + 1.96 * w).exp()),
+            within_range: t[k] > b[k].0 + 1e-6 && t[k] < b[k].1 - 1e-6,
+        }
+    };
+    let r_one = residuals(Vector2::zeros());
     let pick = |v: &DVector<f64>, kind: InstrumentKind, scale: f64| {
         rms(obs.iter().zip(v.iter()).filter(|(o, _)| o.kind == kind).map(|(o, r)| r * o.sd * scale))
     };
     Ok(Fit {
-        multiplier: x.exp(),
-        interval95: ((x - 1.96 * sd_ln).exp(), (x + 1.96 * sd_ln).exp()),
-        sd_ln,
+        rate: estimate(0),
+        compressibility: estimate(1),
+        correlation,
         piezometer_readings: obs.iter().filter(|o| o.kind == InstrumentKind::Piezometer).count(),
         plate_readings: obs.iter().filter(|o| o.kind == InstrumentKind::SettlementPlate).count(),
+        dof,
         rms_piezometer_kpa_before: pick(&r_one, InstrumentKind::Piezometer, 1.0),
-        rms_piezometer_kpa_after: pick(&r_best, InstrumentKind::Piezometer, 1.0),
+        rms_piezometer_kpa_after: pick(&res, InstrumentKind::Piezometer, 1.0),
         rms_settlement_mm_before: pick(&r_one, InstrumentKind::SettlementPlate, 1000.0),
-        rms_settlement_mm_after: pick(&r_best, InstrumentKind::SettlementPlate, 1000.0),
-        chi2_per_dof: s2,
+        rms_settlement_mm_after: pick(&res, InstrumentKind::SettlementPlate, 1000.0),
+        chi2_per_dof: chi2,
+        birge_ratio: birge,
         evaluations,
-        within_range,
+        iterations,
+        converged,
+        tip_settlement: tips,
     })
 }

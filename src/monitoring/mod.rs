@@ -12,6 +12,7 @@ pub mod release;
 pub mod replay;
 pub mod status;
 pub mod synth;
+pub mod tip;
 pub mod trends;
 
 #[cfg(test)]

@@ -7,7 +7,6 @@
 use super::readings::Readings;
 use super::release::Calibrated;
 use super::trends::{regress, series_from};
-use crate::ground;
 use crate::model::{InstrumentKind, Project};
 use crate::response::Engine;
 use chrono::NaiveDateTime;
@@ -27,7 +26,8 @@ pub struct InstrumentStatus {
     pub last_reading: Option<NaiveDateTime>,
     /// Age of the latest usable reading at the hold point, days.
     pub age_days: Option<f64>,
-    /// Latest usable value: excess pore pressure kPa (piezometer),
+    /// Latest usable value: excess pore pressure kPa at the settled tip
+    /// (piezometer),
     /// settlement m (plate), outward movement m (marker).
     pub measured: Option<f64>,
     /// The same quantity from the project's parameters and from the
@@ -56,10 +56,9 @@ pub fn statuses(p: &Project, r: &Readings, cal: &Calibrated, engine: &Engine) ->
             let usable: Vec<_> = r.of(k).collect();
             let own: Vec<usize> =
                 (0..cal.obs.len()).filter(|j| r.readings[cal.obs[*j].reading].instrument == k).collect();
-            let u0 = ground::u0(&p.ground, inst.depth_m);
             let last = usable.last();
             let measured = match inst.kind {
-                InstrumentKind::Piezometer => last.map(|x| x.value - u0),
+                InstrumentKind::Piezometer => own.last().map(|j| cal.obs[*j].measured),
                 _ => last.map(|x| x.value),
             };
             let misfit = (!own.is_empty()).then(|| {

@@ -1,6 +1,7 @@
 //! Synthetic readings for tests and for the invented demo file: the engine
-//! run along an as-built fill record with cv and ch scaled by a chosen
-//! multiplier, read at regular times, plus Gaussian noise from a seeded
+//! run along an as-built fill record with cv and ch, and Cc and Cr, scaled
+//! by chosen multipliers, read at regular times (piezometers at their tips'
+//! settled depth: hydrostatic there plus the excess), plus Gaussian noise from a seeded
 //! generator (SplitMix64, Steele, Lea & Flood 2014; Box–Muller transform).
 //! Lateral markers move by a fixed fraction of the centreline settlement
 //! increment: one value while the fill height changes, another while it
@@ -20,6 +21,8 @@ pub struct Recipe {
     pub fill: Vec<(NaiveDateTime, f64)>,
     /// Multiplier on cv and ch of the "true" ground.
     pub multiplier: f64,
+    /// Multiplier on Cc and Cr of the "true" ground.
+    pub compressibility: f64,
     /// Reading interval of every instrument from its baseline date, days.
     pub every_days: i64,
     /// Last reading time.
@@ -46,6 +49,7 @@ impl Recipe {
         Recipe {
             fill,
             multiplier,
+            compressibility: 1.0,
             every_days: 3,
             until,
             seed,
@@ -78,7 +82,7 @@ pub fn readings_csv(p: &Project, recipe: &Recipe, comment: &str) -> String {
     }
     when.sort();
     let days: Vec<f64> = when.iter().map(|(t, _)| day_of(p, *t)).collect();
-    let q = p.with_consolidation_factor(recipe.multiplier);
+    let q = super::calibrate::calibrated_project(p, recipe.multiplier, recipe.compressibility);
     let engine = Engine::new(&q);
     let mut noise = Noise::new(recipe.seed);
     let mut rows: Vec<(NaiveDateTime, String)> = Vec::new();
@@ -96,7 +100,8 @@ pub fn readings_csv(p: &Project, recipe: &Recipe, comment: &str) -> String {
                 } else {
                     0.0
                 };
-                let u = crate::ground::u0(&p.ground, inst.depth_m)
+                let s_tip = engine.settlement_below_at(st, inst.offset_m, inst.depth_m);
+                let u = crate::ground::u0(&p.ground, inst.depth_m + s_tip)
                     + engine.excess_at_point(st, inst.offset_m, inst.depth_m)
                     + rise
                     + recipe.sd_kpa * e;

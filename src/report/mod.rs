@@ -214,11 +214,43 @@ pub struct ReleaseReport<'a> {
 pub fn fit_sentence(c: &ReleaseCheck) -> String {
     let fit = &c.fit;
     let o = |v: Option<f64>, d: usize| v.map_or("-".to_string(), |x| fixed(x, d));
+    let est = |e: &crate::monitoring::calibrate::Estimate| {
+        format!(
+            "{:.2} (standard error of ln {:.3}; 95% interval {:.2}–{:.2})",
+            e.value, e.se_ln, e.interval95.0, e.interval95.1
+        )
+    };
+    let widened = if fit.birge_ratio > 1.0 {
+        format!(
+            " (standard errors from (JᵀWJ)⁻¹; intervals widened by the Birge ratio √(χ²/dof) = {:.2})",
+            fit.birge_ratio
+        )
+    } else {
+        String::new()
+    };
+    let tips: Vec<String> = fit
+        .tip_settlement
+        .iter()
+        .map(|t| format!("{} {:.0} mm ({:.1} kPa) from {}", t.id, 1000.0 * t.latest_m, t.latest_kpa, t.source()))
+        .collect();
+    let asaoka: Vec<String> = c
+        .asaoka_check
+        .iter()
+        .map(|a| {
+            format!(
+                "{} Asaoka final {:.0} mm against the model's {:.0} mm ({})",
+                a.plate,
+                1000.0 * a.asaoka_final_m,
+                1000.0 * a.model_final_m,
+                if a.agrees { "agrees" } else { "DISAGREES" }
+            )
+        })
+        .collect();
     format!(
-        "Back-analysis: cv and ch × {:.2} (95% interval {:.2}–{:.2}) from {} piezometer and {} plate readings; misfit before → after: pore pressure {} → {} kPa rms, settlement {} → {} mm rms; χ²/dof {:.2}; {}.",
-        fit.multiplier,
-        fit.interval95.0,
-        fit.interval95.1,
+        "Back-analysis (weighted least squares, Levenberg–Marquardt): cv and ch × {}, Cc and Cr × {}, correlation {:.2}, from {} piezometer and {} plate readings; misfit before → after: pore pressure {} → {} kPa rms, settlement {} → {} mm rms; χ²/dof {:.2}{widened}. Tip settlement at the latest reading (taken off the excess): {}. Asaoka check: {}. {}.",
+        est(&fit.rate),
+        est(&fit.compressibility),
+        fit.correlation,
         fit.piezometer_readings,
         fit.plate_readings,
         o(fit.rms_piezometer_kpa_before, 1),
@@ -226,10 +258,12 @@ pub fn fit_sentence(c: &ReleaseCheck) -> String {
         o(fit.rms_settlement_mm_before, 0),
         o(fit.rms_settlement_mm_after, 0),
         fit.chi2_per_dof,
+        if tips.is_empty() { "no piezometer".to_string() } else { tips.join("; ") },
+        if asaoka.is_empty() { "no plate with a reliable Asaoka forecast".to_string() } else { asaoka.join("; ") },
         if c.fit_explains_readings {
-            "the model explains the readings within the stated limits"
+            "The model explains the readings within the stated limits"
         } else {
-            "MODEL DOES NOT EXPLAIN THE READINGS: engineer's review needed"
+            "MODEL DOES NOT EXPLAIN THE READINGS (rejected fit): engineer's review needed"
         }
     )
 }

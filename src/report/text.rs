@@ -430,7 +430,7 @@ pub fn release(rep: &ReleaseReport) -> String {
         c.lift_start,
         c.lift_end
     ));
-    out.push_str("Instruments (measured: excess pore pressure above the initial u0, or settlement / outward movement since baseline; misfit in reading sd)\n");
+    out.push_str("Instruments (measured: excess pore pressure above the initial u0 at the settled tip, or settlement / outward movement since baseline; misfit in reading sd)\n");
     out.push_str(&instrument_table(c).render());
     let mut a = Table::new(&["plate", "points", "readings", "β0 mm", "β1", "final mm", "U now", "implied", "reliable"]);
     for (id, r) in &c.asaoka {
