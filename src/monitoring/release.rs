@@ -415,8 +415,11 @@ pub fn check(p: &Project, r: &Readings, lift_m: f64, on: Option<NaiveDate>) -> R
         lift_start: runner.calendar.date(a)?,
         lift_end: runner.calendar.date(b)?,
         asaoka,
+        limits: trends::limit_traces(p, r, &|id, day| {
+            let x = |o: &&Observation| &r.readings[o.reading];
+            cal.obs.iter().find(|o| x(o).id == id && x(o).day == day).map(|o| o.measured)
+        }),
         tracks: tracks(p, r, &cal),
-        limits: trends::limit_traces(p, r),
         instruments,
         fit: cal.fit,
         asaoka_check,

@@ -311,11 +311,15 @@ pub struct LimitTrace {
 /// allows after the last lift (reading before the lift plus the limit times
 /// Δσv at the tip); ΔL/ΔS as the outward movement the limit allows for the
 /// settlement measured since the lift began at the plate nearest the
-/// centreline.
-pub fn limit_traces(p: &Project, r: &Readings) -> Vec<LimitTrace> {
+/// centreline. `excess(id, day)` is the plotted excess pore pressure of a
+/// piezometer reading (after the tip-settlement correction); a reading it
+/// does not know is taken above the initial u0 at the installed depth.
+pub fn limit_traces(p: &Project, r: &Readings, excess: &dyn Fn(&str, f64) -> Option<f64>) -> Vec<LimitTrace> {
     let m = &p.monitoring;
+    let u0 = |z: f64| crate::ground::u0(&p.ground, z);
+    let plotted = |id: &str, day: f64, value: f64, z: f64| excess(id, day).unwrap_or(value - u0(z));
     let mut out = Vec::new();
-    let mut slope = |kind, key, value: f64, unit, per_day: f64, window: f64, u0: &dyn Fn(f64) -> f64| {
+    let mut slope = |kind, key, value: f64, unit, per_day: f64, window: f64, pore: bool| {
         for (k, inst) in of_kind(p, kind) {
             let from = r.today_day - window;
             let Some(last) = r.of(k).last() else { continue };
@@ -323,7 +327,7 @@ pub fn limit_traces(p: &Project, r: &Readings) -> Vec<LimitTrace> {
             if last.day - first < 1e-9 {
                 continue;
             }
-            let y = last.value - u0(inst.depth_m);
+            let y = if pore { plotted(&inst.id, last.day, last.value, inst.depth_m) } else { last.value };
             out.push(LimitTrace {
                 kind,
                 key,
@@ -335,18 +339,17 @@ pub fn limit_traces(p: &Project, r: &Readings) -> Vec<LimitTrace> {
         }
     };
     let pore_window = r.today_day - r.last_change_end().max(r.today_day - m.trend_window_days);
-    let u0 = |z: f64| crate::ground::u0(&p.ground, z);
     let (rise, settle, lateral) =
         (m.pore_rise_limit_kpa_per_week, m.settlement_rate_limit_mm_per_day, m.lateral_rate_limit_mm_per_day);
-    let none = |_: f64| 0.0;
-    slope(InstrumentKind::Piezometer, "pore_rise_limit_kpa_per_week", rise, "kPa/week", rise / 7.0, pore_window, &u0);
+    slope(InstrumentKind::Piezometer, "pore_rise_limit_kpa_per_week", rise, "kPa/week", rise / 7.0, pore_window, true);
     let w = m.rate_window_days;
     let (s_key, l_key) = ("settlement_rate_limit_mm_per_day", "lateral_rate_limit_mm_per_day");
-    slope(InstrumentKind::SettlementPlate, s_key, settle, "mm/day", settle / 1000.0, w, &none);
-    slope(InstrumentKind::LateralMarker, l_key, lateral, "mm/day", lateral / 1000.0, w, &none);
+    slope(InstrumentKind::SettlementPlate, s_key, settle, "mm/day", settle / 1000.0, w, false);
+    slope(InstrumentKind::LateralMarker, l_key, lateral, "mm/day", lateral / 1000.0, w, false);
     if let Some(((start, end), tips)) = lift_tips(p, r) {
         for t in tips {
-            let y = t.before.1 - u0(t.inst.depth_m) + m.pore_pressure_ratio_limit * t.dsv;
+            let before = plotted(&t.inst.id, t.before.0, t.before.1, t.inst.depth_m);
+            let y = before + m.pore_pressure_ratio_limit * t.dsv;
             out.push(LimitTrace {
                 kind: InstrumentKind::Piezometer,
                 key: "pore_pressure_ratio_limit",

@@ -210,6 +210,27 @@ pub struct ReleaseReport<'a> {
     pub log_head_after: String,
 }
 
+/// The calibration in one line (page 1 of the record; the whole paragraph
+/// of `fit_sentence` is on page 2).
+pub fn fit_summary(c: &ReleaseCheck) -> String {
+    let fit = &c.fit;
+    let est = |e: &crate::monitoring::calibrate::Estimate| {
+        format!("{:.2} (95% {:.2}–{:.2})", e.value, e.interval95.0, e.interval95.1)
+    };
+    format!(
+        "Back-analysis: cv and ch × {}, Cc and Cr × {}, correlation {:.2}, χ²/dof {:.2}: {} (details on page 2).",
+        est(&fit.rate),
+        est(&fit.compressibility),
+        fit.correlation,
+        fit.chi2_per_dof,
+        if c.fit_explains_readings {
+            "the model explains the readings within the stated limits"
+        } else {
+            "MODEL DOES NOT EXPLAIN THE READINGS (rejected fit): engineer's review needed"
+        }
+    )
+}
+
 /// The calibration in one paragraph (terminal and record).
 pub fn fit_sentence(c: &ReleaseCheck) -> String {
     let fit = &c.fit;

@@ -69,7 +69,7 @@ pub fn decision_page(c: &mut Canvas, r: &ReleaseReport) {
     if !k.release_note.is_empty() {
         y = c.paragraph(MARGIN, y + 1.0, WIDTH, 7.0, &format!("Note: {}.", k.release_note)) + 1.0;
     }
-    y = c.paragraph(MARGIN, y + 1.0, WIDTH, 7.0, &crate::report::fit_sentence(k)) + 1.0;
+    y = c.paragraph(MARGIN, y + 1.0, WIDTH, 7.0, &crate::report::fit_summary(k)) + 1.0;
     y = c.paragraph(MARGIN, y + 1.0, WIDTH, 7.0, &crate::report::conditions_sentence(k)) + 1.0;
     y = signature_block(c, y + 2.0);
     c.paragraph(
@@ -77,7 +77,7 @@ pub fn decision_page(c: &mut Canvas, r: &ReleaseReport) {
         y + 3.0,
         WIDTH,
         6.8,
-        "Instruments, Asaoka's forecast, warnings and cautions: page 2. Instrument layout on the cross-section: page 3. Readings against the model, with the alarm limits: page 4.",
+        "Instruments, the back-analysis, Asaoka's forecast, warnings and cautions: page 2. Instrument layout on the cross-section: page 3. Readings against the model, with the alarm limits: page 4.",
     );
 }
 
@@ -106,6 +106,7 @@ pub fn details_page(c: &mut Canvas, r: &ReleaseReport) {
         &rows,
         6.8,
     ) + 2.0;
+    y = c.paragraph(MARGIN, y + 1.0, WIDTH, 7.0, &crate::report::fit_sentence(k)) + 1.0;
     let not_eval = k.rules.iter().filter(|r| r.verdict == Verdict::NotEvaluated).count();
     if not_eval > 0 {
         y = c.paragraph(
