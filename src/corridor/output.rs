@@ -85,10 +85,9 @@ pub fn text(p: &Programme, source: &str) -> String {
         ]);
     }
     out.push_str(&w.render());
-    for warning in
-        p.warnings.iter().chain(p.sections.iter().filter_map(|s| s.outcome.as_ref()).flat_map(|o| &o.warnings))
-    {
-        out.push_str(&format!("\nWARNING: {}", wrap(warning, 76, "  ")));
+    let named = p.sections.iter().flat_map(|s| s.outcome.iter().flat_map(move |o| &o.warnings).map(move |w| (s, w)));
+    for warning in p.warnings.iter().cloned().chain(named.map(|(s, w)| format!("({}) {w}", s.name))) {
+        out.push_str(&format!("\nWARNING: {}", wrap(&warning, 76, "  ")));
     }
     out.push_str("\n\nInputs (SHA-256):\n");
     for i in &p.inputs {
