@@ -317,11 +317,12 @@ pub(super) fn lift_candidates(r: &Runner, remaining: f64) -> Vec<f64> {
     out
 }
 
-/// A warm-started trial's FS this close below the target (or closer) is
-/// decided by the full search: within the searches' resolution (their
-/// final 2 cm step moves the FS by about 0.001 on the demo) the warm
-/// search's lower circle is no reason to differ from the exhaustive path.
-/// The guard-rail tolerance on FS, common practice in reporting to 0.01.
+/// A warm-started trial whose FS is this close to the target is decided by
+/// the full search: there the warm and the full search differ by their
+/// resolution (a few 1e-4 on the demo, either way: a warm search can find
+/// a slightly lower neighbour of the full search's circle, or stop short
+/// of its minimum), and the decision should be the exhaustive path's. The
+/// issue's guard-rail tolerance on FS.
 const WARM_BORDER: f64 = 0.002;
 
 /// FS at the end of placing `lift` starting on or after `start`, resting
@@ -337,10 +338,11 @@ fn trial(r: &Runner, rest: &RestCache, start: i64, lift: f64, full: bool, effort
     r.place(&mut s, lift, &mut |_| {})?;
     let target = r.engine.project.criteria.fs_construction;
     let (fs, confirmed) = match if full { None } else { Some(r.trial_stability(&s, effort)?) } {
-        // A warm FS clearly below the target rejects; one that meets it
-        // waits for confirmation; one just below is decided by the full
-        // search now, as the exhaustive path would.
-        Some((warm, confirmed)) if confirmed || warm < target - WARM_BORDER || warm >= target => (warm, confirmed),
+        // A warm FS clearly below the target rejects, one clearly above
+        // waits for confirmation (only the trial accepted needs it); one
+        // within `WARM_BORDER` of the target is decided by the full search
+        // now, as the exhaustive path would.
+        Some((warm, confirmed)) if confirmed || (warm - target).abs() >= WARM_BORDER => (warm, confirmed),
         _ => (r.stability(&s, effort)?.governing_fs(), true),
     };
     rest.remember(start, lift, fs, (!confirmed).then_some(s));
