@@ -268,7 +268,12 @@ fn governing(r: &Runner, start: &State, stages: &[Stage], effort: &mut Effort) -
     for s in stages.iter().take(g.number) {
         r.place_on(&mut st, s.start, s.thickness_m)?;
     }
-    let critical = r.stability(&st, effort)?.critical;
+    // The stage's own search was made on this state (rests step on a fixed
+    // grid, so the replay reaches it exactly).
+    let critical = match &g.critical {
+        Some(found) => found.critical.clone(),
+        None => r.stability(&st, effort)?.critical,
+    };
     Ok(Some(Governing { stage: g.number, height_m: st.height_m, field: r.engine.field(&st), critical }))
 }
 
