@@ -2,7 +2,8 @@
 //! `cargo bench --bench engines`). Each case is repeated and the median
 //! wall time reported with its throughput. Not a test: nothing here asserts
 //! a time. `FILLPACE_BENCH_ONLY=response` runs case 1 only (e.g. under
-//! `valgrind --tool=callgrind`, whose instruction counts repeat exactly).
+//! `valgrind --tool=callgrind`, whose instruction counts repeat exactly),
+//! `FILLPACE_BENCH_ONLY=plan` cases 1 to 3b.
 
 use fillpace::response::Engine;
 use fillpace::schedule::{Effort, Runner, planner};
@@ -73,12 +74,29 @@ fn main() {
         let e = Engine::new(&p);
         planner::plan(&Runner::new(&e)).unwrap()
     });
-    let Effort { stability_searches, consolidation_steps } = plan.effort;
+    let Effort { stability_searches, warm_searches, consolidation_steps } = plan.effort;
     println!(
-        "plan      {} stages, {stability_searches} stability searches, {consolidation_steps} consolidation steps: {:.0} ms median",
+        "plan      {} stages, {stability_searches} full and {warm_searches} warm stability searches, {consolidation_steps} consolidation steps: {:.0} ms median",
         plan.stages.len(),
         t.as_secs_f64() * 1e3
     );
+
+    // 3b. The same plan with every trial by the full search (the reference
+    //     path of the guard-rail tests).
+    let (t, full) = time(3, || {
+        let e = Engine::new(&p);
+        let mut r = Runner::new(&e);
+        r.exhaustive = true;
+        planner::plan(&r).unwrap()
+    });
+    println!(
+        "plan      exhaustive trials: {} full stability searches: {:.0} ms median",
+        full.effort.stability_searches,
+        t.as_secs_f64() * 1e3
+    );
+    if std::env::var("FILLPACE_BENCH_ONLY").is_ok_and(|v| v == "plan") {
+        return;
+    }
 
     // 4. Monte Carlo: realisations of the demo's uncertain parameters, each
     //    checking the timetable and planning afresh, on one thread and on

@@ -202,7 +202,7 @@ pub enum StrengthModel {
 }
 
 /// Embankment cross-section (symmetric trapezoid).
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Embankment {
     /// Final design height of the crest above OGL, m.
     pub design_height_m: f64,
@@ -265,7 +265,7 @@ impl StageShape {
 
 /// A stability berm: a flat platform at `height_m` above OGL extending
 /// `width_m` beyond where the main slope meets that height.
-#[derive(Debug, Clone, Copy, Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Berm {
     pub width_m: f64,
     pub height_m: f64,

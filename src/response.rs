@@ -23,8 +23,10 @@ const LEVELS: usize = 241;
 pub struct Engine<'p> {
     pub project: &'p Project,
     pub columns: Vec<Column>,
-    /// Unit-weight stress fields per thickness level: [level] → [column][node].
-    table: Vec<OnceLock<Vec<Vec<Stress>>>>,
+    /// Unit-weight stress fields per thickness level: [level] → [column][node],
+    /// each built on first use; shared by engines of the same geometry
+    /// (`Engine::sharing`).
+    table: std::sync::Arc<Vec<OnceLock<Vec<Vec<Stress>>>>>,
     /// Time steps taken so far (all columns advance together).
     steps: AtomicUsize,
     /// Column steps whose storage iteration stopped at its limit.
@@ -60,9 +62,30 @@ impl<'p> Engine<'p> {
     /// Build the columns at the standard offsets of the final section.
     pub fn new(project: &'p Project) -> Engine<'p> {
         let columns: Vec<Column> = column_offsets(project).iter().map(|c| Column::new(project, c.x_m)).collect();
-        let table = (0..LEVELS).map(|_| OnceLock::new()).collect();
+        let table = std::sync::Arc::new((0..LEVELS).map(|_| OnceLock::new()).collect());
         let interfaces = clay_interfaces(project, &columns);
         Engine { project, columns, table, steps: AtomicUsize::new(0), unconverged: AtomicUsize::new(0), interfaces }
+    }
+
+    /// `new`, sharing `other`'s stress tables when both have the same
+    /// embankment and the same column offsets and node depths (the elastic
+    /// stresses depend on nothing else), so that Monte Carlo realisations
+    /// varying soil parameters build none of their own. The tables are
+    /// the same numbers whichever engine builds a level first.
+    pub fn sharing(project: &'p Project, other: &Engine) -> Engine<'p> {
+        let mut e = Engine::new(project);
+        let same_nodes = |a: &Column, b: &Column| {
+            a.x_m == b.x_m
+                && a.nodes.len() == b.nodes.len()
+                && a.nodes.iter().zip(&b.nodes).all(|(m, n)| m.z_m == n.z_m)
+        };
+        if project.embankment == other.project.embankment
+            && e.columns.len() == other.columns.len()
+            && e.columns.iter().zip(&other.columns).all(|(a, b)| same_nodes(a, b))
+        {
+            e.table = other.table.clone();
+        }
+        e
     }
 
     /// Consolidation time steps taken so far by this engine.
@@ -406,4 +429,42 @@ fn bracket(n: usize, at: impl Fn(usize) -> f64, v: f64) -> (usize, f64) {
     }
     let (a, b) = (at(lo), at(hi));
     (lo, ((v - a) / (b - a)).clamp(0.0, 1.0))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The demo with `key` scaled by `factor`.
+    fn demo_with(key: &str, factor: f64) -> Project {
+        let mut d = crate::input::vary::Document::parse(include_str!("../examples/kestrel-fen.toml"), "demo")
+            .expect("demo parses");
+        d.scale(key, factor).expect("key exists");
+        d.project("demo varied").expect("demo validates")
+    }
+
+    /// Engines that differ in a soil parameter share the stress tables and
+    /// give bit-for-bit the ground response of an engine with its own (the
+    /// tables are a function of the geometry alone); a different embankment
+    /// gets its own tables.
+    #[test]
+    fn stress_tables_are_shared_only_between_the_same_geometry() {
+        let p = demo_with("ground.layers[1].cv_m2_per_year", 1.0);
+        let soil = demo_with("ground.layers[1].cv_m2_per_year", 2.0);
+        let wider = demo_with("embankment.crest_width_m", 1.1);
+        let base = Engine::new(&p);
+        let shared = Engine::sharing(&soil, &base);
+        assert!(std::sync::Arc::ptr_eq(&base.table, &shared.table));
+        assert!(!std::sync::Arc::ptr_eq(&base.table, &Engine::sharing(&wider, &base).table));
+        let own = Engine::new(&soil);
+        let run = |e: &Engine| {
+            let mut st = e.initial_state();
+            e.advance(&mut st, 5.0, 2.0);
+            e.advance(&mut st, 30.0, 2.0);
+            st.settlement_centre_m
+        };
+        // Build some levels through the base engine first, then compare.
+        run(&base);
+        assert_eq!(run(&shared).to_bits(), run(&own).to_bits());
+    }
 }

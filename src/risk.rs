@@ -239,11 +239,14 @@ fn realisations(
     let l = random::correlation_factor(&base.uncertainty)
         .ok_or_else(|| Error::Computation("the correlation matrix is not positive definite".into()))?;
     let seeds = seeds(plan);
+    // The best estimate's engine lends its stress tables to every
+    // realisation of the same geometry.
+    let shared = Engine::new(base);
     let work = || -> Result<Vec<Realisation>> {
         (0..opts.runs)
             .into_par_iter()
             .map(|i| {
-                let r = realise(doc, base, &l, plan, &seeds, i, opts.seed, afresh);
+                let r = realise(doc, base, &shared, &l, plan, &seeds, i, opts.seed, afresh);
                 tick();
                 r
             })
@@ -388,6 +391,7 @@ pub fn reliability_target(
 fn realise(
     doc: &Document,
     base: &Project,
+    shared: &Engine,
     l: &nalgebra::DMatrix<f64>,
     plan: &Plan,
     seeds: &[(f64, Vec<BandResult>)],
@@ -405,7 +409,7 @@ fn realise(
     }
     let named: Vec<String> = u.params.iter().zip(&factors).map(|(p, f)| format!("{} × {f:.3}", p.name)).collect();
     let p = d.project(&format!("{} in realisation {index} ({})", doc.file, named.join(", ")))?;
-    let engine = Engine::new(&p);
+    let engine = Engine::sharing(&p, shared);
     let r = Runner::for_realisation(&engine, seeds.to_vec());
     let mut effort = Effort::default();
     let mut st = engine.initial_state();

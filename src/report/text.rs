@@ -357,8 +357,8 @@ pub fn plan(r: &PlanReport) -> String {
         pl.volume_design_m3_per_m, pl.volume_makeup_m3_per_m, pl.volume_surcharge_m3_per_m
     ));
     out.push_str(&format!(
-        "Effort: {} slip-circle searches, {} consolidation steps.\n",
-        pl.effort.stability_searches, pl.effort.consolidation_steps
+        "Effort: {} full slip-circle searches, {} warm-started local searches, {} consolidation steps.\n",
+        pl.effort.stability_searches, pl.effort.warm_searches, pl.effort.consolidation_steps
     ));
     for w in &pl.warnings {
         out.push_str(&format!("warning: {w}\n"));

@@ -66,7 +66,8 @@ fn residual_after_removal(r: &Runner, st: &State, loading_start: f64) -> f64 {
     settlement::forecast(r.engine, &s, loading_start).residual_m
 }
 
-/// The plan's totals from its stages and the state at the finish.
+/// The plan's totals from its stages and the state at the finish (the
+/// state at the end of the last stage).
 pub(super) fn totals(
     r: &Runner,
     start: &State,
@@ -88,7 +89,12 @@ pub(super) fn totals(
         .map(|s| (s.fs_end, s.number))
         .min_by(|a, b| a.0.total_cmp(&b.0))
         .unwrap_or((f64::INFINITY, 0));
-    let at_finish = r.stability(st, &mut effort)?;
+    // The last stage's search was made on this very state (nothing moves
+    // the state between a stage's end and the totals).
+    let at_finish = match stages.last().and_then(|s| s.critical.clone()) {
+        Some(found) => found,
+        None => r.stability(st, &mut effort)?,
+    };
     let fs_finish = at_finish.governing_fs();
     effort.consolidation_steps = r.engine.steps_taken();
     warnings.extend(r.engine.convergence_warning());

@@ -12,7 +12,7 @@ pub mod record;
 
 use crate::error::{Error, Result};
 use crate::response::{Engine, State};
-use crate::stability::search::{BandResult, SearchResult, search, search_from};
+use crate::stability::search::{BandResult, SearchResult, search, search_from, search_warm};
 use crate::stability::{Diagnostics, Section, fill_load};
 use calendar::Calendar;
 
@@ -30,8 +30,17 @@ pub struct Runner<'e, 'p> {
     /// of each band in seeded searches: trials at one height from one state
     /// differ little from each other.
     recent: std::cell::RefCell<Vec<(f64, Vec<BandResult>)>>,
+    /// Band circles of the latest search (full or warm) at each crest
+    /// height (m): the starts of the planner's warm-started trial searches.
+    warm: std::cell::RefCell<Vec<(f64, Vec<BandResult>)>>,
     /// Clamps and fallbacks of every slip-circle search run so far.
     diagnostics: std::cell::RefCell<Diagnostics>,
+    /// Whether the planner's trials use the full search only (the
+    /// reference path the guard-rail tests compare with): off by default,
+    /// when a trial is first tried by a warm-started local search
+    /// (`trial_stability`) and only the trial that is accepted is
+    /// confirmed by the full search.
+    pub exhaustive: bool,
     /// Whether plans record report detail (the figures' time series and
     /// profiles, the governing section, the FS at each release); off for
     /// Monte Carlo realisations, which need the timetable only.
@@ -45,8 +54,20 @@ pub struct Runner<'e, 'p> {
 /// It also remembers the FS of every trial made, so none is made twice.
 pub struct RestCache {
     points: std::cell::RefCell<Vec<State>>,
-    /// FS of the trials already made from this rest: (start day, lift m, FS).
-    trials: std::cell::RefCell<Vec<(i64, f64, f64)>>,
+    /// The trials already made from this rest.
+    trials: std::cell::RefCell<Vec<Trial>>,
+}
+
+/// A planner trial: a lift of `lift_m` started on `day` from a rest.
+struct Trial {
+    day: i64,
+    lift_m: f64,
+    /// Its FS: the full search's once confirmed, otherwise the warm
+    /// search's.
+    fs: f64,
+    /// The state at the end of placement while the FS is a warm search's
+    /// only (None once confirmed).
+    unconfirmed: Option<State>,
 }
 
 impl RestCache {
@@ -55,13 +76,24 @@ impl RestCache {
     }
 
     /// The FS of a lift of `lift_m` started on `day`, if already tried.
-    pub fn known(&self, day: i64, lift_m: f64) -> Option<f64> {
-        self.trials.borrow().iter().find(|t| t.0 == day && t.1 == lift_m).map(|t| t.2)
+    /// With `full`, the full search's verdict: a trial whose FS was only a
+    /// warm search's (one that met the target: the planner keeps no other
+    /// unconfirmed) is confirmed first, its FS becoming the full search's.
+    pub fn known(&self, r: &Runner, day: i64, lift_m: f64, full: bool, effort: &mut Effort) -> Result<Option<f64>> {
+        let mut trials = self.trials.borrow_mut();
+        let Some(t) = trials.iter_mut().find(|t| t.day == day && t.lift_m == lift_m) else { return Ok(None) };
+        if full && let Some(placed) = t.unconfirmed.take() {
+            let f = r.stability(&placed, effort)?.governing_fs();
+            t.fs = f;
+        }
+        Ok(Some(t.fs))
     }
 
-    /// Record the FS of a trial.
-    pub fn remember(&self, day: i64, lift_m: f64, fs: f64) {
-        self.trials.borrow_mut().push((day, lift_m, fs));
+    /// Record the FS of a trial: `placed` is the state at the end of
+    /// placement when the FS is only a warm search's (None when it is the
+    /// full search's).
+    pub fn remember(&self, day: i64, lift_m: f64, fs: f64, placed: Option<State>) {
+        self.trials.borrow_mut().push(Trial { day, lift_m, fs, unconfirmed: placed });
     }
 
     /// The state after resting from the start until `day` (not before the
@@ -84,8 +116,12 @@ impl RestCache {
 /// Counters for the benchmark report.
 #[derive(Debug, Clone, Copy, Default, serde::Serialize)]
 pub struct Effort {
-    /// Full slip-circle searches run.
+    /// Full slip-circle searches run (grid and refinement, or the seeded
+    /// search of a Monte Carlo realisation).
     pub stability_searches: usize,
+    /// Warm-started local searches run by the planner's trials (each one
+    /// only rejects a trial or brackets a search).
+    pub warm_searches: usize,
     /// Consolidation time steps taken (trials included).
     pub consolidation_steps: usize,
 }
@@ -101,7 +137,9 @@ impl<'e, 'p> Runner<'e, 'p> {
             rest_dt: p.analysis.rest_step_days,
             seeds: Vec::new(),
             recent: Default::default(),
+            warm: Default::default(),
             diagnostics: Default::default(),
+            exhaustive: false,
             detail: true,
         }
     }
@@ -203,7 +241,53 @@ impl<'e, 'p> Runner<'e, 'p> {
             found = fill_load::lower_search(self.engine.project, st.height_m, &field, found)?;
         }
         self.diagnostics.borrow_mut().merge(&found.diagnostics);
+        self.remember_bands(st.height_m, &found.bands);
         Ok(found)
+    }
+
+    /// A planner trial's FS (governing, as `stability`) and whether it is
+    /// the full search's (`true`) or a warm-started local search's from
+    /// the band circles of the latest search at the nearest crest height
+    /// (`false`). A warm FS is an upper bound on what the full search could
+    /// confirm only in the sense that its circle is real: a trial whose
+    /// warm FS misses the target is rejected, one that meets it must still
+    /// be confirmed by `stability` before it is accepted. The full search
+    /// is used directly when `exhaustive` is set, for Monte Carlo
+    /// realisations (already seeded), for a fill taken as a load (two
+    /// idealisations per search) and when no search has run yet.
+    pub fn trial_stability(&self, st: &State, effort: &mut Effort) -> Result<(f64, bool)> {
+        let h = st.height_m;
+        let seeds = {
+            let warm = self.warm.borrow();
+            warm.iter().min_by(|a, b| (a.0 - h).abs().total_cmp(&(b.0 - h).abs())).map(|w| w.1.clone())
+        };
+        let direct = self.exhaustive || !self.seeds.is_empty() || fill_load::applies(self.engine.project);
+        let Some(seeds) = seeds.filter(|_| !direct) else {
+            return Ok((self.stability(st, effort)?.governing_fs(), true));
+        };
+        let field = self.engine.field(st);
+        let (found, full) = search_warm(&Section::new(self.engine.project, h, &field), &seeds)?;
+        if full {
+            effort.stability_searches += 1;
+        } else {
+            effort.warm_searches += 1;
+        }
+        self.diagnostics.borrow_mut().merge(&found.diagnostics);
+        self.remember_bands(h, &found.bands);
+        Ok((found.governing_fs(), full))
+    }
+
+    /// Keep `bands` as the latest band circles at crest height `h_m` (for
+    /// the runners whose trials start warm).
+    fn remember_bands(&self, h_m: f64, bands: &[BandResult]) {
+        if self.exhaustive || !self.seeds.is_empty() {
+            return;
+        }
+        let mut warm = self.warm.borrow_mut();
+        match warm.iter().position(|w| (w.0 - h_m).abs() < 1e-9) {
+            Some(k) => warm[k].1 = bands.to_vec(),
+            None => warm.push((h_m, bands.to_vec())),
+        }
     }
 
     /// Warnings for every clamp and fallback met by the searches so far.

@@ -268,7 +268,12 @@ fn governing(r: &Runner, start: &State, stages: &[Stage], effort: &mut Effort) -
     for s in stages.iter().take(g.number) {
         r.place_on(&mut st, s.start, s.thickness_m)?;
     }
-    let critical = r.stability(&st, effort)?.critical;
+    // The stage's own search was made on this state (rests step on a fixed
+    // grid, so the replay reaches it exactly).
+    let critical = match &g.critical {
+        Some(found) => found.critical.clone(),
+        None => r.stability(&st, effort)?.critical,
+    };
     Ok(Some(Governing { stage: g.number, height_m: st.height_m, field: r.engine.field(&st), critical }))
 }
 
@@ -317,22 +322,64 @@ pub(super) fn lift_candidates(r: &Runner, remaining: f64) -> Vec<f64> {
     out
 }
 
+/// A warm-started trial whose FS is this close to the target is decided by
+/// the full search: there the warm and the full search differ by their
+/// resolution (a few 1e-4 on the demo, either way: a warm search can find
+/// a slightly lower neighbour of the full search's circle, or stop short
+/// of its minimum), and the decision should be the exhaustive path's. The
+/// issue's guard-rail tolerance on FS.
+const WARM_BORDER: f64 = 0.002;
+
 /// FS at the end of placing `lift` starting on or after `start`, resting
-/// from the state of `rest` until then.
-fn trial(r: &Runner, rest: &RestCache, start: i64, lift: f64, effort: &mut Effort) -> Result<f64> {
-    if let Some(fs) = rest.known(start, lift) {
+/// from the state of `rest` until then. With `full` it is the full
+/// search's (an acceptance); otherwise it may be a warm-started local
+/// search's (`Runner::trial_stability`), good for rejecting and bracketing
+/// only.
+fn trial(r: &Runner, rest: &RestCache, start: i64, lift: f64, full: bool, effort: &mut Effort) -> Result<f64> {
+    if let Some(fs) = rest.known(r, start, lift, full, effort)? {
         return Ok(fs);
     }
     let mut s = rest.at(r, start);
     r.place(&mut s, lift, &mut |_| {})?;
-    let fs = r.stability(&s, effort)?.governing_fs();
-    rest.remember(start, lift, fs);
+    let target = r.engine.project.criteria.fs_construction;
+    let (fs, confirmed) = match if full { None } else { Some(r.trial_stability(&s, effort)?) } {
+        // A warm FS clearly below the target rejects, one clearly above
+        // waits for confirmation (only the trial accepted needs it); one
+        // within `WARM_BORDER` of the target is decided by the full search
+        // now, as the exhaustive path would.
+        Some((warm, confirmed)) if confirmed || (warm - target).abs() >= WARM_BORDER => (warm, confirmed),
+        _ => (r.stability(&s, effort)?.governing_fs(), true),
+    };
+    rest.remember(start, lift, fs, (!confirmed).then_some(s));
     Ok(fs)
 }
 
 /// Start day and thickness of the next lift: the earliest day on which the
 /// thinnest candidate is safe, then the thickest candidate safe that day.
+/// The searches run on the trials' provisional FS (warm searches reject
+/// and bracket); the lift found is then confirmed by the full search, and
+/// when the full search rejects it the search runs again with that trial
+/// now known to be unsafe. Each round confirms a new trial, so it ends.
 fn find_next(
+    r: &Runner,
+    st: &State,
+    rest: &RestCache,
+    earliest: i64,
+    last_rest: i64,
+    cands: &[f64],
+    effort: &mut Effort,
+) -> Result<(i64, f64)> {
+    let target = r.engine.project.criteria.fs_construction;
+    loop {
+        let (day, lift) = find_provisional(r, st, rest, earliest, last_rest, cands, effort)?;
+        if trial(r, rest, day, lift, true, effort)? >= target {
+            return Ok((day, lift));
+        }
+    }
+}
+
+/// `find_next` on the trials' provisional FS.
+fn find_provisional(
     r: &Runner,
     st: &State,
     rest: &RestCache,
@@ -345,7 +392,7 @@ fn find_next(
     let last = cands.len() - 1;
     let first = r.next_workable(earliest.max(st.day.ceil() as i64))?;
     let safe = |i: usize, day: i64, effort: &mut Effort| -> Result<bool> {
-        Ok(trial(r, rest, day, cands[i], effort)? >= target)
+        Ok(trial(r, rest, day, cands[i], false, effort)? >= target)
     };
     if safe(last, first, effort)? {
         // Lift-limited: the thickest safe candidate on the first day.
@@ -356,7 +403,7 @@ fn find_next(
     }
     // Rest-limited: on the day the thinnest lift first becomes safe a
     // thicker one rarely is; try one increment up before bisecting.
-    let start = safe_day_from(r, st, rest, first, cands[last], last_rest, effort)?;
+    let start = provisional_safe_day(r, st, rest, first, cands[last], last_rest, effort)?;
     if last == 0 || !safe(last - 1, start, effort)? {
         return Ok((start, cands[last]));
     }
@@ -394,7 +441,9 @@ pub(crate) fn earliest_safe_day(r: &Runner, st: &State, first: i64, lift: f64, e
 }
 
 /// `earliest_safe_day` with the rests from `st` shared through `rest`, the
-/// bracket grown from a first rest of `guess` days (at least 14).
+/// bracket grown from a first rest of `guess` days (at least 14): found on
+/// the trials' provisional FS, then confirmed by the full search (again
+/// from the confirmed-unsafe day when the full search rejects it).
 fn safe_day_from(
     r: &Runner,
     st: &State,
@@ -405,15 +454,36 @@ fn safe_day_from(
     effort: &mut Effort,
 ) -> Result<i64> {
     let target = r.engine.project.criteria.fs_construction;
-    let f = |day: i64, effort: &mut Effort| -> Result<f64> { Ok(trial(r, rest, day, lift, effort)? - target) };
+    loop {
+        let day = provisional_safe_day(r, st, rest, first, lift, guess, effort)?;
+        if trial(r, rest, day, lift, true, effort)? >= target {
+            return Ok(day);
+        }
+    }
+}
+
+/// `safe_day_from` on the trials' provisional FS.
+fn provisional_safe_day(
+    r: &Runner,
+    st: &State,
+    rest: &RestCache,
+    first: i64,
+    lift: f64,
+    guess: i64,
+    effort: &mut Effort,
+) -> Result<i64> {
+    let target = r.engine.project.criteria.fs_construction;
+    let f = |day: i64, effort: &mut Effort| -> Result<f64> { Ok(trial(r, rest, day, lift, false, effort)? - target) };
     let (mut lo, mut f_lo) = (first, f(first, effort)?);
     if st.height_m <= 1e-9 && r.engine.peak_excess(st) < 1e-6 {
+        // The FS printed is the full search's.
+        let fs = trial(r, rest, first, lift, true, effort)?;
         let p = r.engine.project;
         return Err(Error::Computation(format!(
             "cannot be built to {:.2} m with FS ≥ {:.2}: even the thinnest lift ({lift:.2} m) on the untouched ground has FS {:.2}, and resting without load brings no strength gain. Consider berms, reinforcement, a lighter fill or ground improvement.",
             p.max_height_m(),
             target,
-            f_lo + target
+            fs
         )));
     }
     let mut step = guess.max(14);
@@ -449,10 +519,15 @@ fn safe_day_from(
         if side.abs() >= 2 {
             mid = (lo + hi) / 2;
         }
-        let mid_w = r.next_workable(mid)?;
+        let mut mid_w = r.next_workable(mid)?;
         if mid_w >= hi {
-            // no workable day strictly inside the bracket
-            break;
+            // The guess fell on days off running up to `hi`: try the last
+            // workable day before it; none strictly inside the bracket
+            // means `hi` is the answer.
+            match (lo + 1..mid).rev().find(|d| r.calendar.workable(*d)) {
+                Some(d) => mid_w = d,
+                None => break,
+            }
         }
         let v = f(mid_w, effort)?;
         if v >= 0.0 {

@@ -226,6 +226,21 @@ pub fn search_from(s: &Section, seeds: &[BandResult], alternates: &[BandResult])
     Ok(SearchResult::new(critical, refined, s, count.d))
 }
 
+/// Warm-started search for the planner's trials: `search_from` the band
+/// circles of a nearby earlier search (`seeds`, the previous trial's or
+/// day's) when they cover every band of this section, the full `search`
+/// otherwise. A local search finds a circle at least as low as its start's
+/// neighbourhood allows, never the global minimum for certain: its FS may
+/// only reject a trial or bracket a search; acceptance rests on `search`.
+/// The flag says whether the answer is the full search's.
+pub fn search_warm(s: &Section, seeds: &[BandResult]) -> Result<(SearchResult, bool)> {
+    if bands(s).iter().all(|b| seeds.iter().any(|seed| seed.band == b.name)) {
+        Ok((search_from(s, seeds, &[])?, false))
+    } else {
+        Ok((search(s)?, true))
+    }
+}
+
 fn better(a: &Candidate, b: &Candidate) -> bool {
     a.0.fs < b.0.fs || (a.0.fs == b.0.fs && a.2 < b.2)
 }
