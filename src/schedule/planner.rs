@@ -342,13 +342,16 @@ fn trial(r: &Runner, rest: &RestCache, start: i64, lift: f64, full: bool, effort
     let mut s = rest.at(r, start);
     r.place(&mut s, lift, &mut |_| {})?;
     let target = r.engine.project.criteria.fs_construction;
-    let (fs, confirmed) = match if full { None } else { Some(r.trial_stability(&s, effort)?) } {
+    let warm = if full { None } else { Some(r.trial_stability(&s, effort)?) };
+    let (fs, confirmed) = match warm {
         // A warm FS clearly below the target rejects, one clearly above
         // waits for confirmation (only the trial accepted needs it); one
         // within `WARM_BORDER` of the target is decided by the full search
-        // now, as the exhaustive path would.
-        Some((warm, confirmed)) if confirmed || (warm - target).abs() >= WARM_BORDER => (warm, confirmed),
-        _ => (r.stability(&s, effort)?.governing_fs(), true),
+        // now, as the exhaustive path would, and never above a lower circle
+        // the warm search found (a local search can find one the grid
+        // missed: the lower FS is kept).
+        Some((w, confirmed)) if confirmed || (w - target).abs() >= WARM_BORDER => (w, confirmed),
+        _ => (r.stability(&s, effort)?.governing_fs().min(warm.map_or(f64::INFINITY, |w| w.0)), true),
     };
     rest.remember(start, lift, fs, (!confirmed).then_some(s));
     Ok(fs)
