@@ -670,6 +670,7 @@ fn log_fields(
         "failing_rules": check.rules.iter().filter(|r| r.verdict == release_check::Verdict::Fail).map(|r| r.name).collect::<Vec<_>>(),
         "insufficient": check.insufficient,
         "earliest_release": check.earliest_release.map(|d| d.to_string()),
+        "earliest_release_from_rejected_fit": check.forecast_from_rejected_fit,
         "record_file": rep.record_file,
     });
     match entry {

@@ -97,6 +97,21 @@ pub fn text(p: &Programme, source: &str) -> String {
     out
 }
 
+/// What the corridor finish covers: every section, or only those that can
+/// be built (the others named).
+pub fn finish_scope(p: &Programme) -> String {
+    let out: Vec<&str> = p.sections.iter().filter(|s| s.outcome.is_none()).map(|s| s.name.as_str()).collect();
+    if out.is_empty() {
+        "latest section finish".into()
+    } else {
+        format!(
+            "latest finish of the {} sections that can be built; NOT THE WHOLE CORRIDOR: {} CANNOT BE BUILT as specified",
+            p.sections.len() - out.len(),
+            out.join(", ")
+        )
+    }
+}
+
 /// The finish, the bounds, totals and resources as sentences (terminal
 /// and PDF).
 pub fn summary_lines(p: &Programme) -> Vec<String> {
@@ -105,7 +120,7 @@ pub fn summary_lines(p: &Programme) -> Vec<String> {
     let r = &p.resources;
     let limit = |v: Option<usize>| v.map_or("unlimited".to_string(), |n| n.to_string());
     vec![
-        format!("Corridor finish {} (latest section finish).", date(p.finish)),
+        format!("Corridor finish {} ({}).", date(p.finish), finish_scope(p)),
         format!(
             "Lower bounds: latest section finish planned alone {}; all fill delivered at the supply rate {}.",
             date(p.bounds.latest_unconstrained_finish),

@@ -235,14 +235,26 @@ fn stability(c: &mut Check, r: Option<&RawStability>) -> StabilityOptions {
     if !(30..=400).contains(&slices) {
         c.bad("stability.slices", format!("= {slices} is out of range; allowed: 30 ≤ slices ≤ 400"));
     }
+    let fill_strength_factor =
+        c.opt("stability.fill_strength_factor", r.and_then(|s| s.fill_strength_factor), 1.0, Low::Incl(0.0), 1.0);
+    let face_strength = match c.choice(
+        "stability.face_strength",
+        r.and_then(|s| s.face_strength.as_deref()),
+        &[FaceStrength::Own.label(), FaceStrength::Factored.label()],
+    ) {
+        "factored" => FaceStrength::Factored,
+        _ => FaceStrength::Own,
+    };
+    if face_strength == FaceStrength::Factored && fill_strength_factor == 0.0 {
+        // A face of strengthless fill cannot stand: there is no FS to
+        // check, and skipping the check would hide a steep face.
+        c.bad(
+            "stability.face_strength",
+            "= \"factored\" with stability.fill_strength_factor = 0 leaves the fill face no strength, so it cannot be checked; allowed: \"own\" (the fill's own strength), or a fill_strength_factor above 0".into(),
+        );
+    }
     StabilityOptions {
-        fill_strength_factor: c.opt(
-            "stability.fill_strength_factor",
-            r.and_then(|s| s.fill_strength_factor),
-            1.0,
-            Low::Incl(0.0),
-            1.0,
-        ),
+        fill_strength_factor,
         fill_tension_crack: r.and_then(|s| s.fill_tension_crack).unwrap_or(true),
         slices: slices.clamp(30, 400) as usize,
         crack_water_fraction: c.opt(
@@ -253,14 +265,7 @@ fn stability(c: &mut Check, r: Option<&RawStability>) -> StabilityOptions {
             1.0,
         ),
         fill_ru: c.opt("stability.fill_ru", r.and_then(|s| s.fill_ru), 0.0, Low::Incl(0.0), 0.9),
-        face_strength: match c.choice(
-            "stability.face_strength",
-            r.and_then(|s| s.face_strength.as_deref()),
-            &[FaceStrength::Own.label(), FaceStrength::Factored.label()],
-        ) {
-            "factored" => FaceStrength::Factored,
-            _ => FaceStrength::Own,
-        },
+        face_strength,
     }
 }
 

@@ -53,8 +53,16 @@ impl Exporter for Ics {
                 }
                 StageKind::SurchargeRemoval => format!("Stage {}: remove {:.2} m surcharge", s.number, -s.thickness_m),
             };
+            let wait = if s.number > 1 {
+                format!(
+                    " Planned date only: stage {} starts only after the hold point before it is released and signed by the engineer of record.",
+                    s.number
+                )
+            } else {
+                String::new()
+            };
             let desc = format!(
-                "{} — predicted FS at end {:.2}. Prediction only: field monitoring governs. Stop filling on any sign of distress (cracks, heave beyond the toe, rising pore pressure) and call the engineer.",
+                "{} — predicted FS at end {:.2}.{wait} Prediction only: field monitoring governs. Stop filling on any sign of distress (cracks, heave beyond the toe, rising pore pressure) and call the engineer.",
                 p.info.title, s.fs_end
             );
             event(&mut lines, &format!("{uid_base}-stage{}@fillpace", s.number), &stamp, s.start, s.end, &what, &desc);

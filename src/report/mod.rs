@@ -147,14 +147,36 @@ impl RiskAnswers {
         if let Some(g) = k.governing.first() {
             timetable.push(format!("stage {} governs most often ({} of {} realisations)", g.stage, g.count, k.runs));
         }
+        let mut dates: Vec<chrono::NaiveDate> = k.realisations.iter().filter_map(|r| r.finish).collect();
+        dates.sort();
+        let scope = if dates.len() < k.runs {
+            format!("among the {} of {} realisations that can be built only: ", dates.len(), k.runs)
+        } else {
+            String::new()
+        };
         let first = match (&k.finish, &k.duration_days) {
             (Some(d), Some(n)) => format!(
-                "finish P10 {} ({:.0} days), P50 {} ({:.0} days), P90 {} ({:.0} days); best estimate {} ({} days)",
+                "{scope}finish P10 {} ({:.0} days), P50 {} ({:.0} days), P90 {} ({:.0} days); best estimate {} ({} days)",
                 d.p10, n.p10, d.p50, n.p50, d.p90, n.p90, k.best_estimate_finish, k.best_estimate_duration_days
             ),
             _ => "no realisation could be built".into(),
         };
-        let fresh = vec![first, format!("cannot be built: {}", est(&k.not_buildable))];
+        let mut fresh = vec![first, format!("cannot be built: {}", est(&k.not_buildable))];
+        if !scope.is_empty() && !dates.is_empty() {
+            // A realisation that cannot be built never finishes: ranked
+            // after every finish date (the higher rank where a percentile
+            // falls between two runs).
+            let over_all = |q: f64| {
+                let i = ((k.runs - 1) as f64 * q / 100.0).ceil() as usize;
+                dates.get(i).map_or("cannot be built".to_string(), |d| d.to_string())
+            };
+            fresh.push(format!(
+                "over all {} realisations, those that cannot be built counted as never finished: finish P50 {}, P90 {}",
+                k.runs,
+                over_all(50.0),
+                over_all(90.0)
+            ));
+        }
         let reliability = k.reliability.as_ref().map(|rel| {
             format!(
                 "Reliability-based target: FS {:.2} is the lowest target whose timetable keeps the estimated P(FS < 1) ≤ {} at every stage (lognormal fit to {} realisations per target).",

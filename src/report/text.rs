@@ -376,9 +376,17 @@ pub fn unbuildable(p: &Project, u: &crate::schedule::finish::Unbuildable) -> Str
         "CANNOT BE BUILT to {:.2} m with FS ≥ {:.2}. Highest crest reachable at the FS target: {:.2} m.\n",
         u.target_height_m, u.fs_target, u.highest_crest_m
     ));
+    let how = if b.face_governs {
+        format!("governed by the {} (a flatter face or a stronger fill is needed)", b.mechanism)
+    } else {
+        format!(
+            "critical circle ({:.2}, {:.2}) m, radius {:.2} m, lowest point {:.2} m below original ground in {}",
+            b.circle.xc_m, b.circle.yc_m, b.circle.r_m, b.circle_depth_m, b.mechanism
+        )
+    };
     out.push_str(&format!(
-        "Governing mechanism: the thinnest next lift ({:.2} m on the {:.2} m crest) has FS {:.3} even with the clay fully consolidated under the fill already placed; critical circle ({:.2}, {:.2}) m, radius {:.2} m, lowest point {:.2} m below original ground in {}.\n",
-        b.lift_m, b.on_crest_m, b.fs, b.circle.xc_m, b.circle.yc_m, b.circle.r_m, b.circle_depth_m, b.mechanism
+        "Governing mechanism: the thinnest next lift ({:.2} m on the {:.2} m crest) has FS {:.3} even with the clay fully consolidated under the fill already placed; {how}.\n",
+        b.lift_m, b.on_crest_m, b.fs
     ));
     out.push_str(&format!("  {}\n\n", wrap(&u.reason, 76, "  ")));
     if pl.stages.is_empty() {

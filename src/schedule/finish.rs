@@ -167,9 +167,12 @@ pub struct Blocking {
     pub on_crest_m: f64,
     /// FS of that lift at the end of placement.
     pub fs: f64,
-    /// Material at the lowest point of the critical circle.
+    /// What governs: the fill face, or the material at the lowest point of
+    /// the critical circle.
     pub mechanism: String,
-    /// Depth of that point below OGL, m.
+    /// The fill face (infinite slope) governs, not the circle.
+    pub face_governs: bool,
+    /// Depth of the critical circle's lowest point below OGL, m.
     pub circle_depth_m: f64,
     pub circle: crate::stability::Circle,
 }
@@ -179,9 +182,17 @@ pub(super) fn blocking(r: &Runner, st: &State, lift_m: f64, effort: &mut Effort)
     let mut s = r.engine.consolidated(st);
     r.place(&mut s, lift_m, &mut |_| {})?;
     let found = r.stability(&s, effort)?;
-    let (fs, mechanism) = (found.governing_fs(), found.governing_mechanism());
+    let (fs, mechanism, face_governs) = (found.governing_fs(), found.governing_mechanism(), found.face_governs());
     let c = found.critical;
-    Ok(Blocking { lift_m, on_crest_m: st.height_m, fs, mechanism, circle_depth_m: c.depth_m, circle: c.circle })
+    Ok(Blocking {
+        lift_m,
+        on_crest_m: st.height_m,
+        fs,
+        mechanism,
+        face_governs,
+        circle_depth_m: c.depth_m,
+        circle: c.circle,
+    })
 }
 
 /// The answer when the target height cannot be reached at the FS target.

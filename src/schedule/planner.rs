@@ -480,13 +480,17 @@ fn provisional_safe_day(
     let (mut lo, mut f_lo) = (first, f(first, effort)?);
     if st.height_m <= 1e-9 && r.engine.peak_excess(st) < 1e-6 {
         // The FS printed is the full search's.
-        let fs = trial(r, rest, first, lift, true, effort)?;
+        let mut s = rest.at(r, first);
+        r.place(&mut s, lift, &mut |_| {})?;
+        let res = r.stability(&s, effort)?;
         let p = r.engine.project;
         return Err(Error::Computation(format!(
-            "cannot be built to {:.2} m with FS ≥ {:.2}: even the thinnest lift ({lift:.2} m) on the untouched ground has FS {:.2}, and resting without load brings no strength gain. Consider berms, reinforcement, a lighter fill or ground improvement.",
+            "cannot be built to {:.2} m with FS ≥ {:.2}: even the thinnest lift ({lift:.2} m) on the untouched ground has FS {:.3} ({}), and resting without load brings no strength gain. {}",
             p.max_height_m(),
             target,
-            fs
+            res.governing_fs(),
+            res.governing_mechanism(),
+            advice(&res, "Consider berms, reinforcement, a lighter fill or ground improvement.")
         )));
     }
     let mut step = guess.max(14);
@@ -555,18 +559,32 @@ const LONG_REST_DAYS: i64 = 448;
 fn never_safe(r: &Runner, st: &State, lift: f64, effort: &mut Effort) -> Result<()> {
     let mut s = r.engine.consolidated(st);
     r.place(&mut s, lift, &mut |_| {})?;
-    let fs = r.stability(&s, effort)?.governing_fs();
+    let res = r.stability(&s, effort)?;
+    let fs = res.governing_fs();
     let p = r.engine.project;
     if fs >= p.criteria.fs_construction {
         return Ok(());
     }
     Err(Error::Computation(format!(
-        "cannot be built to {:.2} m with FS ≥ {:.2}: a {:.2} m lift on {:.2} m of fill has FS {fs:.2} even with the clay fully consolidated under the fill already placed, so no rest is long enough. Consider berms, reinforcement, closer drains or a lower target height.",
+        "cannot be built to {:.2} m with FS ≥ {:.2}: a {:.2} m lift on {:.2} m of fill has FS {fs:.3} ({}) even with the clay fully consolidated under the fill already placed, so no rest is long enough. {}",
         p.max_height_m(),
         p.criteria.fs_construction,
         lift,
-        st.height_m
+        st.height_m,
+        res.governing_mechanism(),
+        advice(&res, "Consider berms, reinforcement, closer drains or a lower target height.")
     )))
+}
+
+/// What to consider when a height cannot be reached: `general` for a
+/// failure through the ground; a face of fill is helped only by a flatter
+/// slope or a stronger fill.
+fn advice(res: &SearchResult, general: &str) -> String {
+    if res.face_governs() {
+        "The fill face governs: consider a flatter side slope or a stronger fill (berms, drains and resting do not help the face).".into()
+    } else {
+        general.into()
+    }
 }
 
 /// The error for a lift that stays unsafe after resting `rested` days (the

@@ -190,7 +190,11 @@ pub fn risk_charts(c: &mut Canvas, r: &RiskReport) {
             y: CONTENT_TOP + 4.0,
             w,
             h,
-            title: "Finish date of the fresh plans".into(),
+            title: if days.len() < k.runs {
+                format!("Finish date of the fresh plans: the {} of {} that can be built", days.len(), k.runs)
+            } else {
+                "Finish date of the fresh plans".into()
+            },
             x_axis: XAxis::Dates { start, label: "finish".into(), min: lo - width, max: hi + 2.0 * width },
             left: Axis { label: "realisations".into(), min: 0.0, max: (top * 1.15).ceil() },
             right: None,

@@ -161,8 +161,9 @@ pub(super) fn fit(c: &Canvas, s: &str, width: f32, size: f32, bold: bool) -> Str
 pub(super) fn finish_line(p: &Programme) -> String {
     let d = |d: Option<NaiveDate>| d.map_or("-".to_string(), |d| d.to_string());
     format!(
-        "Corridor finish {} — lower bounds: {} (latest section finish planned alone), {} (all fill delivered at the supply rate).",
+        "Corridor finish {} ({}) — lower bounds: {} (latest section finish planned alone), {} (all fill delivered at the supply rate).",
         d(p.finish),
+        crate::corridor::output::finish_scope(p),
         d(p.bounds.latest_unconstrained_finish),
         p.bounds.supply_finish.map_or("none (supply unlimited)".to_string(), |d| d.to_string())
     )
