@@ -23,6 +23,7 @@ pub use diagnostics::Diagnostics;
 pub use face::FaceCheck;
 pub use section::Section;
 
+use crate::response::Cursor;
 use serde::Serialize;
 
 /// Smallest allowed Bishop m_α on a frictional slice (common practice
@@ -184,12 +185,14 @@ impl Section<'_> {
             zero_normal: 0,
             clamped: 0,
         };
+        // The slices run in x order: each look-up starts from the last.
+        let mut cur = Cursor::default();
         for &(xa, xb) in slices {
             let x = 0.5 * (xa + xb);
             let b = xb - xa;
             let dx = x - c.xc_m;
             let y_arc = c.yc_m - (c.r_m * c.r_m - dx * dx).max(0.0).sqrt();
-            let s_x = self.field.settlement(x);
+            let s_x = self.field.settlement_near(x, &mut cur);
             let y_top = self.surface_with(x, s_x);
             if y_arc >= y_top {
                 continue;
@@ -198,7 +201,7 @@ impl Section<'_> {
             let sin_a = (c.xc_m - x) / c.r_m;
             let cos_a = (1.0 - sin_a * sin_a).max(1e-9).sqrt();
             let w = b * self.column_weight(s_x, y_arc, y_top);
-            let (coh, tan_phi, u) = self.strength_at(x, s_x, y_arc, w / b);
+            let (coh, tan_phi, u) = self.strength_at(x, s_x, y_arc, w / b, &mut cur);
             let l = b / cos_a;
             let normal = w * cos_a - u * l;
             if normal < 0.0 && tan_phi > 0.0 {
