@@ -399,11 +399,32 @@ pub struct GroundField {
     pub settlement_m: Vec<f64>,
 }
 
+/// Where the last look-up through it fell among a `GroundField`'s columns
+/// and depths. Look-ups at nearby points (the slices of one circle, the
+/// iterates of one root) start their bracket there and step to the right
+/// interval, instead of a binary search each; the bracket, and so the
+/// value, is the same as without it.
+#[derive(Debug, Clone, Copy, Default)]
+pub struct Cursor {
+    col: usize,
+    node: usize,
+}
+
 impl GroundField {
     /// Surface settlement at offset x, m (linear between columns, constant
     /// beyond the outermost).
     pub fn settlement(&self, x: f64) -> f64 {
-        let (j, w) = bracket(self.xs.len(), |k| self.xs[k], x.abs());
+        self.settlement_in(bracket(self.xs.len(), |k| self.xs[k], x.abs()))
+    }
+
+    /// `settlement`, bracketing from the cursor's column (and moving it).
+    pub fn settlement_near(&self, x: f64, cur: &mut Cursor) -> f64 {
+        let b = bracket_from(self.xs.len(), |k| self.xs[k], x.abs(), cur.col);
+        cur.col = b.0;
+        self.settlement_in(b)
+    }
+
+    fn settlement_in(&self, (j, w): (usize, f64)) -> f64 {
         self.settlement_m[j] * (1.0 - w) + self.settlement_m[j + 1] * w
     }
 
@@ -411,24 +432,58 @@ impl GroundField {
     /// linear in z on each column, linear in x between columns, constant
     /// beyond the outermost column.
     pub fn sample(&self, x: f64, z: f64) -> f64 {
-        let (j, wx) = bracket(self.xs.len(), |k| self.xs[k], x.abs());
-        let (i, wz) = bracket(self.zs.len(), |k| self.zs[k], z);
+        let (xs, zs) = (&self.xs, &self.zs);
+        self.sample_in(bracket(xs.len(), |k| xs[k], x.abs()), bracket(zs.len(), |k| zs[k], z))
+    }
+
+    /// `sample`, bracketing from the cursor's column and depth (and moving
+    /// it).
+    pub fn sample_near(&self, x: f64, z: f64, cur: &mut Cursor) -> f64 {
+        let (xs, zs) = (&self.xs, &self.zs);
+        let bx = bracket_from(xs.len(), |k| xs[k], x.abs(), cur.col);
+        let bz = bracket_from(zs.len(), |k| zs[k], z, cur.node);
+        (cur.col, cur.node) = (bx.0, bz.0);
+        self.sample_in(bx, bz)
+    }
+
+    fn sample_in(&self, (j, wx): (usize, f64), (i, wz): (usize, f64)) -> f64 {
         let on = |c: usize| self.su[c][i] * (1.0 - wz) + self.su[c][i + 1] * wz;
         on(j) * (1.0 - wx) + on(j + 1) * wx
     }
 }
 
-/// Linear interpolation bracket in an increasing sequence of `n` ≥ 2 values
-/// `at(k)`: (i, w) with the value at v ≈ (1 − w)·f(i) + w·f(i + 1), w
-/// clamped to 0–1 so that values beyond either end take the end value.
+/// Linear interpolation bracket in a non-decreasing sequence of `n` ≥ 2
+/// values `at(k)`: (i, w) with the value at v ≈ (1 − w)·f(i) + w·f(i + 1),
+/// w clamped to 0–1 so that values beyond either end take the end value.
+/// i is the last index below n − 1 with at(i) < v (0 if none), found by
+/// bisection.
 fn bracket(n: usize, at: impl Fn(usize) -> f64, v: f64) -> (usize, f64) {
     let (mut lo, mut hi) = (0, n - 1);
     while hi - lo > 1 {
         let mid = (lo + hi) / 2;
         if at(mid) < v { lo = mid } else { hi = mid }
     }
-    let (a, b) = (at(lo), at(hi));
-    (lo, ((v - a) / (b - a)).clamp(0.0, 1.0))
+    weight(at, lo, v)
+}
+
+/// `bracket` found by stepping from index `hint`: the same i (the values
+/// below v form a prefix of the sequence, and i is its last index, capped
+/// at n − 2), in a step or two when v is near the previous look-up.
+fn bracket_from(n: usize, at: impl Fn(usize) -> f64, v: f64, hint: usize) -> (usize, f64) {
+    let mut lo = hint.min(n - 2);
+    while lo > 0 && (at(lo) >= v || v.is_nan()) {
+        lo -= 1;
+    }
+    while lo + 2 < n && at(lo + 1) < v {
+        lo += 1;
+    }
+    weight(at, lo, v)
+}
+
+/// (i, w) of v in the interval from at(i) to at(i + 1).
+fn weight(at: impl Fn(usize) -> f64, i: usize, v: f64) -> (usize, f64) {
+    let (a, b) = (at(i), at(i + 1));
+    (i, ((v - a) / (b - a)).clamp(0.0, 1.0))
 }
 
 #[cfg(test)]
@@ -466,5 +521,42 @@ mod tests {
         // Build some levels through the base engine first, then compare.
         run(&base);
         assert_eq!(run(&shared).to_bits(), run(&own).to_bits());
+    }
+
+    /// A look-up through a cursor returns the same bits as the bisection
+    /// (the interval below v is unique in a non-decreasing sequence), from
+    /// any starting point, including a repeated depth at a layer boundary,
+    /// values beyond both ends and NaN. The field is invented; the
+    /// reference is `sample`/`settlement` without a cursor.
+    #[test]
+    fn cursor_look_ups_match_the_bisection_bit_for_bit() {
+        let field = GroundField {
+            xs: vec![0.0, 6.0, 12.0, 20.0, 26.0, 38.0],
+            zs: vec![0.0, 0.5, 1.0, 1.5, 1.5, 2.5, 4.0, 6.0],
+            su: (0..6)
+                .map(|c| (0..8).map(|k| 8.0 + c as f64 * 1.3 + k as f64 * 0.7 + (k == 4) as u8 as f64 * 5.0).collect())
+                .collect(),
+            settlement_m: vec![0.9, 0.85, 0.6, 0.3, 0.1, 0.02],
+        };
+        let xs = (-90..=90).map(|k| k as f64 * 0.5).chain([1e9, -1e9, 6.0, -12.0, f64::NAN]);
+        let zs = (-4..=30).map(|k| k as f64 * 0.25).chain([1.5, 1.5 - 1e-12, 1.5 + 1e-12, 1e9, f64::NAN]);
+        let pts: Vec<(f64, f64)> = xs.flat_map(|x| zs.clone().map(move |z| (x, z))).collect();
+        for col in 0..7 {
+            for node in 0..9 {
+                let mut cur = Cursor { col, node };
+                // In order, reversed and from the same start each time.
+                for (x, z) in pts.iter().chain(pts.iter().rev()) {
+                    let mut fresh = Cursor { col, node };
+                    for c in [&mut cur, &mut fresh] {
+                        assert_eq!(field.settlement_near(*x, c).to_bits(), field.settlement(*x).to_bits(), "x {x}");
+                        assert_eq!(
+                            field.sample_near(*x, *z, c).to_bits(),
+                            field.sample(*x, *z).to_bits(),
+                            "x {x} z {z}"
+                        );
+                    }
+                }
+            }
+        }
     }
 }

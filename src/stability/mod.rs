@@ -23,6 +23,7 @@ pub use diagnostics::Diagnostics;
 pub use face::FaceCheck;
 pub use section::Section;
 
+use crate::response::Cursor;
 use serde::Serialize;
 
 /// Smallest allowed Bishop m_α on a frictional slice (common practice
@@ -154,7 +155,7 @@ impl Section<'_> {
         let t_moment = self.reinforcement_moment(c.xc_m, c.yc_m, c.r_m, start, exit);
         let fs_ordinary = (f.resist_ordinary * c.r_m + t_moment) / f.drive_moment;
         let (fs, method, clamped) = match bishop(&f.slices, f.drive_moment, c.r_m, t_moment, fs_ordinary) {
-            Ok((fs, clamped)) => (fs, Method::Bishop, clamped),
+            Ok(fs) => (fs, Method::Bishop, f.clamped),
             Err(m) => (fs_ordinary, m, 0),
         };
         Ok(CircleResult {
@@ -182,13 +183,16 @@ impl Section<'_> {
             slices: Vec::with_capacity(slices.len()),
             thickest: 0.0,
             zero_normal: 0,
+            clamped: 0,
         };
+        // The slices run in x order: each look-up starts from the last.
+        let mut cur = Cursor::default();
         for &(xa, xb) in slices {
             let x = 0.5 * (xa + xb);
             let b = xb - xa;
             let dx = x - c.xc_m;
             let y_arc = c.yc_m - (c.r_m * c.r_m - dx * dx).max(0.0).sqrt();
-            let s_x = self.field.settlement(x);
+            let s_x = self.field.settlement_near(x, &mut cur);
             let y_top = self.surface_with(x, s_x);
             if y_arc >= y_top {
                 continue;
@@ -197,7 +201,7 @@ impl Section<'_> {
             let sin_a = (c.xc_m - x) / c.r_m;
             let cos_a = (1.0 - sin_a * sin_a).max(1e-9).sqrt();
             let w = b * self.column_weight(s_x, y_arc, y_top);
-            let (coh, tan_phi, u) = self.strength_at(x, s_x, y_arc, w / b);
+            let (coh, tan_phi, u) = self.strength_at(x, s_x, y_arc, w / b, &mut cur);
             let l = b / cos_a;
             let normal = w * cos_a - u * l;
             if normal < 0.0 && tan_phi > 0.0 {
@@ -205,7 +209,17 @@ impl Section<'_> {
             }
             f.resist_ordinary += coh * l + normal.max(0.0) * tan_phi;
             f.drive_moment += w * sin_a * c.r_m;
-            f.slices.push(SliceData { b, w, sin_a, cos_a, coh, tan_phi, u });
+            // Bishop's effective normal force W − u b, taken as zero where
+            // negative: it does not depend on the FS, so the numerator of
+            // the slice's resistance is summed once, not per iteration.
+            let eff = w - u * b;
+            f.clamped += usize::from(eff < 0.0 && tan_phi > 0.0);
+            f.slices.push(SliceData {
+                cos_a,
+                sin_tan: sin_a * tan_phi,
+                frictional: tan_phi > 0.0,
+                resist: coh * b + eff.max(0.0) * tan_phi,
+            });
         }
         f
     }
@@ -220,30 +234,29 @@ struct Crack {
 }
 
 /// Bishop's simplified method by fixed-point iteration on FS, from the
-/// Ordinary method's FS `start`: (FS, slices whose effective normal force
-/// W − u b was negative and taken as zero), or the reason it must fall back
+/// Ordinary method's FS `start`: FS = (Σ [c b + max(0, W − u b) tan φ] / m_α
+/// · R + T) / driving moment, m_α = cos α + sin α tan φ / FS, or the reason
+/// it must fall back
 /// to the Ordinary method (m_α below `M_ALPHA_MIN` at the solution or on the
 /// last iterate of one that did not converge; else no convergence).
-fn bishop(s: &[SliceData], drive_moment: f64, r: f64, t_moment: f64, start: f64) -> Result<(f64, usize), Method> {
+fn bishop(s: &[SliceData], drive_moment: f64, r: f64, t_moment: f64, start: f64) -> Result<f64, Method> {
     let (mut fs, mut low) = (start.max(0.05), f64::INFINITY);
     for _ in 0..MAX_ITER {
-        let (mut resist, mut clamped) = (0.0, 0);
+        let mut resist = 0.0;
         low = f64::INFINITY;
         for d in s {
-            let m_alpha = d.cos_a + d.sin_a * d.tan_phi / fs;
-            if d.tan_phi > 0.0 {
+            let m_alpha = d.cos_a + d.sin_tan / fs;
+            if d.frictional {
                 low = low.min(m_alpha);
                 if m_alpha <= 1e-3 {
                     return Err(Method::OrdinarySmallMAlpha);
                 }
             }
-            let eff = d.w - d.u * d.b;
-            clamped += usize::from(eff < 0.0 && d.tan_phi > 0.0);
-            resist += (d.coh * d.b + eff.max(0.0) * d.tan_phi) / m_alpha;
+            resist += d.resist / m_alpha;
         }
         let next = (resist * r + t_moment) / drive_moment;
         if (next - fs).abs() < FS_TOL {
-            return if low < M_ALPHA_MIN { Err(Method::OrdinarySmallMAlpha) } else { Ok((next, clamped)) };
+            return if low < M_ALPHA_MIN { Err(Method::OrdinarySmallMAlpha) } else { Ok(next) };
         }
         fs = next;
     }
@@ -262,17 +275,21 @@ struct Forces {
     thickest: f64,
     /// Slices whose Ordinary-method effective normal force was negative.
     zero_normal: usize,
+    /// Frictional slices whose Bishop effective normal force W − u b was
+    /// negative (taken as zero).
+    clamped: usize,
 }
 
+/// What Bishop's iteration needs of one slice.
 #[derive(Debug, Clone, Copy)]
 struct SliceData {
-    b: f64,
-    w: f64,
-    sin_a: f64,
     cos_a: f64,
-    coh: f64,
-    tan_phi: f64,
-    u: f64,
+    /// sin α tan φ.
+    sin_tan: f64,
+    /// tan φ > 0 (m_α is checked on these slices only).
+    frictional: bool,
+    /// c b + max(0, W − u b) tan φ, kN/m.
+    resist: f64,
 }
 
 #[cfg(test)]

@@ -62,14 +62,12 @@ fn small_m_alpha_falls_back_to_the_ordinary_method_and_is_counted() {
     // near F ≈ 0.86, where the exit slice's m_α = 0.436 − 0.9 × 0.364/F ≈
     // 0.06 < 0.2: the stated fallback (the Ordinary method) must be taken.
     let tan_phi = 20f64.to_radians().tan();
+    // Width 1 m, c = 0, u = 0: the numerator c b + (W − u b) tan φ is W tan φ.
     let slice = |w: f64, sin_a: f64| SliceData {
-        b: 1.0,
-        w,
-        sin_a,
         cos_a: (1.0 - sin_a * sin_a).sqrt(),
-        coh: 0.0,
-        tan_phi,
-        u: 0.0,
+        sin_tan: sin_a * tan_phi,
+        frictional: true,
+        resist: w * tan_phi,
     };
     let drive = 10.0 * (100.0 * 0.5 - 0.9);
     assert_eq!(bishop(&[slice(100.0, 0.5), slice(1.0, -0.9)], drive, 10.0, 0.0, 0.8), Err(Method::OrdinarySmallMAlpha));
