@@ -310,3 +310,37 @@ fn a_rejected_fit_never_leads_to_criteria_met() {
     fit.converged = false;
     assert_eq!(level(&p, 1.5, &[], &[], true, &fit).0, Level::HoldForReview);
 }
+
+#[test]
+fn piezometer_reads_the_elastic_increment_just_after_a_lift() {
+    // Issue 15 diagnosis: right after an instantaneous first lift the
+    // excess pore pressure a piezometer reads must equal Δσv at its tip
+    // (Δu = Δσv, B = 1, the `vertical` rule), read on the right column at
+    // the right depth. The demo's first stage, 2.5 m of fill (q = 50 kPa),
+    // is flat out to x = 27 m with a 2H:1V slope to x = 32 m. Under the
+    // crest edge of a half-embankment with slope width a and crest width b,
+    // Δσv = I q with Osterberg's (1957) influence factor
+    // I = [(a + b)/a (α1 + α2) − (b/a) α2]/π, α2 = atan(b/z),
+    // α1 = atan((a + b)/z) − α2; the stage is two such halves meeting at
+    // the tip's offset x: b = 27 − x and b = 27 + x, a = 5 m (computed from
+    // Osterberg's formula; the engine integrates Flamant's line load
+    // instead). P1 (x 0, z 5 m) gives 49.90 kPa, the figure the independent
+    // truth model prints; P3 is at x = 20 m, on the engine's mid-slope
+    // column. After 0.001 day even the fast recompression of the
+    // stress-dependent mode has dissipated almost nothing (measured
+    // difference 0.005% at P1); tolerance 0.1%.
+    let p = crate::input::parse(crate::app::DEMO, "demo").expect("demo validates");
+    let engine = crate::response::Engine::new(&p);
+    let mut st = engine.initial_state();
+    engine.advance(&mut st, 0.001, 2.5);
+    let osterberg = |a: f64, b: f64, z: f64| {
+        let a2 = (b / z).atan();
+        let a1 = ((a + b) / z).atan() - a2;
+        ((a + b) / a * (a1 + a2) - b / a * a2) / std::f64::consts::PI
+    };
+    for (x, z) in [(0.0, 5.0), (0.0, 9.0), (20.0, 5.0)] {
+        let expect = (osterberg(5.0, 27.0 - x, z) + osterberg(5.0, 27.0 + x, z)) * 20.0 * 2.5;
+        let u = engine.excess_at_point(&st, x, z);
+        assert!((u - expect).abs() < 0.001 * expect, "x {x} z {z}: excess {u} kPa against Osterberg {expect}");
+    }
+}
