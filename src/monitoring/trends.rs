@@ -1,7 +1,9 @@
 //! Trends judged on many readings: least-squares lines over stated windows
 //! with their standard error, never smaller than the reading precision
 //! allows (se ≥ sd/√Sxx). Rules: pore pressure rising under constant load
-//! (99% two-sided significance and a rate limit), settlement and lateral
+//! over the window and over its last readings (fails at 99% two-sided
+//! significance above the rate limit; a best estimate above the limit that
+//! is not proven holds for review), settlement and lateral
 //! rates, lateral acceleration (the curvature of a least-squares parabola
 //! through the marker readings of the trend window, significant at 99%), Δu/Δσv of the last
 //! lift against a yield-indicating limit (the ratio rises towards 1 as the
