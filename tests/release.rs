@@ -370,6 +370,30 @@ fn a_stale_toe_marker_holds_and_is_named() {
     assert!(short.contains("LM1 (lateral-marker): latest reading") && short.contains("at most 7"), "{short}");
 }
 
+/// The demo readings with P1 from 2027-06-20 on set to 125.5, 127.5, …
+/// 135.5 kPa (issue 15 review) and, with `accelerate`, LM1 from 2027-06-20
+/// on moved out by a further 0.1 t² mm (t days since 2027-06-20: an
+/// outward acceleration of 0.2 mm/day² over the last 15 days; the 28-day
+/// parabola of the rule sees +0.098 ± 0.019 mm/day², 5.1 se, where the
+/// demo marker alone gives −0.020; measured, half as much gave 2.0 se).
+fn perturbed(readings: &Path, accelerate: bool) -> String {
+    let mut rise = [125.5, 127.5, 129.5, 131.5, 133.5, 135.5].iter();
+    let text = std::fs::read_to_string(readings)
+        .unwrap()
+        .lines()
+        .map(|l| match l.split(',').collect::<Vec<_>>()[..] {
+            ["P1", t, _] if t >= "2027-06-20" => format!("P1,{t},{}\n", rise.next().unwrap()),
+            ["LM1", t, v] if accelerate && t >= "2027-06-20" => {
+                let days = (at(t) - at("2027-06-20T09:00")).num_hours() as f64 / 24.0;
+                format!("LM1,{t},{:.1}\n", v.parse::<f64>().unwrap() + 0.1 * days * days)
+            }
+            _ => format!("{l}\n"),
+        })
+        .collect();
+    assert!(rise.next().is_none(), "six P1 readings replaced");
+    text
+}
+
 #[test]
 fn a_fresh_steady_rise_at_one_piezometer_is_not_diluted_by_the_window() {
     // Issue 15 review, finding 1: a constructed perturbation of the
@@ -382,18 +406,8 @@ fn a_fresh_steady_rise_at_one_piezometer_is_not_diluted_by_the_window() {
     // and 4.67 is 4.2 standard errors above zero: the rule fails, where the
     // 28-day slope alone (+1.69 ± 1.93 before this change) passed.
     let (dir, project, readings) = scratch();
-    let mut rise = [125.5, 127.5, 129.5, 131.5, 133.5, 135.5].iter();
-    let text: String = std::fs::read_to_string(&readings)
-        .unwrap()
-        .lines()
-        .map(|l| match l.split(',').collect::<Vec<_>>()[..] {
-            ["P1", t, _] if t >= "2027-06-20" => format!("P1,{t},{}\n", rise.next().unwrap()),
-            _ => format!("{l}\n"),
-        })
-        .collect();
-    assert!(rise.next().is_none(), "six P1 readings replaced");
     let file = dir.path().join("rising.csv");
-    std::fs::write(&file, text).unwrap();
+    std::fs::write(&file, perturbed(&readings, false)).unwrap();
     let out = release(&project, &file, "1.0", &["--json"]);
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     let r = json_result(&out.stdout);
@@ -405,6 +419,13 @@ fn a_fresh_steady_rise_at_one_piezometer_is_not_diluted_by_the_window() {
     assert!(rule["detail"].as_str().unwrap().contains("P1") && rule["detail"].as_str().unwrap().contains("last 6"));
     assert_ne!(r["recommendation"], "criteria-met");
     assert!(r["reasons"].to_string().contains("pore pressure rising under constant load fails"), "{}", r["reasons"]);
+    // The same rise with the toe marker accelerating outwards (also a
+    // constructed perturbation): distress, stop filling.
+    std::fs::write(&file, perturbed(&readings, true)).unwrap();
+    let r = json_result(&release(&project, &file, "1.0", &["--json"]).stdout);
+    let acc = r["rules"].as_array().unwrap().iter().find(|x| x["name"] == "lateral movement accelerating").unwrap();
+    assert_eq!(acc["verdict"], "fail", "{acc}");
+    assert_eq!(r["recommendation"], "stop-filling", "{}", r["reasons"]);
 }
 
 #[test]
