@@ -369,3 +369,85 @@ fn a_stale_toe_marker_holds_and_is_named() {
     let short = r["insufficient"].to_string();
     assert!(short.contains("LM1 (lateral-marker): latest reading") && short.contains("at most 7"), "{short}");
 }
+
+/// The demo readings with P1 from 2027-06-20 on set to 125.5, 127.5, …
+/// 135.5 kPa (issue 15 review) and, with `accelerate`, LM1 from 2027-06-20
+/// on moved out by a further 0.1 t² mm (t days since 2027-06-20: an
+/// outward acceleration of 0.2 mm/day² over the last 15 days; the 28-day
+/// parabola of the rule sees +0.098 ± 0.019 mm/day², 5.1 se, where the
+/// demo marker alone gives −0.020; measured, half as much gave 2.0 se).
+fn perturbed(readings: &Path, accelerate: bool) -> String {
+    let mut rise = [125.5, 127.5, 129.5, 131.5, 133.5, 135.5].iter();
+    let text = std::fs::read_to_string(readings)
+        .unwrap()
+        .lines()
+        .map(|l| match l.split(',').collect::<Vec<_>>()[..] {
+            ["P1", t, _] if t >= "2027-06-20" => format!("P1,{t},{}\n", rise.next().unwrap()),
+            ["LM1", t, v] if accelerate && t >= "2027-06-20" => {
+                let days = (at(t) - at("2027-06-20T09:00")).num_hours() as f64 / 24.0;
+                format!("LM1,{t},{:.1}\n", v.parse::<f64>().unwrap() + 0.1 * days * days)
+            }
+            _ => format!("{l}\n"),
+        })
+        .collect();
+    assert!(rise.next().is_none(), "six P1 readings replaced");
+    text
+}
+
+#[test]
+fn a_fresh_steady_rise_at_one_piezometer_is_not_diluted_by_the_window() {
+    // Issue 15 review, finding 1: a constructed perturbation of the
+    // independent demo readings (examples/kestrel-fen-readings.csv, made by
+    // the textbook model of tests/truth/): P1 from 2027-06-20 to 07-05 set
+    // to 125.5, 127.5, … 135.5 kPa, each 2 kPa above the last, 3 days
+    // apart. Hand calculation on the last six readings: slope 2/3 kPa/day =
+    // 4.67 kPa/week, no residual, so the standard error is the precision's
+    // 2/√157.5 kPa/day (Sxx of days 0, 3, … 15 = 157.5): 1.12 kPa/week,
+    // and 4.67 is 4.2 standard errors above zero: the rule fails, where the
+    // 28-day slope alone (+1.69 ± 1.93 before this change) passed.
+    let (dir, project, readings) = scratch();
+    let file = dir.path().join("rising.csv");
+    std::fs::write(&file, perturbed(&readings, false)).unwrap();
+    let out = release(&project, &file, "1.0", &["--json"]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let r = json_result(&out.stdout);
+    let rule = r["rules"].as_array().unwrap().iter().find(|x| x["name"] == "pore pressure rising under constant load");
+    let rule = rule.unwrap();
+    assert_eq!(rule["verdict"], "fail", "{rule}");
+    let rate = rule["value"].as_f64().unwrap();
+    assert!((rate - 14.0 / 3.0).abs() < 1e-9, "{rule}");
+    assert!(rule["detail"].as_str().unwrap().contains("P1") && rule["detail"].as_str().unwrap().contains("last 6"));
+    assert_ne!(r["recommendation"], "criteria-met");
+    assert!(r["reasons"].to_string().contains("pore pressure rising under constant load fails"), "{}", r["reasons"]);
+    // The same rise with the toe marker accelerating outwards (also a
+    // constructed perturbation): distress, stop filling.
+    std::fs::write(&file, perturbed(&readings, true)).unwrap();
+    let r = json_result(&release(&project, &file, "1.0", &["--json"]).stdout);
+    let acc = r["rules"].as_array().unwrap().iter().find(|x| x["name"] == "lateral movement accelerating").unwrap();
+    assert_eq!(acc["verdict"], "fail", "{acc}");
+    assert_eq!(r["recommendation"], "stop-filling", "{}", r["reasons"]);
+}
+
+#[test]
+fn a_lift_starting_after_the_validity_period_is_held_with_the_dates_named() {
+    // Issue 15 review, finding 2: --on 2027-09-30 with the last reading on
+    // 2027-07-05 gave "criteria met". The check is valid for the scheme's
+    // shortest maximum reading age (7 days by default). Readings that
+    // match a safe prediction (criteria met for a lift the next day,
+    // readings_that_match_a_safe_prediction_release; last reading
+    // 2027-07-11, so lifts starting by 2027-07-18) must hold for a lift
+    // starting on 2027-09-30.
+    let (dir, project, _) = scratch();
+    let readings = dir.path().join("matching.csv");
+    std::fs::write(&readings, synthetic(1.0, "2027-07-12T09:00", 0.0)).unwrap();
+    let out = release(&project, &readings, "0.5", &["--json", "--on", "2027-09-30"]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let r = json_result(&out.stdout);
+    assert_eq!(r["recommendation"], "hold-for-review");
+    let reasons = r["reasons"].to_string();
+    assert!(reasons.contains("readings too old for a lift starting on 2027-09-30"), "{reasons}");
+    assert!(reasons.contains("2027-07-18") && reasons.contains("take new readings"), "{reasons}");
+    // Within the validity period the same readings still meet the criteria.
+    let out = release(&project, &readings, "0.5", &["--json", "--on", "2027-07-14"]);
+    assert_eq!(json_result(&out.stdout)["recommendation"], "criteria-met");
+}

@@ -66,6 +66,9 @@ pub const IMMEDIATE_ACTIONS: [&str; 4] = [
 pub enum Verdict {
     Pass,
     Fail,
+    /// The best estimate is beyond the limit but not proven beyond the
+    /// reading precision: the lift is held for the engineer's review.
+    Possible,
     /// Not enough readings to judge; listed (the monitoring scheme's
     /// minimum decides whether that holds the lift).
     NotEvaluated,
@@ -76,6 +79,7 @@ impl Verdict {
         match self {
             Verdict::Pass => "pass",
             Verdict::Fail => "FAIL",
+            Verdict::Possible => "REVIEW",
             Verdict::NotEvaluated => "not evaluated",
         }
     }
@@ -386,7 +390,17 @@ pub fn check(p: &Project, r: &Readings, lift_m: f64, on: Option<NaiveDate>) -> R
     let asaoka = plates_asaoka(p, &engine, r);
     let asaoka_check = asaoka_check(p, &engine, &cal.state, &asaoka);
     let explains = explains(p, &cal.fit, &instruments, &asaoka_check);
-    let (recommendation, reasons) = level(p, fs_now, &rules, &insufficient, explains, &cal.fit);
+    let (mut recommendation, mut reasons) = level(p, fs_now, &rules, &insufficient, explains, &cal.fit);
+    let valid_days = p.monitoring.max_age_days.iter().copied().fold(f64::INFINITY, f64::min);
+    let latest_start = r.today.date() + Duration::days(valid_days.floor() as i64);
+    let lift_start = runner.calendar.date(a)?;
+    if lift_start > latest_start && recommendation != Level::StopFilling {
+        recommendation = Level::HoldForReview;
+        reasons.push(format!(
+            "readings too old for a lift starting on {lift_start}: the check of the hold point {} is valid for {valid_days:.0} days (lifts starting by {latest_start}, the monitoring scheme's shortest maximum reading age); take new readings and check again",
+            r.today.date()
+        ));
+    }
     let (earliest_release, mut release_note) = forecast(&runner, &rested, lift_m, fs_next < target, &mut effort)?;
     let forecast_from_rejected_fit = earliest_release.is_some() && !explains;
     if forecast_from_rejected_fit {
@@ -398,13 +412,7 @@ pub fn check(p: &Project, r: &Readings, lift_m: f64, on: Option<NaiveDate>) -> R
     for message in engine.convergence_warning().into_iter().chain(runner.stability_warnings()) {
         warnings.push(Warning { line: None, instrument: String::new(), message });
     }
-    let valid_days = p.monitoring.max_age_days.iter().copied().fold(f64::INFINITY, f64::min);
-    let conditions = Conditions {
-        max_lift_m: lift_m,
-        latest_start: r.today.date() + Duration::days(valid_days.floor() as i64),
-        valid_days,
-        reading_interval_days: valid_days,
-    };
+    let conditions = Conditions { max_lift_m: lift_m, latest_start, valid_days, reading_interval_days: valid_days };
     Ok(ReleaseCheck {
         hold_point: r.today,
         readings_file: r.file.clone(),
@@ -412,7 +420,7 @@ pub fn check(p: &Project, r: &Readings, lift_m: f64, on: Option<NaiveDate>) -> R
         height_now_m: height_now,
         lift_m,
         height_after_m: height_now + lift_m,
-        lift_start: runner.calendar.date(a)?,
+        lift_start,
         lift_end: runner.calendar.date(b)?,
         asaoka,
         limits: trends::limit_traces(p, r, &|id, day| {
@@ -481,17 +489,30 @@ pub(super) fn level(
     if fs_now < m.stop_fs_below {
         stop.push(format!("FS now {fs_now:.2} is below {:.2}: the section is near failure", m.stop_fs_below));
     }
-    if failed(PORE_RISE) && failed(LATERAL_ACCELERATION) {
-        stop.push("pore pressure is rising under constant load while lateral movement accelerates (distress)".into());
+    // Distress: one sign proven and the other above its limit at the best
+    // estimate (a pore-pressure rate above its limit; an outward
+    // acceleration, whose limit is none).
+    let rule = |name: &str| rules.iter().find(|r| r.name == name);
+    let rise_above = rule(PORE_RISE).is_some_and(|r| matches!(r.verdict, Verdict::Fail | Verdict::Possible));
+    let accelerating = rule(LATERAL_ACCELERATION).is_some_and(|r| r.value.is_some_and(|z| z > 0.0));
+    if (failed(PORE_RISE) && accelerating) || (rise_above && failed(LATERAL_ACCELERATION)) {
+        stop.push(
+            "pore pressure is rising under constant load while lateral movement accelerates (distress: one of the two proven beyond the reading precision, the other above its limit at the best estimate)"
+                .into(),
+        );
     }
     if !stop.is_empty() {
         return (Level::StopFilling, stop);
     }
-    let mut hold: Vec<String> = rules
-        .iter()
-        .filter(|r| r.verdict == Verdict::Fail)
-        .map(|r| format!("{} fails: {}", r.name, r.detail))
-        .collect();
+    let mut hold: Vec<String> =
+        rules
+            .iter()
+            .filter(|r| r.verdict == Verdict::Fail)
+            .map(|r| format!("{} fails: {}", r.name, r.detail))
+            .chain(rules.iter().filter(|r| r.verdict == Verdict::Possible).map(|r| {
+                format!("{} may be above its limit (best estimate, not proven; review): {}", r.name, r.detail)
+            }))
+            .collect();
     hold.extend(short.iter().map(|s| format!("hold: insufficient monitoring — {s}")));
     if !explains {
         hold.push(format!(

@@ -203,7 +203,7 @@ fn rules_of(text: &str, p: &crate::model::Project) -> Vec<super::release::Rule> 
 fn ten_noisy_stable_records_give_at_most_one_false_rise_alarm() {
     // Readings at the stated precision (2 kPa, the default) with no rise:
     // the 99% two-sided test should alarm in about 1% of piezometers.
-    let mut alarms = 0;
+    let (mut alarms, mut holds) = (0, 0);
     for seed in 1..=10 {
         let (p, _) = demo_readings(1.0, 1.0, seed, 0.0);
         let fill = vec![
@@ -216,8 +216,15 @@ fn ten_noisy_stable_records_give_at_most_one_false_rise_alarm() {
         let rules = rules_of(&readings_csv(&p, &recipe, "stable"), &p);
         let rise = rules.iter().find(|r| r.name == super::trends::PORE_RISE).expect("rule");
         alarms += usize::from(rise.verdict == super::release::Verdict::Fail);
+        holds += usize::from(rise.verdict == super::release::Verdict::Possible);
     }
     assert!(alarms <= 1, "{alarms} false alarms in 10 stable records");
+    // A best estimate above the limit that is not proven holds for review
+    // (issue 15 review): not an alarm, but counted so that the false-hold
+    // rate stays visible (measured 0 of 10: these records still dissipate;
+    // flat records are counted in the next test).
+    eprintln!("stable records: {alarms} false alarms, {holds} holds for review of 10");
+    assert!(holds <= 1, "{holds} holds for review in 10 stable records");
 }
 
 fn demo_project() -> crate::model::Project {
@@ -343,4 +350,51 @@ fn piezometer_reads_the_elastic_increment_just_after_a_lift() {
         let u = engine.excess_at_point(&st, x, z);
         assert!((u - expect).abs() < 0.001 * expect, "x {x} z {z}: excess {u} kPa against Osterberg {expect}");
     }
+}
+
+#[test]
+fn flat_noisy_records_rarely_alarm_and_the_false_holds_are_counted() {
+    // Pore pressure fully dissipated (one 2.5 m lift, cv, ch × 20, read
+    // five months later): flat records with 2 kPa noise, 100 seeds. Each of
+    // three piezometers is judged on two parts of its record, one-sided at
+    // 0.5% (99% two-sided): about 3% of records alarm by chance, within
+    // issue 15's one in ten. The best estimate above the limit (whole
+    // window) or one standard error above it (last six readings) holds for
+    // review: measured 5 alarms and 11 holds in 100 (DEVELOPERS.md, Known
+    // gaps); the bound allows other noise streams.
+    let p = demo_project();
+    let (mut alarms, mut holds) = (0, 0);
+    for seed in 1..=100 {
+        let fill = vec![(at("2027-04-05T07:00"), 0.0), (at("2027-04-20T17:00"), 2.5)];
+        let recipe = Recipe { sd_kpa: 2.0, ..Recipe::new(fill, 20.0, at("2027-09-20T09:00"), seed) };
+        let rules = rules_of(&readings_csv(&p, &recipe, "flat"), &p);
+        let rise = rules.iter().find(|r| r.name == super::trends::PORE_RISE).expect("rule");
+        alarms += usize::from(rise.verdict == super::release::Verdict::Fail);
+        holds += usize::from(rise.verdict == super::release::Verdict::Possible);
+    }
+    assert!(alarms <= 10, "{alarms} false alarms in 100 flat records");
+    assert!(holds <= 20, "{holds} holds for review in 100 flat records");
+}
+
+#[test]
+fn distress_needs_one_sign_proven_and_the_other_above_its_limit() {
+    // Issue 15 review, finding 1(c): a pore-pressure rise above its limit
+    // (best estimate, "possible") with a significant lateral acceleration
+    // stops filling, as does a proven rise with an outward acceleration
+    // not yet significant; a proven acceleration alone holds; an inward
+    // curvature (z < 0) with a proven rise holds.
+    use super::release::{Level, Rule, Verdict, level};
+    use super::trends::{LATERAL_ACCELERATION, PORE_RISE, Z99};
+    let (p, text) = demo_readings(1.0, 1.0, 3, 0.0);
+    let fit = fit_of(&p, &text);
+    let rise = |v: Verdict| Rule { verdict: v, ..Rule::at_most(PORE_RISE, 2.0, 1.0, "kPa/week", String::new()) };
+    let acc = |z: f64| Rule::at_most(LATERAL_ACCELERATION, z, Z99, "se", String::new());
+    let lvl = |rules: &[Rule]| level(&p, 1.5, rules, &[], true, &fit).0;
+    assert_eq!(lvl(&[rise(Verdict::Possible), acc(6.7)]), Level::StopFilling);
+    assert_eq!(lvl(&[rise(Verdict::Fail), acc(0.5)]), Level::StopFilling);
+    assert_eq!(lvl(&[rise(Verdict::Pass), acc(6.7)]), Level::HoldForReview);
+    assert_eq!(lvl(&[rise(Verdict::Fail), acc(-0.5)]), Level::HoldForReview);
+    let (l, reasons) = level(&p, 1.5, &[rise(Verdict::Possible), acc(0.0)], &[], true, &fit);
+    assert_eq!(l, Level::HoldForReview);
+    assert!(reasons.iter().any(|r| r.contains("may be above its limit")), "{reasons:?}");
 }
