@@ -3,6 +3,15 @@
 //! piezometric levels, σ'v0, σ'p0), one-dimensional
 //! compressibility from Cr/Cc (e–log σ'), and undrained strength by SHANSEP
 //! (Ladd & Foott 1974; Ladd 1991) or a gain ratio, never below measured su0.
+//!
+//! Where a clay has both a measured su0 profile and SHANSEP parameters, the
+//! measured profile is data and anchors the initial state (common practice):
+//! su(t) = max(su_measured, SHANSEP(σ'v(t), σ'p(t)) − offset) with
+//! offset = max(0, SHANSEP0 − su_measured) per node, SHANSEP0 being SHANSEP
+//! at the node's initial σ'v0 and σ'p0. Where SHANSEP0 ≤ su_measured this is
+//! the plain max of the two; where SHANSEP0 exceeds the measured value the
+//! initial strength is the measured one and the gain with effective stress
+//! is SHANSEP's. The gain-ratio model already starts from the measured su0.
 
 use crate::model::*;
 use serde::Serialize;
@@ -42,6 +51,10 @@ pub struct Node {
     pub sigma_p0_kpa: f64,
     /// Measured in-situ strength at this depth, kPa (0 where not measured).
     pub su_measured_kpa: f64,
+    /// SHANSEP at the initial state less the measured strength, where
+    /// positive and a profile is measured (else 0), kPa: subtracted from
+    /// SHANSEP so that the measured su0 anchors the initial state.
+    pub su_offset_kpa: f64,
     /// Initial undrained strength, kPa (0 in sand).
     pub su0_kpa: f64,
     /// Clay properties, None in sand.
@@ -189,11 +202,13 @@ pub fn shansep(s: f64, m: f64, sigma_v_eff: f64, sigma_p: f64) -> f64 {
     s * sigma_v_eff * ocr.powf(m)
 }
 
-/// Undrained strength at a node for the current σ'v and σ'p (kPa).
+/// Undrained strength at a node for the current σ'v and σ'p (kPa): SHANSEP
+/// less the node's `su_offset_kpa`, or the gain ratio, never below the
+/// measured su0 (the rule of the module doc).
 pub fn su_now(node: &Node, sigma_v_eff: f64, sigma_p: f64) -> f64 {
     let Some(clay) = node.clay else { return 0.0 };
     let base = match clay.model {
-        StrengthModel::Shansep { s, m } => shansep(s, m, sigma_v_eff.max(1e-3), sigma_p),
+        StrengthModel::Shansep { s, m } => shansep(s, m, sigma_v_eff.max(1e-3), sigma_p) - node.su_offset_kpa,
         StrengthModel::GainRatio { ratio } => {
             node.su_measured_kpa + ratio * (sigma_v_eff - node.sigma_v0_eff_kpa).max(0.0)
         }
@@ -276,7 +291,7 @@ pub fn node_at_layer(project: &Project, z_m: f64, li: usize) -> Node {
     // top centimetres; σ'v0 ≤ 0 below the surface is refused at input by
     // `uplift`).
     let se = (sv - u).max(SURFACE_FLOOR_KPA);
-    let (clay, sp, su_m) = match &layer.kind {
+    let (clay, sp, su_m, measured) = match &layer.kind {
         LayerKind::Clay(c) => {
             let sp = match c.preconsolidation {
                 Preconsolidation::Ocr(o) => o * se,
@@ -293,9 +308,9 @@ pub fn node_at_layer(project: &Project, z_m: f64, li: usize) -> Node {
                 ch_m2_per_day: c.ch_m2_per_day,
                 model: c.strength.model,
             };
-            (Some(props), sp, su_measured(&c.strength.su0_points, z_m))
+            (Some(props), sp, su_measured(&c.strength.su0_points, z_m), !c.strength.su0_points.is_empty())
         }
-        _ => (None, se, 0.0),
+        _ => (None, se, 0.0, false),
     };
     let mut node = Node {
         z_m,
@@ -305,9 +320,15 @@ pub fn node_at_layer(project: &Project, z_m: f64, li: usize) -> Node {
         sigma_v0_eff_kpa: se,
         sigma_p0_kpa: sp,
         su_measured_kpa: su_m,
+        su_offset_kpa: 0.0,
         su0_kpa: 0.0,
         clay,
     };
+    // With no offset su_now is max(SHANSEP0, su_measured) (su_measured for
+    // the gain ratio): the excess over the measured value is the offset.
+    if measured {
+        node.su_offset_kpa = su_now(&node, se, sp) - su_m;
+    }
     node.su0_kpa = su_now(&node, se, sp);
     node
 }
@@ -496,6 +517,29 @@ mod tests {
         // su = 0.22 × 50 × 2^0.8 = 19.15 kPa.
         let su = shansep(0.22, 0.8, 50.0, 100.0);
         assert!((su - 19.15).abs() < 0.05, "su = {su}");
+    }
+
+    #[test]
+    fn measured_su0_anchors_the_initial_state_and_shansep_adds_the_gain() {
+        // Hand calculation, the reviewer's case (tests/data): at z = 9 m
+        // σ'v0 = 9 × (17.2 − 9.81) = 66.51 kPa, σ'p0 = 81.51 (POP 15);
+        // SHANSEP0 = 0.25 × 66.51 × (81.51/66.51)^0.8 = 19.565 kPa (Ladd
+        // 1991); measured su0 = 5 + 4 × 0.9 = 8.6 kPa; offset = 10.965 kPa;
+        // su0 = 8.6 (the old max rule gave 19.565). Loaded to σ'v = σ'p =
+        // 100 kPa: su = 0.25 × 100 − 10.965 = 14.035 kPa (the old rule 25).
+        let text = include_str!("../tests/data/measured-below-shansep.toml");
+        let p = crate::input::parse(text, "measured-below-shansep.toml").unwrap();
+        let n = node_at(&p, 9.0);
+        assert!((n.sigma_v0_eff_kpa - 66.51).abs() < 1e-9, "σ'v0 {}", n.sigma_v0_eff_kpa);
+        assert!((n.su_measured_kpa - 8.6).abs() < 1e-9);
+        assert!((n.su_offset_kpa - 10.965).abs() < 1e-3, "offset {}", n.su_offset_kpa);
+        assert!((n.su0_kpa - 8.6).abs() < 1e-9, "su0 {}", n.su0_kpa);
+        assert!((su_now(&n, 100.0, 100.0) - 14.035).abs() < 1e-3, "{}", su_now(&n, 100.0, 100.0));
+        // No measured profile: no offset, SHANSEP alone (19.565 kPa).
+        let bare = text.replace("su0_top_kpa = 5\nsu0_bottom_kpa = 9\n", "");
+        let b = node_at(&crate::input::parse(&bare, "bare").unwrap(), 9.0);
+        assert_eq!(b.su_offset_kpa, 0.0);
+        assert!((b.su0_kpa - 19.565).abs() < 1e-3, "su0 {}", b.su0_kpa);
     }
 
     #[test]

@@ -10,6 +10,11 @@
 //!   overconsolidated (OCR ≤ 2.5, σ'v0 ≥ 5 kPa): normally consolidated clays
 //!   have su/σ'v0 ≈ 0.2–0.3 (Mesri 1975: su/σ'p ≈ 0.22; Ladd 1991, from
 //!   memory), rising as S·OCR^m; the band is common practice for soft clay;
+//! * SHANSEP at the initial state above the measured su0 by more than 10%
+//!   (our stated choice, about the scatter of a measured profile): the
+//!   measured value is used as the initial strength (`ground` module doc),
+//!   and the warning names the layer, depth and both values so that the
+//!   engineer can reconcile S, m, σ'p and the profile;
 //! * vertical strain above 25% in any sublayer under the centreline: beyond
 //!   it the small-strain e–log σ' settlement loses accuracy and a
 //!   finite-strain analysis is advised (common practice).
@@ -26,6 +31,9 @@ pub const SU_RATIO_BAND: (f64, f64) = (0.1, 1.0);
 const SU_RATIO_MAX_OCR: f64 = 2.5;
 /// Smallest σ'v0 at which the ratio is judged, kPa.
 const SU_RATIO_MIN_STRESS_KPA: f64 = 5.0;
+/// Relative excess of SHANSEP0 over the measured su0 above which a warning
+/// is given (stated choice).
+pub const SHANSEP_EXCESS: f64 = 0.10;
 /// Vertical strain above which a warning is given.
 pub const STRAIN_LIMIT: f64 = 0.25;
 
@@ -57,6 +65,7 @@ pub fn input_warnings(p: &Project) -> Vec<String> {
         }
     }
     out.extend(strength_ratio(p));
+    out.extend(shansep_above_measured(p));
     out.extend(fill_as_load(p));
     out
 }
@@ -114,6 +123,35 @@ fn strength_ratio(p: &Project) -> Vec<String> {
         ));
     }
     out
+}
+
+/// Warnings where SHANSEP at the initial state exceeds the measured su0 by
+/// more than `SHANSEP_EXCESS`: one per layer, at its largest relative excess.
+fn shansep_above_measured(p: &Project) -> Vec<String> {
+    let mut worst: Vec<(usize, f64, f64, f64)> = Vec::new();
+    for n in ground::grid(p) {
+        if n.su_offset_kpa <= SHANSEP_EXCESS * n.su_measured_kpa {
+            continue;
+        }
+        let excess = n.su_offset_kpa / n.su_measured_kpa;
+        match worst.iter_mut().find(|w| w.0 == n.layer) {
+            Some(w) if excess > w.3 => *w = (n.layer, n.z_m, n.su_measured_kpa, excess),
+            Some(_) => {}
+            None => worst.push((n.layer, n.z_m, n.su_measured_kpa, excess)),
+        }
+    }
+    worst
+        .into_iter()
+        .map(|(li, z, su_m, excess)| {
+            format!(
+                "ground.layers[{li}] ({}): SHANSEP gives su0 {:.1} kPa at {z:.2} m depth, {:.0}% above the measured {su_m:.1} kPa (warning above {:.0}%); the measured value is used as the initial strength and SHANSEP only for the gain with effective stress; check S, m and σ'p against the profile",
+                p.ground.layers[li].name,
+                su_m * (1.0 + excess),
+                100.0 * excess,
+                100.0 * SHANSEP_EXCESS
+            )
+        })
+        .collect()
 }
 
 /// A warning when the vertical strain in some sublayer under the centreline
@@ -187,6 +225,24 @@ mod tests {
         let w = strength_ratio(&q);
         assert_eq!(w.len(), 1, "{w:?}");
         assert!(w[0].contains("ground.layers[1]") && w[0].contains("psf"), "{w:?}");
+    }
+
+    #[test]
+    fn shansep_far_above_the_measured_su0_is_named() {
+        // Hand calculation (tests/data/measured-below-shansep.toml): the
+        // relative excess (SHANSEP0 − su0)/su0 grows with depth and is
+        // largest at the clay's base, z = 10 m: σ'v0 = 10 × 7.39 = 73.9,
+        // σ'p0 = 88.9 kPa, SHANSEP0 = 0.25 × 73.9 × (88.9/73.9)^0.8 =
+        // 21.42 kPa (Ladd 1991) against the measured 9.0 kPa: 138% above.
+        let text = include_str!("../tests/data/measured-below-shansep.toml");
+        let w = shansep_above_measured(&crate::input::parse(text, "t").unwrap());
+        assert_eq!(w.len(), 1, "{w:?}");
+        assert!(w[0].contains("ground.layers[0] (soft clay)") && w[0].contains("21.4 kPa at 10.00 m"), "{w:?}");
+        assert!(w[0].contains("138% above the measured 9.0 kPa") && w[0].contains("measured value is used"), "{w:?}");
+        // The demo's SHANSEP0 exceeds its measured su0 only by about 4% at
+        // 14 m (27.1 against 26.0 kPa, the brief's figures): no warning.
+        let demo = crate::input::parse(crate::app::DEMO, "demo").unwrap();
+        assert!(shansep_above_measured(&demo).is_empty());
     }
 
     #[test]

@@ -178,8 +178,13 @@ fn compare_names_the_nearest_keys_for_an_unknown_one() {
 
 #[test]
 fn reliability_target_is_the_lowest_that_meets_the_probability() {
+    // The limit is an input of the scenario, not a tolerance. It was 0.05;
+    // since a measured su0 anchors the initial strength, the demo's su0
+    // uncertainty (CoV 0.2) reaches the FS where SHANSEP used to mask it,
+    // and 30 runs give P(FS < 1) ≈ 0.12 at target 1.30 with no higher
+    // target buildable, so 0.05 has no answer; 0.15 keeps a bracketed search.
     let out = fillpace()
-        .args(["risk", DEMO, "--runs", "30", "--max-failure-probability", "0.05", "--json"])
+        .args(["risk", DEMO, "--runs", "30", "--max-failure-probability", "0.15", "--json"])
         .output()
         .unwrap();
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
@@ -196,6 +201,6 @@ fn reliability_target_is_the_lowest_that_meets_the_probability() {
     // The final run uses the same random streams: every stage meets the limit.
     for s in r["stages"].as_array().unwrap() {
         let p = s["p_below_one_lognormal"].as_f64().or(s["below_one"]["probability"].as_f64()).unwrap();
-        assert!(p <= 0.05, "stage {} P(FS < 1) = {p}", s["number"]);
+        assert!(p <= 0.15, "stage {} P(FS < 1) = {p}", s["number"]);
     }
 }
