@@ -396,7 +396,7 @@ fn risk(
 /// The bundled demo corridor (examples/kestrel-fen-corridor.toml).
 pub const DEMO_CORRIDOR: &str = include_str!("../examples/kestrel-fen-corridor.toml");
 /// The demo corridor's low-embankment section file.
-const DEMO_LOW: &str = include_str!("../examples/kestrel-fen-low.toml");
+pub(crate) const DEMO_LOW: &str = include_str!("../examples/kestrel-fen-low.toml");
 
 /// Where `corridor` writes its files.
 pub struct CorridorOutputs<'a> {

@@ -15,6 +15,11 @@
 //!   measured value is used as the initial strength (`ground` module doc),
 //!   and the warning names the layer, depth and both values so that the
 //!   engineer can reconcile S, m, σ'p and the profile;
+//! * a piezometric level above the hydrostatic head that leaves the ground
+//!   less than 1.1 times the weight needed against uplift (σv0/u0 < 1.1 at
+//!   some depth; the input refuses σ'v0 ≤ 0): hydraulic heave checks
+//!   commonly ask for a margin of about 1.1 on the total weight (from
+//!   memory, of the partial factors for uplift in limit-state codes);
 //! * vertical strain above 25% in any sublayer under the centreline: beyond
 //!   it the small-strain e–log σ' settlement loses accuracy and a
 //!   finite-strain analysis is advised (common practice).
@@ -34,6 +39,9 @@ const SU_RATIO_MIN_STRESS_KPA: f64 = 5.0;
 /// Relative excess of SHANSEP0 over the measured su0 above which a warning
 /// is given (stated choice).
 pub const SHANSEP_EXCESS: f64 = 0.10;
+/// σv0/u0 below which an artesian pore pressure is warned of as a near
+/// uplift (from memory; see the module doc).
+pub const UPLIFT_MARGIN: f64 = 1.1;
 /// Vertical strain above which a warning is given.
 pub const STRAIN_LIMIT: f64 = 0.25;
 
@@ -66,8 +74,33 @@ pub fn input_warnings(p: &Project) -> Vec<String> {
     }
     out.extend(strength_ratio(p));
     out.extend(shansep_above_measured(p));
+    out.extend(near_uplift(p));
     out.extend(fill_as_load(p));
     out
+}
+
+/// A warning at the depth where an initial pore pressure above hydrostatic
+/// (a piezometric level) leaves the smallest σv0/u0, when that is below
+/// `UPLIFT_MARGIN`.
+fn near_uplift(p: &Project) -> Option<String> {
+    let g = &p.ground;
+    let hydrostatic = |z: f64| crate::model::GAMMA_W * (z - g.groundwater_depth_m).max(0.0);
+    ground::grid(p)
+        .into_iter()
+        .filter(|n| n.z_m > 0.0 && n.u0_kpa > hydrostatic(n.z_m) + 1e-6)
+        .map(|n| (n.sigma_v0_kpa / n.u0_kpa, n))
+        .min_by(|a, b| a.0.total_cmp(&b.0))
+        .filter(|(f, _)| *f < UPLIFT_MARGIN)
+        .map(|(f, n)| {
+            format!(
+                "ground.layers[{}] ({}): the piezometric level leaves σv0/u0 = {f:.2} at {:.2} m depth (σv0 {:.1} kPa, u0 {:.1} kPa; warning below {UPLIFT_MARGIN:.1}): the ground is near uplift; check the level and the weight of the ground above it by hand before relying on the strengths",
+                n.layer,
+                g.layers[n.layer].name,
+                n.z_m,
+                n.sigma_v0_kpa,
+                n.u0_kpa
+            )
+        })
 }
 
 /// A fill with no strength is taken as a vertical load with no lateral
@@ -225,6 +258,19 @@ mod tests {
         let w = strength_ratio(&q);
         assert_eq!(w.len(), 1, "{w:?}");
         assert!(w[0].contains("ground.layers[1]") && w[0].contains("psf"), "{w:?}");
+    }
+
+    #[test]
+    fn an_artesian_level_near_uplift_is_named() {
+        // Hand calculation on the low demo section with its sand's level at
+        // +3.0 m (found in review): at the sand's top, 5.0 m down, σv0 =
+        // 17.5 × 1.0 + 18.0 × 0.5 + 15.8 × 3.5 = 81.8 kPa and u0 = 9.81 ×
+        // (5.0 + 3.0) = 78.5 kPa: σv0/u0 = 1.04 < 1.1. The file as issued
+        // (hydrostatic) gives no warning.
+        let text = crate::app::DEMO_LOW.replacen("kind = \"sand\"", "kind = \"sand\"\npiezometric_level_m = 3.0", 1);
+        let w = near_uplift(&crate::input::parse(&text, "t").unwrap()).expect("a warning");
+        assert!(w.contains("σv0/u0 = 1.04 at 5.00 m") && w.contains("σv0 81.8 kPa, u0 78.5 kPa"), "{w}");
+        assert!(near_uplift(&crate::input::parse(crate::app::DEMO_LOW, "t").unwrap()).is_none());
     }
 
     #[test]
