@@ -76,6 +76,12 @@ pub struct Outcome {
     /// Drain length per metre run of embankment (drains under the whole base
     /// between the toes, berms included), m/m; 0 without drains.
     pub drain_length_m_per_m: f64,
+    /// Governing FS at the finish (circle or fill face).
+    pub fs_finish: f64,
+    /// The service checks the variant misses (FS at the finish below
+    /// `criteria.fs_service`, residual settlement above
+    /// `criteria.residual_settlement_warning_m`); empty when it meets them.
+    pub service_shortfalls: Vec<String>,
 }
 
 /// Every variant, sorted by finish date (unbuildable last).
@@ -175,6 +181,15 @@ pub fn compare(doc: &Document, axes: &[Axis], tick: &(dyn Fn() + Sync)) -> Resul
 }
 
 fn outcome(p: &Project, plan: &Plan) -> Outcome {
+    let c = &p.criteria;
+    let mut service_shortfalls = Vec::new();
+    if plan.fs_finish < c.fs_service {
+        service_shortfalls.push(format!("FS at finish {:.3} < {:.2}", plan.fs_finish, c.fs_service));
+    }
+    if plan.residual_settlement_m > c.residual_settlement_warning_m {
+        service_shortfalls
+            .push(format!("residual {:.3} > {:.3} m", plan.residual_settlement_m, c.residual_settlement_warning_m));
+    }
     Outcome {
         lifts: plan.stages.iter().filter(|s| s.kind == StageKind::Lift).count(),
         finish: plan.finish,
@@ -186,6 +201,8 @@ fn outcome(p: &Project, plan: &Plan) -> Outcome {
             + plan.volume_makeup_m3_per_m
             + plan.volume_surcharge_m3_per_m,
         drain_length_m_per_m: drain_length_per_m(p),
+        fs_finish: plan.fs_finish,
+        service_shortfalls,
     }
 }
 

@@ -148,6 +148,15 @@ fn compare_plans_every_variant_sorted_by_finish() {
     // Each variant keeps its plan's warnings (issue 14: they were lost); the
     // demo's fill face (1.349, closed form) is below the service target.
     assert!(v.iter().all(|x| has_warning(&x["warnings"], "fill face")), "{r}");
+    // The table says so too (review finding: a variant ranked first could
+    // miss the service checks with only a warning under the table): the
+    // fill face's tan 34°/tan 26.57° = 1.349 (closed form, Skempton &
+    // DeLory 1957) is below the demo's service target 1.35 in both.
+    for x in v {
+        let o = &x["outcome"];
+        assert!((o["fs_finish"].as_f64().unwrap() - 34f64.to_radians().tan() / 0.5).abs() < 1e-3, "{o}");
+        assert!(o["service_shortfalls"][0].as_str().unwrap().starts_with("FS at finish 1.349 < 1.35"), "{o}");
+    }
     let text = std::fs::read_to_string(&csv).unwrap();
     // caution comment line, stage geometry comment, header, one row per
     // variant

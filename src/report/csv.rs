@@ -144,6 +144,8 @@ pub fn comparison(c: &crate::compare::Comparison, shape: StageShape) -> Result<V
         "residual_settlement_m",
         "fill_volume_m3_per_m",
         "drain_length_m_per_m",
+        "fs_finish",
+        "service_shortfalls",
         "not_buildable",
     ]);
     let rows = c.variants.iter().map(|v| {
@@ -159,6 +161,8 @@ pub fn comparison(c: &crate::compare::Comparison, shape: StageShape) -> Result<V
             opt(o.map(|o| format!("{:.4}", o.residual_settlement_m))),
             opt(o.map(|o| format!("{:.2}", o.fill_volume_m3_per_m))),
             opt(o.map(|o| format!("{:.1}", o.drain_length_m_per_m))),
+            opt(o.map(|o| format!("{:.3}", o.fs_finish))),
+            o.map_or(String::new(), |o| o.service_shortfalls.join("; ")),
             v.reason.clone().unwrap_or_default(),
         ]
     });

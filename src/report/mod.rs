@@ -61,8 +61,19 @@ pub struct RiskReport<'a> {
 }
 
 /// Column headings of the design-option table (terminal and PDF).
-pub const COMPARE_COLUMNS: [&str; 10] =
-    ["#", "variant", "lifts", "finish", "days", "min FS", "final settl. m", "residual m", "fill m³/m", "drains m/m"];
+pub const COMPARE_COLUMNS: [&str; 11] = [
+    "#",
+    "variant",
+    "lifts",
+    "finish",
+    "days",
+    "min FS",
+    "final settl. m",
+    "residual m",
+    "fill m³/m",
+    "drains m/m",
+    "service checks",
+];
 
 /// One variant as the cells of `COMPARE_COLUMNS`.
 pub fn compare_cells(v: &crate::compare::Variant) -> Vec<String> {
@@ -79,6 +90,7 @@ pub fn compare_cells(v: &crate::compare::Variant) -> Vec<String> {
             f(o.residual_settlement_m, 3),
             f(o.fill_volume_m3_per_m, 1),
             f(o.drain_length_m_per_m, 0),
+            if o.service_shortfalls.is_empty() { "met".into() } else { o.service_shortfalls.join("; ") },
         ],
         None => {
             let mut cells = vec![v.number.to_string(), v.label.clone(), "-".into(), "cannot be built".into()];
@@ -245,12 +257,23 @@ pub fn fit_summary(c: &ReleaseCheck) -> String {
         est(&fit.compressibility),
         fit.correlation,
         fit.chi2_per_dof,
-        if c.fit_explains_readings {
-            "the model explains the readings within the stated limits"
-        } else {
-            "MODEL DOES NOT EXPLAIN THE READINGS (rejected fit): engineer's review needed"
-        }
+        fit_verdict(c)
     )
+}
+
+/// `s` with its first letter in capitals.
+fn capitalised(s: &str) -> String {
+    let mut c = s.chars();
+    c.next().map_or_else(String::new, |f| f.to_uppercase().chain(c).collect())
+}
+
+/// Whether the calibrated model explains the readings, in words.
+fn fit_verdict(c: &ReleaseCheck) -> &'static str {
+    if c.fit_explains_readings {
+        "the model explains the readings within the stated limits"
+    } else {
+        "MODEL DOES NOT EXPLAIN THE READINGS (rejected fit): engineer's review needed"
+    }
 }
 
 /// The calibration in one paragraph (terminal and record).
@@ -303,11 +326,7 @@ pub fn fit_sentence(c: &ReleaseCheck) -> String {
         fit.chi2_per_dof,
         if tips.is_empty() { "no piezometer".to_string() } else { tips.join("; ") },
         if asaoka.is_empty() { "no plate with a reliable Asaoka forecast".to_string() } else { asaoka.join("; ") },
-        if c.fit_explains_readings {
-            "The model explains the readings within the stated limits"
-        } else {
-            "MODEL DOES NOT EXPLAIN THE READINGS (rejected fit): engineer's review needed"
-        }
+        capitalised(fit_verdict(c))
     )
 }
 

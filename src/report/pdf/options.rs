@@ -15,12 +15,12 @@ const DASHES: [Dash; 4] = [Dash::Solid, Dash::Dashed, Dash::Chain, Dash::Dotted]
 /// numbers, else against the variant number.
 pub fn comparison_page(c: &mut Canvas, r: &CompareReport) {
     let cmp = r.comparison;
-    let widths = [8.0, 92.0, 12.0, 22.0, 14.0, 16.0, 24.0, 20.0, 20.0, 20.0];
+    let widths = [8.0, 66.0, 12.0, 22.0, 12.0, 14.0, 22.0, 18.0, 18.0, 18.0, 63.0];
     let cols: Vec<(&str, f32, bool)> = crate::report::COMPARE_COLUMNS
         .iter()
         .zip(widths)
         .enumerate()
-        .map(|(i, (h, w))| (*h, w, i != 1 && i != 3))
+        .map(|(i, (h, w))| (*h, w, i != 1 && i != 3 && i != 10))
         .collect();
     let shown = cmp.variants.len().min(24);
     let rows: Vec<Vec<String>> = cmp.variants[..shown].iter().map(crate::report::compare_cells).collect();
