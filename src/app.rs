@@ -525,11 +525,28 @@ fn plan(path: Option<&Path>, readings_file: Option<&Path>, outs: &PlanOutputs, j
     }
     let engine = Engine::new(&p);
     let runner = Runner::new(&engine);
+    let from_hold_point = start.is_some();
     let (st, earliest) = start.unwrap_or_else(|| (engine.initial_state(), 0));
-    let plan = match with_progress(|tick| planner::plan_or_reach(&runner, st, earliest, tick))? {
+    // At a hold point the section may already be below its target: the
+    // re-plan must say so (found in review), not only `release`.
+    let below_now = if from_hold_point {
+        let now = runner.stability(&st, &mut Default::default())?;
+        let target = p.criteria.fs_construction;
+        (now.governing_fs() < target).then(|| {
+            format!(
+                "at the hold point the section is already below its FS target: FS now {:.3} ({}) < {target:.2} on the calibrated state with the measured pore pressures; no lift should be placed before the engineer of record has reviewed it (see `fillpace release`)",
+                now.governing_fs(),
+                now.governing_mechanism()
+            )
+        })
+    } else {
+        None
+    };
+    let mut plan = match with_progress(|tick| planner::plan_or_reach(&runner, st, earliest, tick))? {
         planner::Planned::Built(plan) => *plan,
         planner::Planned::Unbuildable(u) => return Err(unbuildable(&p, &source, &u, json)),
     };
+    plan.warnings.splice(0..0, below_now);
     let rep = PlanReport { project: &p, plan: &plan, source, source_sha256: crate::hash::sha256_hex(text.as_bytes()) };
     for (kind, out) in &files {
         let bytes = match *kind {

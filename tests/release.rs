@@ -264,6 +264,19 @@ fn plan_from_readings_starts_after_the_hold_point() {
     // The demo readings' calibration is rejected (χ²/dof ≈ 6 above 4): the
     // re-planned dates say so.
     assert!(source.contains("FROM A REJECTED FIT"), "{source}");
+    // The section is already below target at the hold point (`release`
+    // says FS now 1.16 < 1.30 on the same state): the re-plan says so too
+    // (review finding). A consistency check between the two commands, not
+    // an independent truth; the FS printed agrees with release's within
+    // rounding.
+    let (_dir, project, readings) = scratch();
+    let check = release(&project, &readings, "1.0", &["--json"]);
+    let fs_now = json_result(&check.stdout)["fs_now"].as_f64().unwrap();
+    assert!(fs_now < 1.30, "{fs_now}");
+    let w = r["warnings"].as_array().unwrap();
+    let line =
+        w.iter().filter_map(|x| x.as_str()).find(|x| x.contains("already below its FS target")).expect("warning");
+    assert!(line.contains(&format!("FS now {fs_now:.3}")), "{line} against release's {fs_now}");
 }
 
 #[test]
