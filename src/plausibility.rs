@@ -84,10 +84,10 @@ pub fn input_warnings(p: &Project) -> Vec<String> {
 /// `UPLIFT_MARGIN`.
 fn near_uplift(p: &Project) -> Option<String> {
     let g = &p.ground;
-    let hydrostatic = |z: f64| crate::model::GAMMA_W * (z - g.groundwater_depth_m).max(0.0);
+    // Above hydrostatic: the initial head stands above the water table's.
     ground::grid(p)
         .into_iter()
-        .filter(|n| n.z_m > 0.0 && n.u0_kpa > hydrostatic(n.z_m) + 1e-6)
+        .filter(|n| n.z_m > 0.0 && ground::head_m(g, n.z_m) > -g.groundwater_depth_m + 1e-9)
         .map(|n| (n.sigma_v0_kpa / n.u0_kpa, n))
         .min_by(|a, b| a.0.total_cmp(&b.0))
         .filter(|(f, _)| *f < UPLIFT_MARGIN)
