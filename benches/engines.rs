@@ -3,7 +3,8 @@
 //! wall time reported with its throughput. Not a test: nothing here asserts
 //! a time. `FILLPACE_BENCH_ONLY=response` runs case 1 only (e.g. under
 //! `valgrind --tool=callgrind`, whose instruction counts repeat exactly),
-//! `FILLPACE_BENCH_ONLY=plan` cases 1 to 3b.
+//! `FILLPACE_BENCH_ONLY=search` case 2 (with one run of case 1 to build its
+//! state), `FILLPACE_BENCH_ONLY=plan` cases 1 to 3b.
 
 use fillpace::response::Engine;
 use fillpace::schedule::{Effort, Runner, planner};
@@ -30,9 +31,11 @@ fn main() {
     let text = include_str!("../examples/kestrel-fen.toml");
     let p = fillpace::input::parse(text, "kestrel-fen.toml").expect("demo validates");
 
+    let only = std::env::var("FILLPACE_BENCH_ONLY").unwrap_or_default();
+
     // 1. Full ground response: all columns, the proposed sequence, then rest
     //    to three years, daily steps during placement and 2-day steps in rests.
-    let (t, steps) = time(10, || {
+    let (t, steps) = time(if only == "search" { 1 } else { 10 }, || {
         let e = Engine::new(&p);
         let r = Runner::new(&e);
         let mut st = e.initial_state();
@@ -53,7 +56,7 @@ fn main() {
         t.as_secs_f64() * 1e3,
         node_steps / t.as_secs_f64() / 1e6
     );
-    if std::env::var("FILLPACE_BENCH_ONLY").is_ok_and(|v| v == "response") {
+    if only == "response" {
         return;
     }
 
@@ -68,6 +71,9 @@ fn main() {
         t.as_secs_f64() * 1e3,
         r.circles_tried as f64 / t.as_secs_f64()
     );
+    if only == "search" {
+        return;
+    }
 
     // 3. The whole plan.
     let (t, plan) = time(3, || {
@@ -94,7 +100,7 @@ fn main() {
         full.effort.stability_searches,
         t.as_secs_f64() * 1e3
     );
-    if std::env::var("FILLPACE_BENCH_ONLY").is_ok_and(|v| v == "plan") {
+    if only == "plan" {
         return;
     }
 

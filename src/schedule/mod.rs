@@ -11,7 +11,7 @@ pub mod planner;
 pub mod record;
 
 use crate::error::{Error, Result};
-use crate::response::{Engine, State};
+use crate::response::{Engine, GroundField, State};
 use crate::stability::search::{BandResult, SearchResult, search, search_from, search_warm};
 use crate::stability::{Diagnostics, Section, fill_load};
 use calendar::Calendar;
@@ -35,6 +35,12 @@ pub struct Runner<'e, 'p> {
     warm: std::cell::RefCell<Vec<(f64, Vec<BandResult>)>>,
     /// Clamps and fallbacks of every slip-circle search run so far.
     diagnostics: std::cell::RefCell<Diagnostics>,
+    /// The latest full searches of runners without seeds, by crest height
+    /// and ground field (`SEARCHES_KEPT`, newest last): a search is a
+    /// function of the two alone, so one asked again of the same numbers
+    /// (a stage's end after the trial that accepted its lift, say) is
+    /// answered from here, exactly.
+    searched: std::cell::RefCell<Vec<(f64, GroundField, SearchResult)>>,
     /// Whether the planner's trials use the full search only (the
     /// reference path the guard-rail tests compare with): off by default,
     /// when a trial is first tried by a warm-started local search
@@ -113,6 +119,9 @@ impl RestCache {
     }
 }
 
+/// Full searches kept for exact reuse by a runner (`Runner::stability`).
+const SEARCHES_KEPT: usize = 4;
+
 /// Counters for the benchmark report.
 #[derive(Debug, Clone, Copy, Default, serde::Serialize)]
 pub struct Effort {
@@ -139,6 +148,7 @@ impl<'e, 'p> Runner<'e, 'p> {
             recent: Default::default(),
             warm: Default::default(),
             diagnostics: Default::default(),
+            searched: Default::default(),
             exhaustive: false,
             detail: true,
         }
@@ -232,16 +242,32 @@ impl<'e, 'p> Runner<'e, 'p> {
 
     /// Critical slip circle of the section in its current state (compare
     /// its `governing_fs()` with a target: it includes the fill face).
+    /// A search asked again of the same crest height and ground field
+    /// (bit for bit) is answered from the latest ones kept, not run again
+    /// (nor counted again in `effort` or the diagnostics).
     pub fn stability(&self, st: &State, effort: &mut Effort) -> Result<SearchResult> {
-        let mut found = self.stability_uncounted(st, effort)?;
+        let field = self.engine.field(st);
+        let h = st.height_m;
+        let reusable = self.seeds.is_empty();
+        if reusable
+            && let Some((_, _, found)) =
+                self.searched.borrow().iter().rev().find(|(k, f, _)| *k == h && same_field(f, &field))
+        {
+            return Ok(found.clone());
+        }
+        let mut found = self.stability_uncounted(st, &field, effort)?;
         if fill_load::applies(self.engine.project) {
-            // The ground field again only for a fill taken as a load: the
-            // planner's hot path pays nothing otherwise.
-            let field = self.engine.field(st);
-            found = fill_load::lower_search(self.engine.project, st.height_m, &field, found)?;
+            found = fill_load::lower_search(self.engine.project, h, &field, found)?;
         }
         self.diagnostics.borrow_mut().merge(&found.diagnostics);
-        self.remember_bands(st.height_m, &found.bands);
+        self.remember_bands(h, &found.bands);
+        if reusable {
+            let mut kept = self.searched.borrow_mut();
+            if kept.len() == SEARCHES_KEPT {
+                kept.remove(0);
+            }
+            kept.push((h, field, found.clone()));
+        }
         Ok(found)
     }
 
@@ -300,10 +326,9 @@ impl<'e, 'p> Runner<'e, 'p> {
         *self.diagnostics.borrow()
     }
 
-    fn stability_uncounted(&self, st: &State, effort: &mut Effort) -> Result<SearchResult> {
+    fn stability_uncounted(&self, st: &State, field: &GroundField, effort: &mut Effort) -> Result<SearchResult> {
         effort.stability_searches += 1;
-        let field = self.engine.field(st);
-        let section = Section::new(self.engine.project, st.height_m, &field);
+        let section = Section::new(self.engine.project, st.height_m, field);
         let h = st.height_m;
         let nearest = self.seeds.iter().min_by(|a, b| (a.0 - h).abs().total_cmp(&(b.0 - h).abs()));
         let Some((_, seeds)) = nearest else { return search(&section) };
@@ -327,4 +352,10 @@ impl<'e, 'p> Runner<'e, 'p> {
         self.diagnostics.borrow_mut().merge(&found.diagnostics);
         Ok(found)
     }
+}
+
+/// Whether two ground fields hold the same numbers, bit for bit (NaN never
+/// matches, so such a field is always searched afresh).
+fn same_field(a: &GroundField, b: &GroundField) -> bool {
+    a.xs == b.xs && a.zs == b.zs && a.settlement_m == b.settlement_m && a.su == b.su
 }

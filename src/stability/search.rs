@@ -350,45 +350,74 @@ enum Stride {
 /// each pass tries the moves of `dirs` at the current step, moves to the
 /// best improvement, and halves the step when none improves, down to
 /// `min_step`. Returns the best circle and its tangent elevation.
+///
+/// Trial centres lie on a lattice of the smallest step the search uses
+/// (every step is that one times a power of two), counted in whole units
+/// from the start, and so does the tangent from its latest clamp to the
+/// band; a circle met again (the neighbours that two successive centres
+/// share, or moves that the band's clamp makes equal) is taken from the
+/// circles already analysed by this search, not analysed again.
 #[allow(clippy::too_many_arguments)]
 fn pattern(
     s: &Section,
     count: &mut Counter,
     start: (CircleResult, f64),
     band: &Band,
-    mut step: f64,
+    step: f64,
     min_step: f64,
     dirs: &[[f64; 3]],
     stride: Stride,
 ) -> (CircleResult, f64) {
-    let (mut best, mut yt) = start;
-    while step >= min_step {
-        let c = best.circle;
-        let mut improved: Option<(CircleResult, f64)> = None;
+    let (mut best, yt) = start;
+    let mut unit = step;
+    while 0.5 * unit >= min_step {
+        unit *= 0.5;
+    }
+    let origin = (best.circle.xc_m, best.circle.yc_m);
+    let (lo, hi) = (band.lo.max(s.base_y), band.hi);
+    // Centre (i, j) and tangent k (in half units from `t_origin`), and the
+    // step, in lattice units.
+    let (mut i, mut j, mut k, mut t_origin) = (0i64, 0i64, 0i64, yt);
+    let mut m = (step / unit).round() as i64;
+    let cap = match stride {
+        Stride::Keep => m,
+        Stride::GrowTo(cap) => ((cap / unit).round() as i64).max(m),
+    };
+    let at = |n: i64, o: f64| o + n as f64 * unit;
+    let tangent = |k: i64, o: f64| (o + k as f64 * 0.5 * unit).clamp(lo, hi);
+    let mut seen: std::collections::HashMap<[u64; 3], Option<CircleResult>> = std::collections::HashMap::new();
+    while m as f64 * unit >= min_step {
+        let mut improved: Option<(CircleResult, [i64; 3], f64)> = None;
         for d in dirs {
-            let t = (yt + d[2] * step * 0.5).clamp(band.lo.max(s.base_y), band.hi);
-            let yc = c.yc_m + d[1] * step;
+            let (ni, nj, nk) = (i + d[0] as i64 * m, j + d[1] as i64 * m, k + d[2] as i64 * m);
+            let t = tangent(nk, t_origin);
+            let (xc, yc) = (at(ni, origin.0), at(nj, origin.1));
             if yc <= t + 0.1 {
                 continue;
             }
-            let trial = Circle { xc_m: c.xc_m + d[0] * step, yc_m: yc, r_m: yc - t };
-            if let Some(r) = count.eval(s, trial) {
+            let trial = Circle { xc_m: xc, yc_m: yc, r_m: yc - t };
+            let key = [xc.to_bits(), yc.to_bits(), t.to_bits()];
+            let found = seen.entry(key).or_insert_with(|| count.eval(s, trial));
+            if let Some(r) = found {
                 let current = improved.as_ref().map_or(best.fs - 1e-6, |b| b.0.fs);
                 if r.fs < current {
-                    improved = Some((r, t));
+                    improved = Some((r.clone(), [ni, nj, nk], t));
                 }
             }
         }
-        match (improved, stride) {
-            (Some(better), Stride::Keep) => (best, yt) = better,
-            (Some(better), Stride::GrowTo(cap)) => {
-                (best, yt) = better;
-                step = (2.0 * step).min(cap);
+        match improved {
+            Some((better, [ni, nj, nk], t)) => {
+                (best, i, j) = (better, ni, nj);
+                // A tangent held at the band's limit moves on from there.
+                (k, t_origin) = if t != lo && t != hi { (nk, t_origin) } else { (0, t) };
+                if let Stride::GrowTo(_) = stride {
+                    m = (2 * m).min(cap);
+                }
             }
-            (None, _) => step *= 0.5,
+            None => m /= 2,
         }
     }
-    (best, yt)
+    (best, tangent(k, t_origin))
 }
 
 /// Refine a band: a pattern search with all 26 neighbour moves (diagonals

@@ -43,6 +43,11 @@ pub struct Section<'a> {
     pub(super) surface: Vec<(f64, f64)>,
     /// Settled original ground surface, left to right.
     pub(super) ground_line: Vec<(f64, f64)>,
+    /// Current elevation of the top of each layer below the surface, as a
+    /// polyline on the vertices of `ground_line` (exact: the settlement is
+    /// linear between columns and a depth moves by s(x)(1 − z/D)); empty
+    /// for the top layer.
+    pub(super) layer_tops: Vec<Vec<(f64, f64)>>,
     side_slope: f64,
     pub(super) fill_gamma: f64,
     /// Fill c' and tan φ' after `fill_strength_factor`.
@@ -107,6 +112,7 @@ impl<'a> Section<'a> {
         let mut s = Section {
             surface: Vec::new(),
             ground_line: Vec::new(),
+            layer_tops: Vec::new(),
             profile,
             side_slope: e.side_slope_h_per_v,
             fill_gamma: e.fill_unit_weight_kn_m3,
@@ -131,6 +137,14 @@ impl<'a> Section<'a> {
         };
         s.surface = s.build_surface();
         s.ground_line = s.build_ground_line();
+        s.layer_tops = s
+            .layers
+            .iter()
+            .map(|l| match l.top_z {
+                z if z > 0.0 => s.ground_line.iter().map(|&(x, gy)| (x, s.elevation_with(-gy, z))).collect(),
+                _ => Vec::new(),
+            })
+            .collect();
         s
     }
 

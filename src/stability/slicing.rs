@@ -3,7 +3,9 @@
 //! the sliding mass only (from the entry or the crack to the exit), with a
 //! break at every profile vertex and at every crossing of the arc with the
 //! settled ground, a layer boundary or the water table, so that each slice
-//! base lies in one material. Width ≤ (mass span)/n and count ≤ n + breaks
+//! base lies in one material. The ground and the layer boundaries are
+//! linear between the response columns, so their crossings are found
+//! exactly, segment by segment. Width ≤ (mass span)/n and count ≤ n + breaks
 //! (`max_slices`), whatever the geometry.
 
 use super::{Circle, Crack, Section};
@@ -41,14 +43,16 @@ impl Section<'_> {
         for &(x, _) in &self.profile {
             breaks.extend([x, -x]);
         }
-        breaks.extend(self.crossings(c, x0, x1, |x| self.ground_y(x)).into_iter().flatten());
-        for l in &self.layers {
-            let z = l.top_z;
-            if z > 0.0 {
-                breaks.extend(self.crossings(c, x0, x1, |x| self.elevation_of_depth(x, z)).into_iter().flatten());
-            }
+        breaks.extend(line_hits(&self.ground_line, c, x0, x1).into_iter().flatten());
+        for line in &self.layer_tops {
+            breaks.extend(line_hits(line, c, x0, x1).into_iter().flatten());
         }
-        breaks.extend(self.crossings(c, x0, x1, |_| self.water_y).into_iter().flatten());
+        // The water table, a level line: where the lower arc meets it.
+        let dy = c.yc_m - self.water_y;
+        if dy > 0.0 && dy < c.r_m {
+            let half = (c.r_m * c.r_m - dy * dy).sqrt();
+            breaks.extend([c.xc_m - half, c.xc_m + half]);
+        }
         breaks.retain(|x| *x >= x0 && *x <= x1);
         breaks.sort_by(f64::total_cmp);
         breaks.dedup_by(|a, b| (*a - *b).abs() < 1e-6);
@@ -68,17 +72,6 @@ impl Section<'_> {
         c.yc_m - (c.r_m * c.r_m - dx * dx).max(0.0).sqrt()
     }
 
-    /// Where the arc crosses the curve y = `line`(x) on each side of its
-    /// lowest point (a root of arc − line, which changes sign there).
-    fn crossings(&self, c: Circle, x0: f64, x1: f64, line: impl Fn(f64) -> f64) -> [Option<f64>; 2] {
-        let g = |x: f64| Self::arc_y(c, x) - line(x);
-        let mid = c.xc_m.clamp(x0, x1);
-        if g(mid) >= 0.0 {
-            return [None, None];
-        }
-        [(x0, mid), (x1, mid)].map(|(above, below)| (g(above) > 0.0).then(|| root(&g, above, below)))
-    }
-
     /// The tension crack of a circle, if the fill can crack: a vertical
     /// crack on the active (entry) side, at the first point from the entry
     /// where the arc lies as deep below the fill surface as the crack can
@@ -88,18 +81,24 @@ impl Section<'_> {
         if self.crack_depth_m <= 0.0 {
             return None;
         }
-        let reach = |x: f64| {
-            let top = self.surface_y(x);
-            self.crack_depth_m.min((top - self.ground_y(x)).max(0.0))
+        // (crack reach, depth of the arc below the surface) at x, from one
+        // settlement look-up.
+        let at = |x: f64| {
+            let s = self.field.settlement(x);
+            let top = self.surface_with(x, s);
+            (self.crack_depth_m.min((top + s).max(0.0)), top - Self::arc_y(c, x))
         };
-        let g = |x: f64| reach(x) - (self.surface_y(x) - Self::arc_y(c, x));
+        let g = |x: f64| {
+            let (reach, below) = at(x);
+            reach - below
+        };
         let end = c.xc_m.clamp(entry, exit);
         let mut prev = entry;
         for k in 1..=CRACK_SCAN {
             let x = entry + (end - entry) * k as f64 / CRACK_SCAN as f64;
             if g(x) < 0.0 {
                 let x_m = if g(prev) > 0.0 { root(&g, prev, x) } else { prev };
-                let depth_m = reach(x_m);
+                let depth_m = at(x_m).0;
                 return (depth_m > 1e-3).then_some(Crack { x_m, depth_m });
             }
             prev = x;
@@ -144,6 +143,29 @@ fn root(g: &impl Fn(f64) -> f64, a: f64, b: f64) -> f64 {
         }
     }
     0.5 * (a + b)
+}
+
+/// Where the polyline `line` (left to right, linear between its vertices)
+/// meets the circle's lower half within [x0, x1], on each side of the
+/// lowest point of the arc there: the crossing nearest that point on each
+/// side (one per side, so that the slice count stays within
+/// `Section::max_slices`), found exactly, segment by segment.
+fn line_hits(line: &[(f64, f64)], c: Circle, x0: f64, x1: f64) -> [Option<f64>; 2] {
+    let mid = c.xc_m.clamp(x0, x1);
+    let (mut left, mut right): (Option<f64>, Option<f64>) = (None, None);
+    for w in line.windows(2) {
+        if w[1].0 < x0 || w[0].0 > x1 {
+            continue;
+        }
+        for x in segment_hits(w[0], w[1], c).into_iter().flatten() {
+            if x >= x0 && x < mid {
+                left = Some(left.map_or(x, |l| l.max(x)));
+            } else if x >= mid && x <= x1 {
+                right = Some(right.map_or(x, |r| r.min(x)));
+            }
+        }
+    }
+    [left, right]
 }
 
 /// x of the points (at most two) where segment p–q meets the circle's
