@@ -153,12 +153,34 @@ pub fn search(s: &Section) -> Result<SearchResult> {
         }
     }
     let step0 = ((grid.x1 - grid.x0) / (NX - 1) as f64).max((grid.y1 - grid.y0) / (NY - 1) as f64);
-    let refined_counted: Vec<(Option<BandResult>, Counter)> = best
+    // Every band's starts to a coarse step, all spread over the pool (the
+    // bands differ much in work), then each band's best of them to the
+    // final step.
+    let all = directions().collect::<Vec<_>>();
+    let starts: Vec<(usize, Candidate)> =
+        best.into_iter().enumerate().flat_map(|(k, list)| list.into_iter().map(move |c| (k, c))).collect();
+    let coarse: Vec<(usize, (CircleResult, f64), Counter)> = starts
+        .into_par_iter()
+        .map(|(k, (r, yt, _, _))| {
+            let mut c = Counter::default();
+            let found = pattern(s, &mut c, (r, yt), &bands[k], step0, 8.0 * MIN_STEP_M, &all, Stride::Keep);
+            (k, found, c)
+        })
+        .collect();
+    let mut lowest: Vec<Option<(CircleResult, f64)>> = vec![None; bands.len()];
+    for (k, found, c) in coarse {
+        count.d.merge(&c.d);
+        if lowest[k].as_ref().is_none_or(|l| found.0.fs < l.0.fs) {
+            lowest[k] = Some(found);
+        }
+    }
+    let refined_counted: Vec<(Option<BandResult>, Counter)> = lowest
         .into_par_iter()
         .zip(bands.par_iter())
-        .map(|(b, band)| {
+        .map(|(start, band)| {
             let mut c = Counter::default();
-            let r = refine(s, &mut c, b, band, step0).map(|mut circle| {
+            let r = start.map(|start| {
+                let mut circle = pattern(s, &mut c, start, band, 4.0 * MIN_STEP_M, MIN_STEP_M, &all, Stride::Keep).0;
                 s.name_band(&mut circle);
                 BandResult { band: band.name.clone(), circle }
             });
@@ -418,19 +440,6 @@ fn pattern(
         }
     }
     (best, tangent(k, t_origin))
-}
-
-/// Refine a band: a pattern search with all 26 neighbour moves (diagonals
-/// matter where the FS surface has creases, e.g. where a circle's entry
-/// crosses a break in the profile) from each of its best grid circles down
-/// to a coarse step, then the best of those down to the final step.
-fn refine(s: &Section, count: &mut Counter, starts: Vec<Candidate>, band: &Band, step0: f64) -> Option<CircleResult> {
-    let all = directions().collect::<Vec<_>>();
-    let coarse = starts
-        .into_iter()
-        .map(|(r, yt, _, _)| pattern(s, count, (r, yt), band, step0, 8.0 * MIN_STEP_M, &all, Stride::Keep))
-        .min_by(|a, b| a.0.fs.total_cmp(&b.0.fs))?;
-    Some(pattern(s, count, coarse, band, 4.0 * MIN_STEP_M, MIN_STEP_M, &all, Stride::Keep).0)
 }
 
 /// The 6 unit moves along the axes (xc, yc, tangent).
