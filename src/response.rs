@@ -410,6 +410,14 @@ pub struct Cursor {
     node: usize,
 }
 
+/// Where an offset falls among a `GroundField`'s columns: the column on
+/// the centreline side and the weight of the next one (`bracket`).
+#[derive(Debug, Clone, Copy)]
+pub struct Across {
+    col: usize,
+    w: f64,
+}
+
 impl GroundField {
     /// Surface settlement at offset x, m (linear between columns, constant
     /// beyond the outermost).
@@ -417,11 +425,18 @@ impl GroundField {
         self.settlement_in(bracket(self.xs.len(), |k| self.xs[k], x.abs()))
     }
 
-    /// `settlement`, bracketing from the cursor's column (and moving it).
-    pub fn settlement_near(&self, x: f64, cur: &mut Cursor) -> f64 {
-        let b = bracket_from(self.xs.len(), |k| self.xs[k], x.abs(), cur.col);
-        cur.col = b.0;
-        self.settlement_in(b)
+    /// Where offset x falls among the columns, bracketing from the
+    /// cursor's column (and moving it): one look-up serves the settlement
+    /// and every strength sampled at that offset.
+    pub fn across_near(&self, x: f64, cur: &mut Cursor) -> Across {
+        let (col, w) = bracket_from(self.xs.len(), |k| self.xs[k], x.abs(), cur.col);
+        cur.col = col;
+        Across { col, w }
+    }
+
+    /// Surface settlement at an offset found by `across_near`, m.
+    pub fn settlement_across(&self, a: Across) -> f64 {
+        self.settlement_in((a.col, a.w))
     }
 
     fn settlement_in(&self, (j, w): (usize, f64)) -> f64 {
@@ -436,14 +451,13 @@ impl GroundField {
         self.sample_in(bracket(xs.len(), |k| xs[k], x.abs()), bracket(zs.len(), |k| zs[k], z))
     }
 
-    /// `sample`, bracketing from the cursor's column and depth (and moving
-    /// it).
-    pub fn sample_near(&self, x: f64, z: f64, cur: &mut Cursor) -> f64 {
-        let (xs, zs) = (&self.xs, &self.zs);
-        let bx = bracket_from(xs.len(), |k| xs[k], x.abs(), cur.col);
+    /// `sample` at an offset found by `across_near` and depth z,
+    /// bracketing the depth from the cursor's node (and moving it).
+    pub fn sample_across(&self, a: Across, z: f64, cur: &mut Cursor) -> f64 {
+        let zs = &self.zs;
         let bz = bracket_from(zs.len(), |k| zs[k], z, cur.node);
-        (cur.col, cur.node) = (bx.0, bz.0);
-        self.sample_in(bx, bz)
+        cur.node = bz.0;
+        self.sample_in((a.col, a.w), bz)
     }
 
     fn sample_in(&self, (j, wx): (usize, f64), (i, wz): (usize, f64)) -> f64 {
@@ -548,9 +562,10 @@ mod tests {
                 for (x, z) in pts.iter().chain(pts.iter().rev()) {
                     let mut fresh = Cursor { col, node };
                     for c in [&mut cur, &mut fresh] {
-                        assert_eq!(field.settlement_near(*x, c).to_bits(), field.settlement(*x).to_bits(), "x {x}");
+                        let a = field.across_near(*x, c);
+                        assert_eq!(field.settlement_across(a).to_bits(), field.settlement(*x).to_bits(), "x {x}");
                         assert_eq!(
-                            field.sample_near(*x, *z, c).to_bits(),
+                            field.sample_across(a, *z, c).to_bits(),
                             field.sample(*x, *z).to_bits(),
                             "x {x} z {z}"
                         );

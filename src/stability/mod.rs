@@ -192,7 +192,8 @@ impl Section<'_> {
             let b = xb - xa;
             let dx = x - c.xc_m;
             let y_arc = c.yc_m - (c.r_m * c.r_m - dx * dx).max(0.0).sqrt();
-            let s_x = self.field.settlement_near(x, &mut cur);
+            let at = self.field.across_near(x, &mut cur);
+            let s_x = self.field.settlement_across(at);
             let y_top = self.surface_with(x, s_x);
             if y_arc >= y_top {
                 continue;
@@ -201,7 +202,7 @@ impl Section<'_> {
             let sin_a = (c.xc_m - x) / c.r_m;
             let cos_a = (1.0 - sin_a * sin_a).max(1e-9).sqrt();
             let w = b * self.column_weight(s_x, y_arc, y_top);
-            let (coh, tan_phi, u) = self.strength_at(x, s_x, y_arc, w / b, &mut cur);
+            let (coh, tan_phi, u) = self.strength_at(at, s_x, y_arc, w / b, &mut cur);
             let l = b / cos_a;
             let normal = w * cos_a - u * l;
             if normal < 0.0 && tan_phi > 0.0 {
@@ -244,8 +245,9 @@ fn bishop(s: &[SliceData], drive_moment: f64, r: f64, t_moment: f64, start: f64)
     for _ in 0..MAX_ITER {
         let mut resist = 0.0;
         low = f64::INFINITY;
+        let inv_fs = 1.0 / fs;
         for d in s {
-            let m_alpha = d.cos_a + d.sin_tan / fs;
+            let m_alpha = d.cos_a + d.sin_tan * inv_fs;
             if d.frictional {
                 low = low.min(m_alpha);
                 if m_alpha <= 1e-3 {

@@ -9,7 +9,7 @@
 //! is sampled at the point's original depth where the columns computed it.
 
 use crate::model::*;
-use crate::response::{Cursor, GroundField};
+use crate::response::{Across, Cursor, GroundField};
 use crate::{ground, load};
 
 #[derive(Debug, Clone, Copy)]
@@ -285,15 +285,16 @@ impl<'a> Section<'a> {
         w
     }
 
-    /// (c kPa, tan φ, u kPa) at a slice base at (x, y), settlement s there,
+    /// (c kPa, tan φ, u kPa) at a slice base at height y, settlement s there,
     /// under a total vertical stress `sigma_v` kPa (for ru): the fill's or
     /// a sand layer's drained strength and pore pressure (from the sand's
     /// initial head, fixed in space while the point settles), or the clay's
     /// su on its own side of a layer boundary (undrained: u not used here;
     /// the clay's initial pore pressure enters through σ'v0 and σ'p0 of the
     /// ground nodes, from the same `ground::head_m`). The clay's su is
-    /// looked up from `cur` (the circle's cursor in the field).
-    pub(super) fn strength_at(&self, x: f64, s: f64, y: f64, sigma_v: f64, cur: &mut Cursor) -> (f64, f64, f64) {
+    /// looked up at `at` (the slice's offset among the columns) from `cur`
+    /// (the circle's cursor in the field).
+    pub(super) fn strength_at(&self, at: Across, s: f64, y: f64, sigma_v: f64, cur: &mut Cursor) -> (f64, f64, f64) {
         let hydrostatic = |level: f64| GAMMA_W * (level - y).max(0.0);
         if y >= -s - 1e-9 {
             let u = if self.fill_ru > 0.0 { self.fill_ru * sigma_v } else { hydrostatic(self.water_y) };
@@ -308,7 +309,7 @@ impl<'a> Section<'a> {
                 };
                 (*c, *tan_phi, u)
             }
-            _ => (self.field.sample_near(x, z, cur), 0.0, 0.0),
+            _ => (self.field.sample_across(at, z, cur), 0.0, 0.0),
         }
     }
 
