@@ -151,8 +151,11 @@ fn fast_plans_match_the_exhaustive_path_and_accept_only_confirmed_lifts() {
             &["effort", "warnings"],
         );
         assert!(fast.effort.warm_searches > 0, "{name}: no warm search ran");
+        // Never more full searches than the exhaustive path (equal where
+        // every trial the fast path made sat near the target, as on a thin
+        // site where the exhaustive path's repeats are reused exactly).
         assert!(
-            fast.effort.stability_searches < full.effort.stability_searches,
+            fast.effort.stability_searches <= full.effort.stability_searches,
             "{name}: {} full searches against {} exhaustive",
             fast.effort.stability_searches,
             full.effort.stability_searches

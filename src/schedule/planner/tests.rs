@@ -93,3 +93,30 @@ fn first_lift_is_the_thickest_that_meets_the_target_and_above_the_bearing_bound(
     assert!(lift >= 1.5 - 1e-9, "first lift {lift} m below the bearing bound 1.58 m");
     assert!(lift < 4.0, "the bound should not be trivial here: {lift} m");
 }
+
+/// Consistency check of the runner's reuse of full searches (the engine
+/// against itself, not a truth test): a search asked again of the same
+/// state is not run again and gives the same answer bit for bit as a runner
+/// that searches afresh; a state one rest step later is searched again.
+#[test]
+fn a_search_asked_again_of_the_same_state_is_reused_exactly() {
+    let p = crate::input::parse(SITE, "planner-test.toml").unwrap();
+    let engine = crate::response::Engine::new(&p);
+    let r = Runner::new(&engine);
+    let mut st = engine.initial_state();
+    r.place(&mut st, 2.0, &mut |_| {}).unwrap();
+    let mut effort = Effort::default();
+    let first = r.stability(&st, &mut effort).unwrap();
+    let again = r.stability(&st.clone(), &mut effort).unwrap();
+    assert_eq!(effort.stability_searches, 1, "the repeat was searched again");
+    let fresh = Runner::new(&engine).stability(&st, &mut Effort::default()).unwrap();
+    for found in [&again, &fresh] {
+        assert_eq!(found.governing_fs().to_bits(), first.governing_fs().to_bits());
+        assert_eq!(found.critical.circle, first.critical.circle);
+        assert_eq!(found.circles_tried, first.circles_tried);
+    }
+    let later = st.day as i64 + 30;
+    r.rest_until(&mut st, later, &mut |_| {});
+    r.stability(&st, &mut effort).unwrap();
+    assert_eq!(effort.stability_searches, 2, "a later state was answered from the kept searches");
+}
