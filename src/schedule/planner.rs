@@ -324,11 +324,14 @@ pub(super) fn lift_candidates(r: &Runner, remaining: f64) -> Vec<f64> {
 
 /// A warm-started trial whose FS is this close to the target is decided by
 /// the full search: there the warm and the full search differ by their
-/// resolution (a few 1e-4 on the demo, either way: a warm search can find
-/// a slightly lower neighbour of the full search's circle, or stop short
-/// of its minimum), and the decision should be the exhaustive path's. The
-/// issue's guard-rail tolerance on FS.
-const WARM_BORDER: f64 = 0.002;
+/// resolution (a warm search can find a slightly lower neighbour of the
+/// full search's circle, or stop short of its minimum), and the decision
+/// should be the exhaustive path's. Measured on the demo with every trial
+/// searched both ways: warm − full from −0.0001 to +0.00046 (46 trials),
+/// so twice the widest gap. Safety does not rest on it: a lift is accepted
+/// only on the full search's FS; the border keeps the dates those of the
+/// exhaustive path (the guard-rail tests allow a day).
+const WARM_BORDER: f64 = 0.001;
 
 /// FS at the end of placing `lift` starting on or after `start`, resting
 /// from the state of `rest` until then. With `full` it is the full
