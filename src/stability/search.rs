@@ -207,7 +207,8 @@ pub fn search(s: &Section) -> Result<SearchResult> {
 /// a minimum at the final step costs one pass and comes back unchanged, so
 /// the same section gives exactly the earlier answer. Falls back to the full
 /// search when no seed can be analysed. Single-threaded (it is run many at
-/// a time).
+/// a time). Each circle is analysed once (`Counter::memoised`): the pattern
+/// moves one step at a time and meets earlier neighbours again.
 pub fn search_from(s: &Section, seeds: &[BandResult], alternates: &[BandResult]) -> Result<SearchResult> {
     let bands = bands(s);
     let all = directions().collect::<Vec<_>>();
