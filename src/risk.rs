@@ -545,6 +545,45 @@ mod tests {
     use super::*;
 
     #[test]
+    fn a_realisations_stages_are_the_states_its_timetable_replays_to() {
+        // CONSISTENCY check (the fast path against a reference path of the
+        // same engine): a realisation's fresh plan takes each lift's
+        // placement and search from the trial that accepted it instead of
+        // placing it again. Replaying the plan's own timetable on the same
+        // engine must reach the same states, to the bit (rests step on a
+        // fixed grid, placement is deterministic): each stage's last working
+        // day, peak excess pore pressure and placed thickness at the end of
+        // placement, and the settlement and degree of consolidation at its
+        // release. The demo with cv × 0.7 rests before most lifts.
+        let text = include_str!("../examples/kestrel-fen.toml");
+        let doc = Document::parse(text, "kestrel-fen.toml").unwrap();
+        let base = crate::input::parse(text, "kestrel-fen.toml").unwrap();
+        let plan = planner::plan(&Runner::new(&Engine::new(&base))).unwrap();
+        let mut d = doc.clone();
+        d.scale("ground.layers[1].cv_m2_per_year", 0.7).unwrap();
+        let p = d.project("realisation").unwrap();
+        let engine = Engine::new(&p);
+        let fresh = planner::plan(&Runner::for_realisation(&engine, seeds(&plan))).unwrap();
+        assert!(fresh.stages.len() >= 4, "{} stages", fresh.stages.len());
+        let replay = Runner::new(&engine);
+        let mut st = engine.initial_state();
+        let mut previous: Option<&planner::Stage> = None;
+        for s in &fresh.stages {
+            replay.rest_until(&mut st, replay.calendar.day_of(s.start), &mut |_| {});
+            if let Some(prev) = previous {
+                assert_eq!(st.settlement_centre_m, prev.settlement_centre_m, "stage {} at release", prev.number);
+                assert_eq!(engine.degree_centre(&st), prev.degree_centre, "stage {} at release", prev.number);
+            }
+            let (_, last) = replay.place(&mut st, s.thickness_m, &mut |_| {}).unwrap();
+            assert_eq!(replay.calendar.date(last).unwrap(), s.end, "stage {} end", s.number);
+            assert_eq!(engine.peak_excess(&st), s.peak_excess_kpa, "stage {} excess", s.number);
+            assert_eq!(st.placed_m, s.placed_after_m, "stage {} placed", s.number);
+            assert!(s.fill_after_m3_per_m.is_none(), "a realisation's plan keeps no fill areas");
+            previous = Some(s);
+        }
+    }
+
+    #[test]
     fn a_linear_case_gives_the_lognormal_distribution_of_fs() {
         // tests/data/phi0-single-lift.toml: φ = 0 clay without strength gain
         // under strengthless fill, so every circle's FS is proportional to

@@ -75,7 +75,7 @@ impl Exporter for Csv {
             "surcharge_fill_after_m3_per_m",
         ]);
         let rows = r.plan.stages.iter().map(|s| {
-            let a = &s.fill_after_m3_per_m;
+            let a = s.fill_after_m3_per_m;
             vec![
                 s.number.to_string(),
                 s.kind.key().to_string(),
@@ -94,9 +94,9 @@ impl Exporter for Csv {
                 format!("{:.2}", s.peak_excess_kpa),
                 format!("{:.4}", s.degree_centre),
                 format!("{:.4}", s.settlement_centre_m),
-                format!("{:.2}", a.design_m2),
-                format!("{:.2}", a.makeup_m2),
-                format!("{:.2}", a.surcharge_m2),
+                opt(a.map(|a| format!("{:.2}", a.design_m2))),
+                opt(a.map(|a| format!("{:.2}", a.makeup_m2))),
+                opt(a.map(|a| format!("{:.2}", a.surcharge_m2))),
             ]
         });
         table(Some(r.plan.stage_shape), &head, rows)

@@ -57,7 +57,10 @@ pub struct Runner<'e, 'p> {
 /// points reached so far: a trial that rests to any day continues from the
 /// latest of them instead of from the start (the planner's searches try
 /// many rests from the same state). Exact: `rest_until` steps on the grid.
-/// It also remembers the FS of every trial made, so none is made twice.
+/// It also remembers the FS of every trial made, so none is made twice,
+/// and, for runners without report detail (Monte Carlo realisations), the
+/// placement and search of each trial confirmed, so that the lift accepted
+/// is not placed and searched a second time.
 pub struct RestCache {
     points: std::cell::RefCell<Vec<State>>,
     /// The trials already made from this rest.
@@ -74,6 +77,18 @@ struct Trial {
     /// The state at the end of placement while the FS is a warm search's
     /// only (None once confirmed).
     unconfirmed: Option<State>,
+    /// The placement and full search that gave `fs`, when kept.
+    placed: Option<Box<Placed>>,
+}
+
+/// A lift placed from a rest and its full search (a planner trial's).
+pub(crate) struct Placed {
+    /// The state at the end of placement.
+    pub state: State,
+    /// First and last working day of placement.
+    pub days: (i64, i64),
+    /// The full search on `state` (its `governing_fs()` is the trial's FS).
+    pub found: SearchResult,
 }
 
 impl RestCache {
@@ -99,7 +114,22 @@ impl RestCache {
     /// placement when the FS is only a warm search's (None when it is the
     /// full search's).
     pub fn remember(&self, day: i64, lift_m: f64, fs: f64, placed: Option<State>) {
-        self.trials.borrow_mut().push(Trial { day, lift_m, fs, unconfirmed: placed });
+        self.trials.borrow_mut().push(Trial { day, lift_m, fs, unconfirmed: placed, placed: None });
+    }
+
+    /// Record a trial confirmed by the full search `placed.found`, keeping
+    /// its placement for `take_placed`.
+    pub(crate) fn remember_placed(&self, day: i64, lift_m: f64, placed: Placed) {
+        let fs = placed.found.governing_fs();
+        self.trials.borrow_mut().push(Trial { day, lift_m, fs, unconfirmed: None, placed: Some(Box::new(placed)) });
+    }
+
+    /// The kept placement and search of the lift of `lift_m` started on
+    /// `day`, if that trial was made and kept (it is handed over once).
+    pub(crate) fn take_placed(&self, day: i64, lift_m: f64) -> Option<Placed> {
+        let mut trials = self.trials.borrow_mut();
+        let t = trials.iter_mut().find(|t| t.day == day && t.lift_m == lift_m)?;
+        t.placed.take().map(|p| *p)
     }
 
     /// The state after resting from the start until `day` (not before the
@@ -271,7 +301,8 @@ impl<'e, 'p> Runner<'e, 'p> {
         Ok(found)
     }
 
-    /// A planner trial's FS (governing, as `stability`) and whether it is
+    /// A planner trial's search (compare its `governing_fs()`, as
+    /// `stability`'s) and whether it is
     /// the full search's (`true`) or a warm-started local search's from
     /// the band circles of the latest search at the nearest crest height
     /// (`false`). A warm FS is an upper bound on what the full search could
@@ -281,7 +312,7 @@ impl<'e, 'p> Runner<'e, 'p> {
     /// is used directly when `exhaustive` is set, for Monte Carlo
     /// realisations (already seeded), for a fill taken as a load (two
     /// idealisations per search) and when no search has run yet.
-    pub fn trial_stability(&self, st: &State, effort: &mut Effort) -> Result<(f64, bool)> {
+    pub fn trial_stability(&self, st: &State, effort: &mut Effort) -> Result<(SearchResult, bool)> {
         let h = st.height_m;
         let seeds = {
             let warm = self.warm.borrow();
@@ -289,7 +320,7 @@ impl<'e, 'p> Runner<'e, 'p> {
         };
         let direct = self.exhaustive || !self.seeds.is_empty() || fill_load::applies(self.engine.project);
         let Some(seeds) = seeds.filter(|_| !direct) else {
-            return Ok((self.stability(st, effort)?.governing_fs(), true));
+            return Ok((self.stability(st, effort)?, true));
         };
         let field = self.engine.field(st);
         let (found, full) = search_warm(&Section::new(self.engine.project, h, &field), &seeds)?;
@@ -300,7 +331,7 @@ impl<'e, 'p> Runner<'e, 'p> {
         }
         self.diagnostics.borrow_mut().merge(&found.diagnostics);
         self.remember_bands(h, &found.bands);
-        Ok((found.governing_fs(), full))
+        Ok((found, full))
     }
 
     /// Keep `bands` as the latest band circles at crest height `h_m` (for

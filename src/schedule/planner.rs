@@ -11,7 +11,7 @@
 //! criterion is met and then removes the surcharge.
 
 use super::record::{self, Figures, Governing};
-use super::{Effort, RestCache, Runner};
+use super::{Effort, Placed, RestCache, Runner};
 use crate::error::{Error, Result};
 use crate::response::State;
 use crate::stability::search::SearchResult;
@@ -87,8 +87,9 @@ pub struct Stage {
     /// Fill cross-section areas of the section at the end of the stage
     /// (cumulative; the make-up is the fill in the settlement trough then),
     /// m³ per metre run. A lift's own quantities are the differences from
-    /// the stage before.
-    pub fill_after_m3_per_m: crate::load::FillAreas,
+    /// the stage before. None in plans without report detail (Monte Carlo
+    /// realisations, which need the timetable only).
+    pub fill_after_m3_per_m: Option<crate::load::FillAreas>,
     /// The governing circle at the end of placement.
     #[serde(skip)]
     pub critical: Option<SearchResult>,
@@ -183,7 +184,7 @@ pub fn plan_or_reach(r: &Runner, start: State, earliest: i64, progress: &mut dyn
     let mut earliest = earliest;
     let mut last_rest = 0;
     while st.height_m < top - 1e-6 {
-        let (start_day, lift, rested) = match next_lift_after(r, &st, earliest, last_rest, &mut effort) {
+        let (start_day, lift, rested, placed) = match next_lift_placed(r, &st, earliest, last_rest, &mut effort) {
             Ok(next) => next,
             Err(Error::Computation(why)) if r.detail => {
                 let thinnest = lift_candidates(r, top - st.height_m).last().copied().unwrap_or(0.0);
@@ -195,8 +196,18 @@ pub fn plan_or_reach(r: &Runner, start: State, earliest: i64, progress: &mut dyn
         };
         last_rest = start_day - earliest;
         advance_to(r, &mut stages, &mut st, start_day, Some(rested), &mut fig, &mut effort)?;
-        let (a, b) = r.place(&mut st, lift, &mut |s| fig.record_if(r, s))?;
-        let crit = r.stability(&st, &mut effort)?;
+        let ((a, b), crit) = match placed {
+            // The accepted trial placed this lift on this state already and
+            // searched it in full (kept only when nothing is recorded).
+            Some(p) if !r.detail => {
+                st = p.state;
+                (p.days, p.found)
+            }
+            _ => {
+                let days = r.place(&mut st, lift, &mut |s| fig.record_if(r, s))?;
+                (days, r.stability(&st, &mut effort)?)
+            }
+        };
         stages.push(stage(r, stages.len() + 1, StageKind::Lift, a, b, lift, &st, crit)?);
         earliest = b + 1 + p.construction.min_rest_days as i64;
         progress(st.height_m / top);
@@ -293,10 +304,23 @@ pub(crate) fn next_lift_after(
     last_rest: i64,
     effort: &mut Effort,
 ) -> Result<(i64, f64, State)> {
+    next_lift_placed(r, st, earliest, last_rest, effort).map(|(day, lift, rested, _)| (day, lift, rested))
+}
+
+/// `next_lift_after`, with the accepted trial's placement and search when
+/// the rest kept them (runners without report detail).
+fn next_lift_placed(
+    r: &Runner,
+    st: &State,
+    earliest: i64,
+    last_rest: i64,
+    effort: &mut Effort,
+) -> Result<(i64, f64, State, Option<Placed>)> {
     let candidates = lift_candidates(r, r.engine.project.max_height_m() - st.height_m);
     let rest = RestCache::new(st);
     let (start, lift) = find_next(r, st, &rest, earliest, last_rest, &candidates, effort)?;
-    Ok((start, lift, rest.at(r, start)))
+    let placed = rest.take_placed(start, lift);
+    Ok((start, lift, rest.at(r, start), placed))
 }
 
 /// Lift thicknesses to try, thickest first: from min(max lift, remaining)
@@ -343,20 +367,33 @@ fn trial(r: &Runner, rest: &RestCache, start: i64, lift: f64, full: bool, effort
         return Ok(fs);
     }
     let mut s = rest.at(r, start);
-    r.place(&mut s, lift, &mut |_| {})?;
+    let days = r.place(&mut s, lift, &mut |_| {})?;
     let target = r.engine.project.criteria.fs_construction;
     let warm = if full { None } else { Some(r.trial_stability(&s, effort)?) };
-    let (fs, confirmed) = match warm {
-        // A warm FS clearly below the target rejects, one clearly above
-        // waits for confirmation (only the trial accepted needs it); one
-        // within `WARM_BORDER` of the target is decided by the full search
-        // now, as the exhaustive path would, and never above a lower circle
-        // the warm search found (a local search can find one the grid
-        // missed: the lower FS is kept).
-        Some((w, confirmed)) if confirmed || (w - target).abs() >= WARM_BORDER => (w, confirmed),
-        _ => (r.stability(&s, effort)?.governing_fs().min(warm.map_or(f64::INFINITY, |w| w.0)), true),
+    // A warm FS clearly below the target rejects, one clearly above waits
+    // for confirmation (only the trial accepted needs it); one within
+    // `WARM_BORDER` of the target is decided by the full search now, as
+    // the exhaustive path would, and never above a lower circle the warm
+    // search found (a local search can find one the grid missed: the lower
+    // FS is kept).
+    let (found, lower) = match warm {
+        Some((w, true)) => (w, f64::INFINITY),
+        Some((w, false)) if (w.governing_fs() - target).abs() >= WARM_BORDER => {
+            let fs = w.governing_fs();
+            rest.remember(start, lift, fs, Some(s));
+            return Ok(fs);
+        }
+        Some((w, false)) => (r.stability(&s, effort)?, w.governing_fs()),
+        None => (r.stability(&s, effort)?, f64::INFINITY),
     };
-    rest.remember(start, lift, fs, (!confirmed).then_some(s));
+    let fs = found.governing_fs().min(lower);
+    if !r.detail && fs == found.governing_fs() {
+        // Nothing is recorded during placement without report detail: if
+        // this lift is accepted, its placement and search are the stage's.
+        rest.remember_placed(start, lift, Placed { state: s, days, found });
+    } else {
+        rest.remember(start, lift, fs, None);
+    }
     Ok(fs)
 }
 
@@ -648,7 +685,7 @@ pub(super) fn stage(
         peak_excess_kpa: r.engine.peak_excess(st),
         degree_centre: r.engine.degree_centre(st),
         settlement_centre_m: st.settlement_centre_m,
-        fill_after_m3_per_m: r.engine.fill_areas(st),
+        fill_after_m3_per_m: r.detail.then(|| r.engine.fill_areas(st)),
         critical: Some(crit),
     })
 }

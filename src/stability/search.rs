@@ -109,15 +109,34 @@ struct Band {
 #[derive(Default)]
 struct Counter {
     d: Diagnostics,
+    /// The circles analysed so far by their exact coordinates, when kept
+    /// (`memoised`): a pattern search moving by one step at a time meets
+    /// many of its earlier neighbours again.
+    memo: Option<std::collections::HashMap<[u64; 3], Option<CircleResult>>>,
 }
 
 impl Counter {
+    /// A counter that analyses each circle once: a circle met again (the
+    /// same coordinates to the bit) gets its earlier result, which is what
+    /// analysing it again would give.
+    fn memoised() -> Counter {
+        Counter { memo: Some(Default::default()), ..Counter::default() }
+    }
+
     /// Analyse a trial circle, counting its clamps and fallbacks; None
     /// where it cannot be analysed.
     fn eval(&mut self, s: &Section, c: Circle) -> Option<CircleResult> {
+        let key = [c.xc_m.to_bits(), c.yc_m.to_bits(), c.r_m.to_bits()];
+        if let Some(known) = self.memo.as_ref().and_then(|m| m.get(&key)) {
+            return known.clone();
+        }
         let r = s.analyse_unnamed(c);
         self.d.record(&r);
-        r.ok().filter(|r| r.fs.is_finite() && r.fs > 0.0)
+        let r = r.ok().filter(|r| r.fs.is_finite() && r.fs > 0.0);
+        if let Some(m) = &mut self.memo {
+            m.insert(key, r.clone());
+        }
+        r
     }
 }
 
@@ -210,11 +229,12 @@ pub fn search(s: &Section) -> Result<SearchResult> {
 /// a minimum at the final step costs one pass and comes back unchanged, so
 /// the same section gives exactly the earlier answer. Falls back to the full
 /// search when no seed can be analysed. Single-threaded (it is run many at
-/// a time).
+/// a time). Each circle is analysed once (`Counter::memoised`): the pattern
+/// moves one step at a time and meets earlier neighbours again.
 pub fn search_from(s: &Section, seeds: &[BandResult], alternates: &[BandResult]) -> Result<SearchResult> {
     let bands = bands(s);
     let all = directions().collect::<Vec<_>>();
-    let mut count = Counter::default();
+    let mut count = Counter::memoised();
     let axes = axis_directions();
     let mut walked: Vec<(&Band, (CircleResult, f64))> = Vec::new();
     for seed in seeds {
