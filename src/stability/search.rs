@@ -181,7 +181,7 @@ pub fn search(s: &Section) -> Result<SearchResult> {
     let coarse: Vec<(usize, (CircleResult, f64), Counter)> = starts
         .into_par_iter()
         .map(|(k, (r, yt, _, _))| {
-            let mut c = Counter::default();
+            let mut c = Counter::memoised();
             let found = pattern(s, &mut c, (r, yt), &bands[k], step0, 8.0 * MIN_STEP_M, &all, Stride::Keep);
             (k, found, c)
         })
@@ -197,7 +197,7 @@ pub fn search(s: &Section) -> Result<SearchResult> {
         .into_par_iter()
         .zip(bands.par_iter())
         .map(|(start, band)| {
-            let mut c = Counter::default();
+            let mut c = Counter::memoised();
             let r = start.map(|start| {
                 let mut circle = pattern(s, &mut c, start, band, 4.0 * MIN_STEP_M, MIN_STEP_M, &all, Stride::Keep).0;
                 s.name_band(&mut circle);
@@ -396,9 +396,9 @@ enum Stride {
 /// Trial centres lie on a lattice of the smallest step the search uses
 /// (every step is that one times a power of two), counted in whole units
 /// from the start, and so does the tangent from its latest clamp to the
-/// band; a circle met again (the neighbours that two successive centres
-/// share, or moves that the band's clamp makes equal) is taken from the
-/// circles already analysed by this search, not analysed again.
+/// band: a circle met again (the neighbours that two successive centres
+/// share, or moves that the band's clamp makes equal) has the same
+/// coordinates to the bit, so a memoised `Counter` analyses it once.
 #[allow(clippy::too_many_arguments)]
 fn pattern(
     s: &Section,
@@ -427,7 +427,6 @@ fn pattern(
     };
     let at = |n: i64, o: f64| o + n as f64 * unit;
     let tangent = |k: i64, o: f64| (o + k as f64 * 0.5 * unit).clamp(lo, hi);
-    let mut seen: std::collections::HashMap<[u64; 3], Option<CircleResult>> = std::collections::HashMap::new();
     while m as f64 * unit >= min_step {
         let mut improved: Option<(CircleResult, [i64; 3], f64)> = None;
         for d in dirs {
@@ -437,13 +436,10 @@ fn pattern(
             if yc <= t + 0.1 {
                 continue;
             }
-            let trial = Circle { xc_m: xc, yc_m: yc, r_m: yc - t };
-            let key = [xc.to_bits(), yc.to_bits(), t.to_bits()];
-            let found = seen.entry(key).or_insert_with(|| count.eval(s, trial));
-            if let Some(r) = found {
+            if let Some(r) = count.eval(s, Circle { xc_m: xc, yc_m: yc, r_m: yc - t }) {
                 let current = improved.as_ref().map_or(best.fs - 1e-6, |b| b.0.fs);
                 if r.fs < current {
-                    improved = Some((r.clone(), [ni, nj, nk], t));
+                    improved = Some((r, [ni, nj, nk], t));
                 }
             }
         }
