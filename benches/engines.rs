@@ -8,7 +8,7 @@
 
 use fillpace::response::Engine;
 use fillpace::schedule::{Effort, Runner, planner};
-use fillpace::stability::{Section, search::search};
+use fillpace::stability::{Circle, Section, search::search};
 use std::time::{Duration, Instant};
 
 fn median(mut v: Vec<Duration>) -> Duration {
@@ -70,6 +70,30 @@ fn main() {
         r.circles_tried,
         t.as_secs_f64() * 1e3,
         r.circles_tried as f64 / t.as_secs_f64()
+    );
+
+    // 2b. Cost growth with the number of circles: the critical circle's
+    //     neighbourhood analysed on a lattice of n and of 2n centres (the
+    //     same radii), one thread.
+    let c0 = r.critical.circle;
+    let lattice = |n: usize| -> Vec<Circle> {
+        (0..n)
+            .map(|k| Circle {
+                xc_m: c0.xc_m + 0.01 * (k % 50) as f64,
+                yc_m: c0.yc_m + 0.01 * (k / 50) as f64,
+                r_m: c0.r_m + 0.01 * (k / 50) as f64,
+            })
+            .collect()
+    };
+    let (one, two) = (lattice(2_000), lattice(4_000));
+    let analyse_all = |cs: &[Circle]| cs.iter().filter_map(|c| section.analyse(*c).ok()).count();
+    let (t1, _) = time(5, || analyse_all(&one));
+    let (t2, _) = time(5, || analyse_all(&two));
+    println!(
+        "stability 2,000 and 4,000 circles analysed: {:.1} and {:.1} ms median, ratio {:.2}",
+        t1.as_secs_f64() * 1e3,
+        t2.as_secs_f64() * 1e3,
+        t2.as_secs_f64() / t1.as_secs_f64()
     );
     if only == "search" {
         return;
