@@ -222,7 +222,10 @@ impl<'p> Engine<'p> {
     /// Fill areas per metre run (design, make-up in the settlement trough,
     /// surcharge) of the section in state `st`, m².
     pub fn fill_areas(&self, st: &State) -> load::FillAreas {
-        load::fill_areas(&self.project.embankment, st.height_m, &|x| self.settlement_at(st, x))
+        // Each column's surface settlement once (the trough is sampled at
+        // hundreds of offsets), then between columns as `settlement_at`.
+        let s: Vec<f64> = self.columns.iter().zip(&st.cols).map(|(c, cs)| c.settlement(cs)).collect();
+        load::fill_areas(&self.project.embankment, st.height_m, &|x| self.between_columns(x, |c| s[c]))
     }
 
     /// The state once the present load has fully consolidated (no excess
@@ -273,8 +276,7 @@ impl<'p> Engine<'p> {
     /// each column and in offset between columns (symmetric about the
     /// centreline, constant beyond the outermost column).
     pub fn excess_at_point(&self, st: &State, x_m: f64, z_m: f64) -> f64 {
-        let (j, w) = self.column_bracket(x_m);
-        self.excess_at(st, j, z_m) * (1.0 - w) + self.excess_at(st, j + 1, z_m) * w
+        self.between_columns(x_m, |c| self.excess_at(st, c, z_m))
     }
 
     /// Surface settlement at offset x, m (linear between columns).
@@ -285,14 +287,14 @@ impl<'p> Engine<'p> {
     /// Settlement of the point at offset x and original depth z (the
     /// compression of the ground below it), m (linear between columns).
     pub fn settlement_below_at(&self, st: &State, x_m: f64, z_m: f64) -> f64 {
-        let (j, w) = self.column_bracket(x_m);
-        let s = |c: usize| self.columns[c].settlement_below(&st.cols[c], z_m);
-        s(j) * (1.0 - w) + s(j + 1) * w
+        self.between_columns(x_m, |c| self.columns[c].settlement_below(&st.cols[c], z_m))
     }
 
-    /// Columns either side of offset x and the weight of the outer one.
-    fn column_bracket(&self, x_m: f64) -> (usize, f64) {
-        bracket(self.columns.len(), |k| self.columns[k].x_m, x_m.abs())
+    /// A quantity `f`(column) at offset x: linear between the columns either
+    /// side (symmetric about the centreline, constant beyond the outermost).
+    fn between_columns(&self, x_m: f64, f: impl Fn(usize) -> f64) -> f64 {
+        let (j, w) = bracket(self.columns.len(), |k| self.columns[k].x_m, x_m.abs());
+        f(j) * (1.0 - w) + f(j + 1) * w
     }
 
     /// Vertical total stress increment from the fill at offset x and depth
