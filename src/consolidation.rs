@@ -22,7 +22,7 @@ mod drains;
 use drains::radial_factors;
 pub use drains::{barron_f, hansbo_mu};
 
-use crate::ground::{self, ClayProps, Node};
+use crate::ground::{self, ClayProps, LogLaw, Node};
 use crate::model::*;
 
 /// One element of a column: between nodes i and i+1, within one layer.
@@ -71,6 +71,40 @@ pub struct Column {
     /// 8/(de² μ(z)) at each node within the drain depth, 0 elsewhere, 1/m².
     pub radial: Vec<f64>,
     pub mode: ConsolidationMode,
+    /// Per node, the ends of the element above and of the element below
+    /// that meet there, as the secant storage pass needs them.
+    ends: Vec<[End; 2]>,
+}
+
+/// The constants of one element end at a node (the bottom of the element
+/// above or the top of the element below), laid out per node so that the
+/// storage pass reads them in order: no element (or sand) is an end of no
+/// length and no compressibility, whose storage is 0.
+#[derive(Debug, Clone, Copy)]
+struct End {
+    /// Half the element's length, m.
+    half_h_m: f64,
+    law: LogLaw,
+    /// log10 σ'v0 and log10 σ'p0 at this end for the element's layer.
+    log_s0: f64,
+    log_sp0: f64,
+}
+
+impl End {
+    const NONE: End = End { half_h_m: 0.0, law: LogLaw::RIGID, log_s0: 0.0, log_sp0: 0.0 };
+
+    /// End `end` (0 top, 1 bottom) of element `el`.
+    fn of(el: &Element, end: usize) -> End {
+        match &el.clay {
+            Some(c) => End {
+                half_h_m: 0.5 * el.h_m,
+                law: LogLaw::of(c),
+                log_s0: el.log_s0[end],
+                log_sp0: el.log_sp0[end],
+            },
+            None => End::NONE,
+        }
+    }
 }
 
 /// Evolving state of one column.
@@ -95,18 +129,19 @@ pub struct ColumnState {
 
 /// Scratch vectors of a column step, kept with the state so that a step
 /// does not allocate. A clone starts empty (the next step sizes it again).
+/// Only `log_smax` (with `smax_logged`) carries over between steps.
 #[derive(Debug, Default)]
 struct Scratch {
     /// K = k/γw per element, m²/(kPa·day).
     k: Vec<f64>,
     /// σ'v at each node at the start of the step (after the load change), kPa.
     s_old: Vec<f64>,
-    /// Per node: log10 σ'max and log10 σ' (at least 1e-3 kPa) at the start
-    /// of the step, and log10 σ' of the trial solution.
+    /// Per node: log10 σ'max, kept from step to step for the σ'max it was
+    /// taken of (`smax_logged`; NaN: none).
     log_smax: Vec<f64>,
-    log_s: Vec<f64>,
-    log_new: Vec<f64>,
-    /// Strain at each element's (top, bottom) end at the start of the step.
+    smax_logged: Vec<f64>,
+    /// Strain at the start of the step at each node's ends (of the element
+    /// above, of the element below).
     eps_old: Vec<[f64; 2]>,
     /// The parts of the tridiagonal system that are the same in every pass
     /// of a step: sub- and super-diagonal, θ(up + down + r) on the
@@ -151,7 +186,14 @@ impl Column {
         }
         let fixed = fixed_nodes(&elements, project.ground.base_drained);
         let radial = radial_factors(project, &nodes, &elements);
-        Column { x_m, nodes, elements, fixed, radial, mode: project.analysis.mode }
+        let ends = (0..nodes.len())
+            .map(|i| {
+                let above = i.checked_sub(1).map_or(End::NONE, |e| End::of(&elements[e], 1));
+                let below = elements.get(i).map_or(End::NONE, |el| End::of(el, 0));
+                [above, below]
+            })
+            .collect();
+        Column { x_m, nodes, elements, fixed, radial, mode: project.analysis.mode, ends }
     }
 
     /// State before any load.
@@ -191,8 +233,9 @@ impl Column {
         ground::su_now(&self.nodes[i], self.sigma_eff(st, i).max(0.1), self.sigma_p(st, i))
     }
 
-    /// Element permeability term K = k/γw, m²/(kPa·day), at the current state.
-    fn conductivity(&self, st: &ColumnState, e: usize) -> f64 {
+    /// Element permeability term K = k/γw, m²/(kPa·day), at the current
+    /// state, whose σ'v at the nodes is `s_eff` kPa.
+    fn conductivity(&self, st: &ColumnState, s_eff: &[f64], e: usize) -> f64 {
         let el = &self.elements[e];
         let Some(c) = el.clay else { return 0.0 };
         match self.mode {
@@ -202,52 +245,26 @@ impl Column {
                 // over-consolidated range: evaluate it on the virgin line at
                 // max(σ', σ'p), so cv is the given value in the normally
                 // consolidated range.
-                let s = 0.5 * (self.sigma_eff(st, e) + self.sigma_eff(st, e + 1));
+                let s = 0.5 * (s_eff[e] + s_eff[e + 1]);
                 let sp = 0.5 * (el.sp0[0].max(st.smax[e]) + el.sp0[1].max(st.smax[e + 1]));
                 c.cv_m2_per_day * ground::mv_virgin(&c, s.max(sp))
             }
         }
     }
 
-    /// Storage mv·h/2 of element e at its end `end` (0 top, 1 bottom). With
-    /// `trial` (the iterate `w.u` of the step's solution) in stress-dependent
-    /// mode, mv is the secant (ε(σ'new) − ε(σ'old)) / (σ'new − σ'old) of the
-    /// e–log σ' law, so that the step conserves volume exactly (the modified
-    /// Picard scheme of Celia, Bouloutas & Zarba 1990); without it, the
-    /// tangent at the start of the step.
-    fn storage(&self, st: &ColumnState, w: &Scratch, e: usize, end: usize, trial: bool) -> f64 {
+    /// Storage mv·h/2 of element e at its end `end` (0 top, 1 bottom) at the
+    /// start of the step: mv the layer's constant in linear mode, else the
+    /// tangent of the e–log σ' law. (The secant of the storage iteration is
+    /// `secant_pass`'s.)
+    fn storage(&self, st: &ColumnState, s_old: &[f64], e: usize, end: usize) -> f64 {
         let el = &self.elements[e];
         let Some(c) = &el.clay else { return 0.0 };
         let i = e + end;
-        let mv = match (self.mode, trial) {
-            (ConsolidationMode::Linear, _) => el.mv_lin,
-            (ConsolidationMode::StressDependent, false) => {
-                ground::mv_tangent(c, w.s_old[i], el.sp0[end].max(st.smax[i]))
-            }
-            (ConsolidationMode::StressDependent, true) => {
-                let s_old = w.s_old[i];
-                let s_new = s_old + st.u[i] - w.u[i];
-                let sp = el.sp0[end].max(st.smax[i]);
-                if (s_new - s_old).abs() < 1e-6 {
-                    ground::mv_tangent(c, s_old, sp)
-                } else {
-                    let l_s = w.log_new[i];
-                    let l_smax = if s_new > st.smax[i] { l_s } else { w.log_smax[i] };
-                    let eps_new = ground::strain_log10(c, el.log_s0[end], el.log_sp0[end], l_smax, l_s);
-                    (eps_new - w.eps_old[e][end]) / (s_new - s_old)
-                }
-            }
+        let mv = match self.mode {
+            ConsolidationMode::Linear => el.mv_lin,
+            ConsolidationMode::StressDependent => ground::mv_tangent(c, s_old[i], el.sp0[end].max(st.smax[i])),
         };
         0.5 * el.h_m * mv
-    }
-
-    /// Strain at end `end` of element e for σ' = `s` (log10 `l_s`) after a
-    /// largest stress with log10 `l_smax` ≥ `l_s` (the e–log σ' law with
-    /// that element's σ'p0).
-    fn strain_at(&self, e: usize, end: usize, l_smax: f64, l_s: f64) -> f64 {
-        let el = &self.elements[e];
-        let Some(c) = el.clay else { return 0.0 };
-        ground::strain_log10(&c, el.log_s0[end], el.log_sp0[end], l_smax, l_s)
     }
 
     /// Apply new total stress increments (generating excess pore pressure by
@@ -328,7 +345,7 @@ impl Column {
             w.u.clear();
             w.u.extend(st.u.iter().zip(&st.du_prev).map(|(u, d)| u + f * d));
         } else {
-            self.solve_pass(st, &mut w, dt, false);
+            self.tangent_pass(st, &mut w, dt);
             w.u.clone_from(&w.d);
         }
         let converged = !stress_dependent || self.iterate(st, &mut w, dt);
@@ -349,14 +366,7 @@ impl Column {
         self.start_strains(st, w);
         let (mut omega, mut prev): (f64, f64) = (1.0, f64::INFINITY);
         for it in 0..PICARD_MAX {
-            // log10 σ' of the trial at each free node, shared by both
-            // elements that meet there.
-            for i in 0..self.nodes.len() {
-                if !self.fixed[i] {
-                    w.log_new[i] = log10((w.s_old[i] + st.u[i] - w.u[i]).max(1e-3));
-                }
-            }
-            self.solve_pass(st, w, dt, true);
+            self.secant_pass(st, w, dt);
             let residual = w.d.iter().zip(&w.u).map(|(a, b)| (a - b).abs()).fold(0.0, f64::max);
             if residual < PICARD_TOL_KPA {
                 std::mem::swap(&mut w.u, &mut w.d);
@@ -379,20 +389,23 @@ impl Column {
 
     /// log10 σ'max, log10 σ' and the strains at the start of the step, the
     /// same in every pass (at free nodes, the only ones with storage).
+    /// log10 σ'max is taken again only where σ'max has moved since it was
+    /// last taken.
     fn start_strains(&self, st: &ColumnState, w: &mut Scratch) {
-        for i in 0..self.nodes.len() {
-            if !self.fixed[i] {
+        let n = self.nodes.len();
+        w.log_smax.resize(n, 0.0);
+        w.smax_logged.resize(n, f64::NAN);
+        for i in 0..n {
+            if self.fixed[i] {
+                continue;
+            }
+            if w.smax_logged[i].to_bits() != st.smax[i].to_bits() {
                 w.log_smax[i] = log10(st.smax[i]);
-                w.log_s[i] = log10(w.s_old[i].max(1e-3));
+                w.smax_logged[i] = st.smax[i];
             }
-        }
-        for (e, eps) in w.eps_old.iter_mut().enumerate() {
-            for (end, eps) in eps.iter_mut().enumerate() {
-                let i = e + end;
-                if !self.fixed[i] {
-                    *eps = self.strain_at(e, end, w.log_smax[i].max(w.log_s[i]), w.log_s[i]);
-                }
-            }
+            let l_s = log10(w.s_old[i].max(1e-3));
+            let l_smax = w.log_smax[i].max(l_s);
+            w.eps_old[i] = self.ends[i].map(|end| end.law.strain_log10(end.log_s0, end.log_sp0, l_smax, l_s));
         }
     }
 
@@ -400,17 +413,14 @@ impl Column {
     /// θ-scheme's tridiagonal system that do not depend on the storage.
     fn prepare(&self, st: &ColumnState, w: &mut Scratch, theta: f64) {
         let (n, ne) = (self.nodes.len(), self.elements.len());
-        w.k.clear();
-        w.k.extend((0..ne).map(|e| self.conductivity(st, e)));
         w.s_old.clear();
         w.s_old.extend((0..n).map(|i| self.sigma_eff(st, i)));
-        for v in [&mut w.log_smax, &mut w.log_s, &mut w.log_new, &mut w.lower, &mut w.upper, &mut w.diag] {
+        w.k.clear();
+        w.k.extend((0..ne).map(|e| self.conductivity(st, &w.s_old, e)));
+        for v in [&mut w.lower, &mut w.upper, &mut w.diag, &mut w.rhs, &mut w.b, &mut w.d] {
             v.resize(n, 0.0);
         }
-        for v in [&mut w.rhs, &mut w.b, &mut w.d] {
-            v.resize(n, 0.0);
-        }
-        w.eps_old.resize(ne, [0.0; 2]);
+        w.eps_old.resize(n, [0.0; 2]);
         let (k, u) = (&w.k, &st.u);
         for i in 0..n {
             if self.fixed[i] {
@@ -436,9 +446,9 @@ impl Column {
         }
     }
 
-    /// Assemble and solve one pass of the θ-step with the storage of
-    /// `storage(…, trial)`; the new u is left in `w.d`.
-    fn solve_pass(&self, st: &ColumnState, w: &mut Scratch, dt: f64, trial: bool) {
+    /// Assemble and solve one pass of the θ-step with the storage at the
+    /// start of the step (`storage`); the new u is left in `w.d`.
+    fn tangent_pass(&self, st: &ColumnState, w: &mut Scratch, dt: f64) {
         let ne = self.elements.len();
         for i in 0..self.nodes.len() {
             if self.fixed[i] {
@@ -447,13 +457,56 @@ impl Column {
             }
             let mut s = 0.0;
             if i > 0 {
-                s += self.storage(st, w, i - 1, 1, trial);
+                s += self.storage(st, &w.s_old, i - 1, 1);
             }
             if i < ne {
-                s += self.storage(st, w, i, 0, trial);
+                s += self.storage(st, &w.s_old, i, 0);
             }
             w.b[i] = s / dt + w.diag[i];
             w.d[i] = s / dt * st.u[i] + w.rhs[i];
+        }
+        thomas(&w.lower, &mut w.b, &w.upper, &mut w.d);
+    }
+
+    /// One pass of the storage iteration (stress-dependent mode): assemble
+    /// the θ-step with the secant storage to the trial `w.u` and solve it;
+    /// the new u is left in `w.d`. The storage of an element end is mv·h/2
+    /// with mv the secant (ε(σ'new) − ε(σ'old)) / (σ'new − σ'old) of the
+    /// e–log σ' law, so that the step conserves volume exactly (the
+    /// modified Picard scheme of Celia, Bouloutas & Zarba 1990); where σ'
+    /// barely moves, the tangent at the start of the step. log10 σ'new is
+    /// taken once per node, for both element ends meeting there.
+    fn secant_pass(&self, st: &ColumnState, w: &mut Scratch, dt: f64) {
+        let n = self.nodes.len();
+        let (fixed, ends, u, smax) = (&self.fixed[..n], &self.ends[..n], &st.u[..n], &st.smax[..n]);
+        let (s_olds, log_smax, eps_old, trial) = (&w.s_old[..n], &w.log_smax[..n], &w.eps_old[..n], &w.u[..n]);
+        let (diag, rhs) = (&w.diag[..n], &w.rhs[..n]);
+        let (b, d) = (&mut w.b[..n], &mut w.d[..n]);
+        for i in 0..n {
+            if fixed[i] {
+                (b[i], d[i]) = (1.0, 0.0);
+                continue;
+            }
+            let s_old = s_olds[i];
+            let s_new = s_old + u[i] - trial[i];
+            let mut s = 0.0;
+            if (s_new - s_old).abs() < 1e-6 {
+                if i > 0 {
+                    s += self.storage(st, s_olds, i - 1, 1);
+                }
+                if i < self.elements.len() {
+                    s += self.storage(st, s_olds, i, 0);
+                }
+            } else {
+                let l_s = log10(s_new.max(1e-3));
+                let l_smax = if s_new > smax[i] { l_s } else { log_smax[i] };
+                for (end, eps_old) in ends[i].iter().zip(eps_old[i]) {
+                    let eps_new = end.law.strain_log10(end.log_s0, end.log_sp0, l_smax, l_s);
+                    s += end.half_h_m * ((eps_new - eps_old) / (s_new - s_old));
+                }
+            }
+            b[i] = s / dt + diag[i];
+            d[i] = s / dt * u[i] + rhs[i];
         }
         thomas(&w.lower, &mut w.b, &w.upper, &mut w.d);
     }

@@ -21,7 +21,8 @@ fn step(col: &Column, st: &mut ColumnState, load: &[Stress], rule: PorePressureR
 }
 
 fn diffuse(col: &Column, st: &mut ColumnState, dt: f64, theta: f64) -> bool {
-    let k: Vec<f64> = (0..col.elements.len()).map(|e| col.conductivity(st, e)).collect();
+    let s_eff: Vec<f64> = (0..col.nodes.len()).map(|i| col.sigma_eff(st, i)).collect();
+    let k: Vec<f64> = (0..col.elements.len()).map(|e| col.conductivity(st, &s_eff, e)).collect();
     let sd = col.mode == ConsolidationMode::StressDependent;
     let mut u: Vec<f64> = if sd && st.du_prev.len() == st.u.len() && st.dt_prev > 0.0 {
         let f = dt / st.dt_prev;
