@@ -78,12 +78,16 @@ pub struct Column {
 
 /// The constants of one element end at a node (the bottom of the element
 /// above or the top of the element below), laid out per node so that the
-/// storage pass reads them in order: no element (or sand) is an end of no
-/// length and no compressibility, whose storage is 0.
+/// step reads them in order: no element (or sand) is an end of no length,
+/// no compressibility and no sink, whose storage is 0.
 #[derive(Debug, Clone, Copy)]
 struct End {
-    /// Half the element's length, m.
+    /// The element's length and half of it, m.
+    h_m: f64,
     half_h_m: f64,
+    /// The radial sink conductance of the half-cell per unit K = k/γw
+    /// (`Column::sink_per_k`), 1/m.
+    sink_per_k: f64,
     law: LogLaw,
     /// log10 σ'v0 and log10 σ'p0 at this end for the element's layer.
     log_s0: f64,
@@ -91,18 +95,21 @@ struct End {
 }
 
 impl End {
-    const NONE: End = End { half_h_m: 0.0, law: LogLaw::RIGID, log_s0: 0.0, log_sp0: 0.0 };
+    const NONE: End = End { h_m: 0.0, half_h_m: 0.0, sink_per_k: 0.0, law: LogLaw::RIGID, log_s0: 0.0, log_sp0: 0.0 };
 
-    /// End `end` (0 top, 1 bottom) of element `el`.
-    fn of(el: &Element, end: usize) -> End {
+    /// End `end` (0 top, 1 bottom) of element `el`, whose radial sink per
+    /// unit K there is `sink_per_k`.
+    fn of(el: &Element, end: usize, sink_per_k: f64) -> End {
         match &el.clay {
             Some(c) => End {
+                h_m: el.h_m,
                 half_h_m: 0.5 * el.h_m,
+                sink_per_k,
                 law: LogLaw::of(c),
                 log_s0: el.log_s0[end],
                 log_sp0: el.log_sp0[end],
             },
-            None => End::NONE,
+            None => End { h_m: el.h_m, ..End::NONE },
         }
     }
 }
@@ -186,14 +193,16 @@ impl Column {
         }
         let fixed = fixed_nodes(&elements, project.ground.base_drained);
         let radial = radial_factors(project, &nodes, &elements);
-        let ends = (0..nodes.len())
+        let mut col = Column { x_m, nodes, elements, fixed, radial, mode: project.analysis.mode, ends: Vec::new() };
+        col.ends = (0..col.nodes.len())
             .map(|i| {
-                let above = i.checked_sub(1).map_or(End::NONE, |e| End::of(&elements[e], 1));
-                let below = elements.get(i).map_or(End::NONE, |el| End::of(el, 0));
+                let end = |e: usize, end: usize| End::of(&col.elements[e], end, col.sink_per_k(e, i));
+                let above = i.checked_sub(1).map_or(End::NONE, |e| end(e, 1));
+                let below = if i < col.elements.len() { end(i, 0) } else { End::NONE };
                 [above, below]
             })
             .collect();
-        Column { x_m, nodes, elements, fixed, radial, mode: project.analysis.mode, ends }
+        col
     }
 
     /// State before any load.
@@ -421,28 +430,30 @@ impl Column {
             v.resize(n, 0.0);
         }
         w.eps_old.resize(n, [0.0; 2]);
-        let (k, u) = (&w.k, &st.u);
+        let (fixed, ends, k, u) = (&self.fixed[..n], &self.ends[..n], &w.k[..ne], &st.u[..n]);
+        let (lower, upper, diag, rhs) = (&mut w.lower[..n], &mut w.upper[..n], &mut w.diag[..n], &mut w.rhs[..n]);
         for i in 0..n {
-            if self.fixed[i] {
-                (w.lower[i], w.upper[i], w.diag[i], w.rhs[i]) = (0.0, 0.0, 1.0, 0.0);
+            if fixed[i] {
+                (lower[i], upper[i], diag[i], rhs[i]) = (0.0, 0.0, 1.0, 0.0);
                 continue;
             }
-            let up = if i > 0 { k[i - 1] / self.elements[i - 1].h_m } else { 0.0 };
-            let down = if i < ne { k[i] / self.elements[i].h_m } else { 0.0 };
-            let mut r = 0.0;
+            let [above, below] = &ends[i];
+            let (mut up, mut down, mut r) = (0.0, 0.0, 0.0);
             if i > 0 {
-                r += self.sink(i - 1, i, k[i - 1]);
+                up = k[i - 1] / above.h_m;
+                r += above.sink_per_k * k[i - 1];
             }
             if i < ne {
-                r += self.sink(i, i, k[i]);
+                down = k[i] / below.h_m;
+                r += below.sink_per_k * k[i];
             }
             let uu = if i > 0 { u[i - 1] } else { 0.0 };
             let ud = if i + 1 < n { u[i + 1] } else { 0.0 };
             let flux = down * (ud - u[i]) - up * (u[i] - uu) - r * u[i];
-            w.lower[i] = -theta * up;
-            w.upper[i] = -theta * down;
-            w.diag[i] = theta * (up + down + r);
-            w.rhs[i] = (1.0 - theta) * flux;
+            lower[i] = -theta * up;
+            upper[i] = -theta * down;
+            diag[i] = theta * (up + down + r);
+            rhs[i] = (1.0 - theta) * flux;
         }
     }
 
@@ -511,9 +522,9 @@ impl Column {
         thomas(&w.lower, &mut w.b, &w.upper, &mut w.d);
     }
 
-    /// Radial sink conductance of element e's half-cell at node i, given the
-    /// element's K = k/γw.
-    fn sink(&self, e: usize, i: usize, k: f64) -> f64 {
+    /// Radial sink conductance of element e's half-cell at node i per unit
+    /// K = k/γw of the element, 1/m.
+    fn sink_per_k(&self, e: usize, i: usize) -> f64 {
         if self.radial[i] == 0.0 {
             return 0.0;
         }
@@ -521,7 +532,7 @@ impl Column {
         let Some(c) = el.clay else { return 0.0 };
         // ch_eff = (ch/cv)·K/mv, so the sink per unit area is (h/2)·λ·mv =
         // (h/2)·8/(de²μ)·(ch/cv)·K, independent of mv.
-        0.5 * el.h_m * self.radial[i] * (c.ch_m2_per_day / c.cv_m2_per_day) * k
+        0.5 * el.h_m * self.radial[i] * (c.ch_m2_per_day / c.cv_m2_per_day)
     }
 
     /// Settlement of the column, m (positive down).
@@ -552,7 +563,10 @@ impl Column {
                     ConsolidationMode::Linear => el.mv_lin * (se - self.nodes[i].sigma_v0_eff_kpa),
                     ConsolidationMode::StressDependent => {
                         if logs.0 != i {
-                            logs = (i, log10(st.smax[i].max(se)), log10(se.max(1e-3)));
+                            // Where σ' has just set σ'max (loading), the
+                            // two logarithms are of the same number.
+                            let (l_s, smax) = (log10(se.max(1e-3)), st.smax[i].max(se));
+                            logs = (i, if smax == se.max(1e-3) { l_s } else { log10(smax) }, l_s);
                         }
                         ground::strain_log10(c, el.log_s0[end], el.log_sp0[end], logs.1, logs.2)
                     }

@@ -95,12 +95,12 @@ fn solve(col: &Column, st: &ColumnState, k: &[f64], dt: f64, theta: f64, u_new: 
         if i > 0 {
             up = k[i - 1] / col.elements[i - 1].h_m;
             s += storage(col, st, i - 1, 1, u_new);
-            r += col.sink(i - 1, i, k[i - 1]);
+            r += col.sink_per_k(i - 1, i) * k[i - 1];
         }
         if i + 1 < n {
             down = k[i] / col.elements[i].h_m;
             s += storage(col, st, i, 0, u_new);
-            r += col.sink(i, i, k[i]);
+            r += col.sink_per_k(i, i) * k[i];
         }
         let uu = if i > 0 { u[i - 1] } else { 0.0 };
         let ud = if i + 1 < n { u[i + 1] } else { 0.0 };
