@@ -157,8 +157,8 @@ struct Scratch {
     upper: Vec<f64>,
     diag: Vec<f64>,
     rhs: Vec<f64>,
-    /// Diagonal and right-hand side of one pass; the solution replaces `d`.
-    b: Vec<f64>,
+    /// The reciprocal pivots of one pass's elimination, and its solution.
+    inv: Vec<f64>,
     d: Vec<f64>,
     /// The storage iteration's current iterate of u at the end of the step.
     u: Vec<f64>,
@@ -399,7 +399,12 @@ impl Column {
     /// log10 σ'max, log10 σ' and the strains at the start of the step, the
     /// same in every pass (at free nodes, the only ones with storage).
     /// log10 σ'max is taken again only where σ'max has moved since it was
-    /// last taken.
+    /// last taken; where it moved to the σ' at the start of this step but
+    /// for round-off (a node still loading: the end of the last step under
+    /// the load change's Δu = Δσz), as log10 σ' + x log10 e, the first term
+    /// of ln(1 + x) with x = σ'max/σ' − 1, |x| < 1e-9: the terms left out,
+    /// below x²/2 < 5e-19, are far smaller than the logarithm's own
+    /// rounding.
     fn start_strains(&self, st: &ColumnState, w: &mut Scratch) {
         let n = self.nodes.len();
         w.log_smax.resize(n, 0.0);
@@ -408,11 +413,15 @@ impl Column {
             if self.fixed[i] {
                 continue;
             }
-            if w.smax_logged[i].to_bits() != st.smax[i].to_bits() {
-                w.log_smax[i] = log10(st.smax[i]);
-                w.smax_logged[i] = st.smax[i];
+            let s_old = w.s_old[i];
+            let l_s = log10(s_old.max(1e-3));
+            let smax = st.smax[i];
+            if w.smax_logged[i].to_bits() != smax.to_bits() {
+                let x = (smax - s_old) / s_old;
+                w.log_smax[i] =
+                    if s_old >= 1e-3 && x.abs() < 1e-9 { l_s + x * std::f64::consts::LOG10_E } else { log10(smax) };
+                w.smax_logged[i] = smax;
             }
-            let l_s = log10(w.s_old[i].max(1e-3));
             let l_smax = w.log_smax[i].max(l_s);
             w.eps_old[i] = self.ends[i].map(|end| end.law.strain_log10(end.log_s0, end.log_sp0, l_smax, l_s));
         }
@@ -426,7 +435,7 @@ impl Column {
         w.s_old.extend((0..n).map(|i| self.sigma_eff(st, i)));
         w.k.clear();
         w.k.extend((0..ne).map(|e| self.conductivity(st, &w.s_old, e)));
-        for v in [&mut w.lower, &mut w.upper, &mut w.diag, &mut w.rhs, &mut w.b, &mut w.d] {
+        for v in [&mut w.lower, &mut w.upper, &mut w.diag, &mut w.rhs, &mut w.inv, &mut w.d] {
             v.resize(n, 0.0);
         }
         w.eps_old.resize(n, [0.0; 2]);
@@ -461,22 +470,21 @@ impl Column {
     /// start of the step (`storage`); the new u is left in `w.d`.
     fn tangent_pass(&self, st: &ColumnState, w: &mut Scratch, dt: f64) {
         let ne = self.elements.len();
-        for i in 0..self.nodes.len() {
+        let Scratch { s_old, lower, upper, diag, rhs, inv, d, .. } = w;
+        let row = |i: usize| {
             if self.fixed[i] {
-                (w.b[i], w.d[i]) = (1.0, 0.0);
-                continue;
+                return (1.0, 0.0);
             }
             let mut s = 0.0;
             if i > 0 {
-                s += self.storage(st, &w.s_old, i - 1, 1);
+                s += self.storage(st, s_old, i - 1, 1);
             }
             if i < ne {
-                s += self.storage(st, &w.s_old, i, 0);
+                s += self.storage(st, s_old, i, 0);
             }
-            w.b[i] = s / dt + w.diag[i];
-            w.d[i] = s / dt * st.u[i] + w.rhs[i];
-        }
-        thomas(&w.lower, &mut w.b, &w.upper, &mut w.d);
+            (s / dt + diag[i], s / dt * st.u[i] + rhs[i])
+        };
+        thomas(lower, upper, row, inv, d);
     }
 
     /// One pass of the storage iteration (stress-dependent mode): assemble
@@ -490,13 +498,12 @@ impl Column {
     fn secant_pass(&self, st: &ColumnState, w: &mut Scratch, dt: f64) {
         let n = self.nodes.len();
         let (fixed, ends, u, smax) = (&self.fixed[..n], &self.ends[..n], &st.u[..n], &st.smax[..n]);
-        let (s_olds, log_smax, eps_old, trial) = (&w.s_old[..n], &w.log_smax[..n], &w.eps_old[..n], &w.u[..n]);
-        let (diag, rhs) = (&w.diag[..n], &w.rhs[..n]);
-        let (b, d) = (&mut w.b[..n], &mut w.d[..n]);
-        for i in 0..n {
+        let Scratch { s_old, log_smax, eps_old, u: trial, lower, upper, diag, rhs, inv, d, .. } = w;
+        let (s_olds, log_smax, eps_old, trial) = (&s_old[..n], &log_smax[..n], &eps_old[..n], &trial[..n]);
+        let (diag, rhs) = (&diag[..n], &rhs[..n]);
+        let row = |i: usize| {
             if fixed[i] {
-                (b[i], d[i]) = (1.0, 0.0);
-                continue;
+                return (1.0, 0.0);
             }
             let s_old = s_olds[i];
             let s_new = s_old + u[i] - trial[i];
@@ -516,10 +523,9 @@ impl Column {
                     s += end.half_h_m * ((eps_new - eps_old) / (s_new - s_old));
                 }
             }
-            b[i] = s / dt + diag[i];
-            d[i] = s / dt * u[i] + rhs[i];
-        }
-        thomas(&w.lower, &mut w.b, &w.upper, &mut w.d);
+            (s / dt + diag[i], s / dt * u[i] + rhs[i])
+        };
+        thomas(lower, upper, row, inv, d);
     }
 
     /// Radial sink conductance of element e's half-cell at node i per unit
@@ -646,17 +652,30 @@ fn fixed_nodes(elements: &[Element], base_drained: bool) -> Vec<bool> {
     fixed
 }
 
-/// Thomas algorithm for a tridiagonal system; the solution replaces `d`.
-fn thomas(a: &[f64], b: &mut [f64], c: &[f64], d: &mut [f64]) {
-    let n = d.len();
-    for i in 1..n {
-        let w = a[i] / b[i - 1];
-        b[i] -= w * c[i - 1];
-        d[i] -= w * d[i - 1];
+/// Thomas algorithm for a tridiagonal system of n = `x.len()` rows with
+/// sub-diagonal `a` and super-diagonal `c`: `row(i)` gives row i's diagonal
+/// and right-hand side as the elimination reaches it (so that assembling
+/// the next row overlaps with eliminating this one), `inv` keeps the
+/// reciprocal pivots for the back substitution (a multiplication per row
+/// instead of a division, which would wait on the row below); the
+/// solution is left in `x`. Inlined, so that the passes' row assembly is
+/// compiled into the elimination loop.
+#[inline(always)]
+fn thomas(a: &[f64], c: &[f64], mut row: impl FnMut(usize) -> (f64, f64), inv: &mut [f64], x: &mut [f64]) {
+    let n = x.len();
+    let (a, c, inv) = (&a[..n], &c[..n], &mut inv[..n]);
+    // The row above the first: nothing to eliminate (w = 0).
+    let (mut inv_above, mut c_above, mut x_above) = (0.0, 0.0, 0.0);
+    for i in 0..n {
+        let (b, d) = row(i);
+        let w = a[i] * inv_above;
+        inv[i] = 1.0 / (b - w * c_above);
+        x[i] = d - w * x_above;
+        (inv_above, c_above, x_above) = (inv[i], c[i], x[i]);
     }
-    d[n - 1] /= b[n - 1];
+    x[n - 1] *= inv[n - 1];
     for i in (0..n - 1).rev() {
-        d[i] = (d[i] - c[i] * d[i + 1]) / b[i];
+        x[i] = (x[i] - c[i] * x[i + 1]) * inv[i];
     }
 }
 

@@ -110,8 +110,9 @@ fn solve(col: &Column, st: &ColumnState, k: &[f64], dt: f64, theta: f64, u_new: 
         b[i] = s / dt + theta * (up + down + r);
         d[i] = s / dt * u[i] + (1.0 - theta) * flux;
     }
-    thomas(&a, &mut b, &c, &mut d);
-    d
+    let (mut inv, mut x) = (vec![0.0; n], vec![0.0; n]);
+    thomas(&a, &c, |i| (b[i], d[i]), &mut inv, &mut x);
+    x
 }
 
 /// Settlement summed plainly with `ground::strain`, m.
