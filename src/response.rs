@@ -49,7 +49,8 @@ impl Geometry {
             reinforcement_kn_per_m: 0.0,
             ..project.embankment.clone()
         };
-        let columns = columns.iter().map(|c| (c.x_m.to_bits(), c.nodes.iter().map(|n| n.z_m.to_bits()).collect())).collect();
+        let columns =
+            columns.iter().map(|c| (c.x_m.to_bits(), c.nodes.iter().map(|n| n.z_m.to_bits()).collect())).collect();
         Geometry { embankment, columns }
     }
 }
