@@ -136,7 +136,8 @@ pub struct ColumnState {
 
 /// Scratch vectors of a column step, kept with the state so that a step
 /// does not allocate. A clone starts empty (the next step sizes it again).
-/// Only `log_smax` (with `smax_logged`) carries over between steps.
+/// Only `log_smax` (with `smax_logged`) and, in linear mode, the last
+/// factorisation (`inv` with `factored`) carry over between steps.
 #[derive(Debug, Default)]
 struct Scratch {
     /// K = k/γw per element, m²/(kPa·day).
@@ -160,6 +161,12 @@ struct Scratch {
     /// The reciprocal pivots of one pass's elimination, and its solution.
     inv: Vec<f64>,
     d: Vec<f64>,
+    /// Linear mode: the matrix that `inv` factorises (sub-diagonal,
+    /// super-diagonal, diagonal; empty: none).
+    factored: Vec<f64>,
+    /// The tangent pass's diagonal and right-hand side.
+    row_b: Vec<f64>,
+    row_d: Vec<f64>,
     /// The storage iteration's current iterate of u at the end of the step.
     u: Vec<f64>,
 }
@@ -467,24 +474,39 @@ impl Column {
     }
 
     /// Assemble and solve one pass of the θ-step with the storage at the
-    /// start of the step (`storage`); the new u is left in `w.d`.
+    /// start of the step (`storage`); the new u is left in `w.d`. In linear
+    /// mode the matrix depends on the step length and θ alone, so from one
+    /// step to the next it is usually the same: where it equals the one
+    /// last factorised (compared exactly), that factorisation is reused.
     fn tangent_pass(&self, st: &ColumnState, w: &mut Scratch, dt: f64) {
         let ne = self.elements.len();
-        let Scratch { s_old, lower, upper, diag, rhs, inv, d, .. } = w;
-        let row = |i: usize| {
-            if self.fixed[i] {
-                return (1.0, 0.0);
-            }
-            let mut s = 0.0;
-            if i > 0 {
-                s += self.storage(st, s_old, i - 1, 1);
-            }
-            if i < ne {
-                s += self.storage(st, s_old, i, 0);
-            }
-            (s / dt + diag[i], s / dt * st.u[i] + rhs[i])
-        };
-        thomas(lower, upper, row, inv, d);
+        let Scratch { s_old, lower, upper, diag, rhs, inv, d, factored, row_b, row_d, .. } = w;
+        row_b.clear();
+        row_d.clear();
+        for i in 0..self.nodes.len() {
+            let (b, rhs) = if self.fixed[i] {
+                (1.0, 0.0)
+            } else {
+                let mut s = 0.0;
+                if i > 0 {
+                    s += self.storage(st, s_old, i - 1, 1);
+                }
+                if i < ne {
+                    s += self.storage(st, s_old, i, 0);
+                }
+                (s / dt + diag[i], s / dt * st.u[i] + rhs[i])
+            };
+            row_b.push(b);
+            row_d.push(rhs);
+        }
+        let linear = self.mode == ConsolidationMode::Linear;
+        let matrix = || lower.iter().chain(upper.iter()).chain(row_b.iter());
+        let reuse = linear && factored.len() == 3 * row_b.len() && factored.iter().eq(matrix());
+        thomas(lower, upper, |i| (row_b[i], row_d[i]), !reuse, inv, d);
+        if linear && !reuse {
+            factored.clear();
+            factored.extend(matrix());
+        }
     }
 
     /// One pass of the storage iteration (stress-dependent mode): assemble
@@ -498,7 +520,9 @@ impl Column {
     fn secant_pass(&self, st: &ColumnState, w: &mut Scratch, dt: f64) {
         let n = self.nodes.len();
         let (fixed, ends, u, smax) = (&self.fixed[..n], &self.ends[..n], &st.u[..n], &st.smax[..n]);
-        let Scratch { s_old, log_smax, eps_old, u: trial, lower, upper, diag, rhs, inv, d, .. } = w;
+        let Scratch { s_old, log_smax, eps_old, u: trial, lower, upper, diag, rhs, inv, d, factored, .. } = w;
+        // `inv` is about to factorise another matrix.
+        factored.clear();
         let (s_olds, log_smax, eps_old, trial) = (&s_old[..n], &log_smax[..n], &eps_old[..n], &trial[..n]);
         let (diag, rhs) = (&diag[..n], &rhs[..n]);
         let row = |i: usize| {
@@ -525,7 +549,7 @@ impl Column {
             }
             (s / dt + diag[i], s / dt * u[i] + rhs[i])
         };
-        thomas(lower, upper, row, inv, d);
+        thomas(lower, upper, row, true, inv, d);
     }
 
     /// Radial sink conductance of element e's half-cell at node i per unit
@@ -658,10 +682,19 @@ fn fixed_nodes(elements: &[Element], base_drained: bool) -> Vec<bool> {
 /// the next row overlaps with eliminating this one), `inv` keeps the
 /// reciprocal pivots for the back substitution (a multiplication per row
 /// instead of a division, which would wait on the row below); the
-/// solution is left in `x`. Inlined, so that the passes' row assembly is
+/// solution is left in `x`. Without `factorise`, `inv` already holds the
+/// reciprocal pivots of this matrix (the diagonals from `row` are then not
+/// used): the same arithmetic on the right-hand side, so the same bits. Inlined, so that the passes' row assembly is
 /// compiled into the elimination loop.
 #[inline(always)]
-fn thomas(a: &[f64], c: &[f64], mut row: impl FnMut(usize) -> (f64, f64), inv: &mut [f64], x: &mut [f64]) {
+fn thomas(
+    a: &[f64],
+    c: &[f64],
+    mut row: impl FnMut(usize) -> (f64, f64),
+    factorise: bool,
+    inv: &mut [f64],
+    x: &mut [f64],
+) {
     let n = x.len();
     let (a, c, inv) = (&a[..n], &c[..n], &mut inv[..n]);
     // The row above the first: nothing to eliminate (w = 0).
@@ -669,7 +702,9 @@ fn thomas(a: &[f64], c: &[f64], mut row: impl FnMut(usize) -> (f64, f64), inv: &
     for i in 0..n {
         let (b, d) = row(i);
         let w = a[i] * inv_above;
-        inv[i] = 1.0 / (b - w * c_above);
+        if factorise {
+            inv[i] = 1.0 / (b - w * c_above);
+        }
         x[i] = d - w * x_above;
         (inv_above, c_above, x_above) = (inv[i], c[i], x[i]);
     }

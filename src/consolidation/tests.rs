@@ -59,9 +59,16 @@ fn thomas_solves_small_system() {
     let c = [-1.0, -1.0, 0.0];
     let d = [1.0, 0.0, 1.0];
     let (mut inv, mut x) = ([0.0; 3], [0.0; 3]);
-    thomas(&a, &c, |i| (b[i], d[i]), &mut inv, &mut x);
+    thomas(&a, &c, |i| (b[i], d[i]), true, &mut inv, &mut x);
     for x in x {
         assert!((x - 1.0).abs() < 1e-12);
+    }
+    // The same matrix again, by the kept reciprocal pivots (the diagonal
+    // passed is then unused: NaN here): A [1 2 3] = [0 0 4] (hand).
+    let d = [0.0, 0.0, 4.0];
+    thomas(&a, &c, |i| (f64::NAN, d[i]), false, &mut inv, &mut x);
+    for (x, want) in x.iter().zip([1.0, 2.0, 3.0]) {
+        assert!((x - want).abs() < 1e-12, "{x} vs {want}");
     }
 }
 
