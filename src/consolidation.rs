@@ -540,12 +540,15 @@ impl Column {
                     s += self.storage(st, s_olds, i, 0);
                 }
             } else {
+                // Σ (h/2)·Δε over the two ends, over the one Δσ'.
                 let l_s = log10(s_new.max(1e-3));
                 let l_smax = if s_new > smax[i] { l_s } else { log_smax[i] };
+                let mut compression = 0.0;
                 for (end, eps_old) in ends[i].iter().zip(eps_old[i]) {
                     let eps_new = end.law.strain_log10(end.log_s0, end.log_sp0, l_smax, l_s);
-                    s += end.half_h_m * ((eps_new - eps_old) / (s_new - s_old));
+                    compression += end.half_h_m * (eps_new - eps_old);
                 }
+                s = compression / (s_new - s_old);
             }
             (s / dt + diag[i], s / dt * u[i] + rhs[i])
         };

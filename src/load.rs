@@ -31,10 +31,11 @@ impl Stress {
 }
 
 /// The ray from (x, z) to a surface point ξ: its angle θ from the vertical,
-/// θ = atan2(x − ξ, z), with sin θ and cos θ, the quantities the strip
-/// solutions take at each end of a strip. A profile's adjacent pieces share
-/// their vertex's ray, so `stress` takes one `atan2` and one `sin_cos` per
-/// vertex instead of per strip and end.
+/// θ = atan2(x − ξ, z), with sin θ = (x − ξ)/r and cos θ = z/r, r the
+/// ray's length, the quantities the strip solutions take at each end of a
+/// strip. A profile's adjacent pieces share their vertex's ray, so
+/// `stress` takes one `atan2` and one square root per vertex instead of
+/// an `atan2` and a `sin_cos` per strip and end.
 #[derive(Debug, Clone, Copy)]
 struct Ray {
     t: f64,
@@ -45,9 +46,9 @@ struct Ray {
 impl Ray {
     /// The ray to ξ = `a` from (x, z), z > 0.
     fn new(a: f64, x: f64, z: f64) -> Ray {
-        let t = (x - a).atan2(z);
-        let (sin, cos) = t.sin_cos();
-        Ray { t, sin, cos }
+        let dx = x - a;
+        let r = (dx * dx + z * z).sqrt();
+        Ray { t: dx.atan2(z), sin: dx / r, cos: z / r }
     }
 }
 
@@ -323,8 +324,9 @@ mod tests {
         assert!((s - 0.455).abs() < 0.002, "I = {s}");
     }
 
-    /// CONSISTENCY check of `stress` (each vertex's ray taken once, the
-    /// angle sums by the angle-sum formulas) against the plain sum written
+    /// CONSISTENCY check of `stress` (each vertex's ray taken once, its sine
+    /// and cosine from its length, the angle sums by the angle-sum
+    /// formulas) against the plain sum written
     /// here of Poulos & Davis's (1974) uniform strip, with sin and cos of
     /// α and θa + θb from the library, and `rising_strip`, over every piece
     /// and its mirror image (the strips themselves are checked against
