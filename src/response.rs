@@ -2,8 +2,11 @@
 //! half-width (centreline, crest edge, mid-slope, toe and beyond), loaded by
 //! the embankment's elastic stress increments as the fill rises, with the
 //! settlement make-up fill and the buoyancy of fill that settles below the
-//! water table both part of the load. It owns the evolving `State` and the
-//! strength field the stability engine samples.
+//! water table both part of the load. It owns the evolving `State`, the
+//! strength field the stability engine samples, and the elastic stress
+//! tables per geometry (`load::stress` at every node for each 0.25 m of
+//! fill, interpolated between), kept for the whole process so that every
+//! engine of one geometry shares them.
 
 use crate::consolidation::{Column, ColumnState};
 use crate::ground::{self, Node};
