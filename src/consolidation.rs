@@ -22,7 +22,7 @@ mod drains;
 use drains::radial_factors;
 pub use drains::{barron_f, hansbo_mu};
 
-use crate::ground::{self, ClayProps, Node};
+use crate::ground::{self, ClayProps, LogLaw, Node};
 use crate::model::*;
 
 /// One element of a column: between nodes i and i+1, within one layer.
@@ -71,6 +71,47 @@ pub struct Column {
     /// 8/(de² μ(z)) at each node within the drain depth, 0 elsewhere, 1/m².
     pub radial: Vec<f64>,
     pub mode: ConsolidationMode,
+    /// Per node, the ends of the element above and of the element below
+    /// that meet there, as the secant storage pass needs them.
+    ends: Vec<[End; 2]>,
+}
+
+/// The constants of one element end at a node (the bottom of the element
+/// above or the top of the element below), laid out per node so that the
+/// step reads them in order: no element (or sand) is an end of no length,
+/// no compressibility and no sink, whose storage is 0.
+#[derive(Debug, Clone, Copy)]
+struct End {
+    /// The element's length and half of it, m.
+    h_m: f64,
+    half_h_m: f64,
+    /// The radial sink conductance of the half-cell per unit K = k/γw
+    /// (`Column::sink_per_k`), 1/m.
+    sink_per_k: f64,
+    law: LogLaw,
+    /// log10 σ'v0 and log10 σ'p0 at this end for the element's layer.
+    log_s0: f64,
+    log_sp0: f64,
+}
+
+impl End {
+    const NONE: End = End { h_m: 0.0, half_h_m: 0.0, sink_per_k: 0.0, law: LogLaw::RIGID, log_s0: 0.0, log_sp0: 0.0 };
+
+    /// End `end` (0 top, 1 bottom) of element `el`, whose radial sink per
+    /// unit K there is `sink_per_k`.
+    fn of(el: &Element, end: usize, sink_per_k: f64) -> End {
+        match &el.clay {
+            Some(c) => End {
+                h_m: el.h_m,
+                half_h_m: 0.5 * el.h_m,
+                sink_per_k,
+                law: LogLaw::of(c),
+                log_s0: el.log_s0[end],
+                log_sp0: el.log_sp0[end],
+            },
+            None => End { h_m: el.h_m, ..End::NONE },
+        }
+    }
 }
 
 /// Evolving state of one column.
@@ -95,18 +136,20 @@ pub struct ColumnState {
 
 /// Scratch vectors of a column step, kept with the state so that a step
 /// does not allocate. A clone starts empty (the next step sizes it again).
+/// Only `log_smax` (with `smax_logged`) and, in linear mode, the last
+/// factorisation (`inv` with `factored`) carry over between steps.
 #[derive(Debug, Default)]
 struct Scratch {
     /// K = k/γw per element, m²/(kPa·day).
     k: Vec<f64>,
     /// σ'v at each node at the start of the step (after the load change), kPa.
     s_old: Vec<f64>,
-    /// Per node: log10 σ'max and log10 σ' (at least 1e-3 kPa) at the start
-    /// of the step, and log10 σ' of the trial solution.
+    /// Per node: log10 σ'max, kept from step to step for the σ'max it was
+    /// taken of (`smax_logged`; NaN: none).
     log_smax: Vec<f64>,
-    log_s: Vec<f64>,
-    log_new: Vec<f64>,
-    /// Strain at each element's (top, bottom) end at the start of the step.
+    smax_logged: Vec<f64>,
+    /// Strain at the start of the step at each node's ends (of the element
+    /// above, of the element below).
     eps_old: Vec<[f64; 2]>,
     /// The parts of the tridiagonal system that are the same in every pass
     /// of a step: sub- and super-diagonal, θ(up + down + r) on the
@@ -115,9 +158,15 @@ struct Scratch {
     upper: Vec<f64>,
     diag: Vec<f64>,
     rhs: Vec<f64>,
-    /// Diagonal and right-hand side of one pass; the solution replaces `d`.
-    b: Vec<f64>,
+    /// The reciprocal pivots of one pass's elimination, and its solution.
+    inv: Vec<f64>,
     d: Vec<f64>,
+    /// Linear mode: the matrix that `inv` factorises (sub-diagonal,
+    /// super-diagonal, diagonal; empty: none).
+    factored: Vec<f64>,
+    /// The tangent pass's diagonal and right-hand side.
+    row_b: Vec<f64>,
+    row_d: Vec<f64>,
     /// The storage iteration's current iterate of u at the end of the step.
     u: Vec<f64>,
 }
@@ -151,7 +200,16 @@ impl Column {
         }
         let fixed = fixed_nodes(&elements, project.ground.base_drained);
         let radial = radial_factors(project, &nodes, &elements);
-        Column { x_m, nodes, elements, fixed, radial, mode: project.analysis.mode }
+        let mut col = Column { x_m, nodes, elements, fixed, radial, mode: project.analysis.mode, ends: Vec::new() };
+        col.ends = (0..col.nodes.len())
+            .map(|i| {
+                let end = |e: usize, end: usize| End::of(&col.elements[e], end, col.sink_per_k(e, i));
+                let above = i.checked_sub(1).map_or(End::NONE, |e| end(e, 1));
+                let below = if i < col.elements.len() { end(i, 0) } else { End::NONE };
+                [above, below]
+            })
+            .collect();
+        col
     }
 
     /// State before any load.
@@ -191,8 +249,9 @@ impl Column {
         ground::su_now(&self.nodes[i], self.sigma_eff(st, i).max(0.1), self.sigma_p(st, i))
     }
 
-    /// Element permeability term K = k/γw, m²/(kPa·day), at the current state.
-    fn conductivity(&self, st: &ColumnState, e: usize) -> f64 {
+    /// Element permeability term K = k/γw, m²/(kPa·day), at the current
+    /// state, whose σ'v at the nodes is `s_eff` kPa.
+    fn conductivity(&self, st: &ColumnState, s_eff: &[f64], e: usize) -> f64 {
         let el = &self.elements[e];
         let Some(c) = el.clay else { return 0.0 };
         match self.mode {
@@ -202,52 +261,26 @@ impl Column {
                 // over-consolidated range: evaluate it on the virgin line at
                 // max(σ', σ'p), so cv is the given value in the normally
                 // consolidated range.
-                let s = 0.5 * (self.sigma_eff(st, e) + self.sigma_eff(st, e + 1));
+                let s = 0.5 * (s_eff[e] + s_eff[e + 1]);
                 let sp = 0.5 * (el.sp0[0].max(st.smax[e]) + el.sp0[1].max(st.smax[e + 1]));
                 c.cv_m2_per_day * ground::mv_virgin(&c, s.max(sp))
             }
         }
     }
 
-    /// Storage mv·h/2 of element e at its end `end` (0 top, 1 bottom). With
-    /// `trial` (the iterate `w.u` of the step's solution) in stress-dependent
-    /// mode, mv is the secant (ε(σ'new) − ε(σ'old)) / (σ'new − σ'old) of the
-    /// e–log σ' law, so that the step conserves volume exactly (the modified
-    /// Picard scheme of Celia, Bouloutas & Zarba 1990); without it, the
-    /// tangent at the start of the step.
-    fn storage(&self, st: &ColumnState, w: &Scratch, e: usize, end: usize, trial: bool) -> f64 {
+    /// Storage mv·h/2 of element e at its end `end` (0 top, 1 bottom) at the
+    /// start of the step: mv the layer's constant in linear mode, else the
+    /// tangent of the e–log σ' law. (The secant of the storage iteration is
+    /// `secant_pass`'s.)
+    fn storage(&self, st: &ColumnState, s_old: &[f64], e: usize, end: usize) -> f64 {
         let el = &self.elements[e];
         let Some(c) = &el.clay else { return 0.0 };
         let i = e + end;
-        let mv = match (self.mode, trial) {
-            (ConsolidationMode::Linear, _) => el.mv_lin,
-            (ConsolidationMode::StressDependent, false) => {
-                ground::mv_tangent(c, w.s_old[i], el.sp0[end].max(st.smax[i]))
-            }
-            (ConsolidationMode::StressDependent, true) => {
-                let s_old = w.s_old[i];
-                let s_new = s_old + st.u[i] - w.u[i];
-                let sp = el.sp0[end].max(st.smax[i]);
-                if (s_new - s_old).abs() < 1e-6 {
-                    ground::mv_tangent(c, s_old, sp)
-                } else {
-                    let l_s = w.log_new[i];
-                    let l_smax = if s_new > st.smax[i] { l_s } else { w.log_smax[i] };
-                    let eps_new = ground::strain_log10(c, el.log_s0[end], el.log_sp0[end], l_smax, l_s);
-                    (eps_new - w.eps_old[e][end]) / (s_new - s_old)
-                }
-            }
+        let mv = match self.mode {
+            ConsolidationMode::Linear => el.mv_lin,
+            ConsolidationMode::StressDependent => ground::mv_tangent(c, s_old[i], el.sp0[end].max(st.smax[i])),
         };
         0.5 * el.h_m * mv
-    }
-
-    /// Strain at end `end` of element e for σ' = `s` (log10 `l_s`) after a
-    /// largest stress with log10 `l_smax` ≥ `l_s` (the e–log σ' law with
-    /// that element's σ'p0).
-    fn strain_at(&self, e: usize, end: usize, l_smax: f64, l_s: f64) -> f64 {
-        let el = &self.elements[e];
-        let Some(c) = el.clay else { return 0.0 };
-        ground::strain_log10(&c, el.log_s0[end], el.log_sp0[end], l_smax, l_s)
     }
 
     /// Apply new total stress increments (generating excess pore pressure by
@@ -328,7 +361,7 @@ impl Column {
             w.u.clear();
             w.u.extend(st.u.iter().zip(&st.du_prev).map(|(u, d)| u + f * d));
         } else {
-            self.solve_pass(st, &mut w, dt, false);
+            self.tangent_pass(st, &mut w, dt);
             w.u.clone_from(&w.d);
         }
         let converged = !stress_dependent || self.iterate(st, &mut w, dt);
@@ -349,14 +382,7 @@ impl Column {
         self.start_strains(st, w);
         let (mut omega, mut prev): (f64, f64) = (1.0, f64::INFINITY);
         for it in 0..PICARD_MAX {
-            // log10 σ' of the trial at each free node, shared by both
-            // elements that meet there.
-            for i in 0..self.nodes.len() {
-                if !self.fixed[i] {
-                    w.log_new[i] = log10((w.s_old[i] + st.u[i] - w.u[i]).max(1e-3));
-                }
-            }
-            self.solve_pass(st, w, dt, true);
+            self.secant_pass(st, w, dt);
             let residual = w.d.iter().zip(&w.u).map(|(a, b)| (a - b).abs()).fold(0.0, f64::max);
             if residual < PICARD_TOL_KPA {
                 std::mem::swap(&mut w.u, &mut w.d);
@@ -379,20 +405,32 @@ impl Column {
 
     /// log10 σ'max, log10 σ' and the strains at the start of the step, the
     /// same in every pass (at free nodes, the only ones with storage).
+    /// log10 σ'max is taken again only where σ'max has moved since it was
+    /// last taken; where it moved to the σ' at the start of this step but
+    /// for round-off (a node still loading: the end of the last step under
+    /// the load change's Δu = Δσz), as log10 σ' + x log10 e, the first term
+    /// of ln(1 + x) with x = σ'max/σ' − 1, |x| < 1e-9: the terms left out,
+    /// below x²/2 < 5e-19, are far smaller than the logarithm's own
+    /// rounding.
     fn start_strains(&self, st: &ColumnState, w: &mut Scratch) {
-        for i in 0..self.nodes.len() {
-            if !self.fixed[i] {
-                w.log_smax[i] = log10(st.smax[i]);
-                w.log_s[i] = log10(w.s_old[i].max(1e-3));
+        let n = self.nodes.len();
+        w.log_smax.resize(n, 0.0);
+        w.smax_logged.resize(n, f64::NAN);
+        for i in 0..n {
+            if self.fixed[i] {
+                continue;
             }
-        }
-        for (e, eps) in w.eps_old.iter_mut().enumerate() {
-            for (end, eps) in eps.iter_mut().enumerate() {
-                let i = e + end;
-                if !self.fixed[i] {
-                    *eps = self.strain_at(e, end, w.log_smax[i].max(w.log_s[i]), w.log_s[i]);
-                }
+            let s_old = w.s_old[i];
+            let l_s = log10(s_old.max(1e-3));
+            let smax = st.smax[i];
+            if w.smax_logged[i].to_bits() != smax.to_bits() {
+                let x = (smax - s_old) / s_old;
+                w.log_smax[i] =
+                    if s_old >= 1e-3 && x.abs() < 1e-9 { l_s + x * std::f64::consts::LOG10_E } else { log10(smax) };
+                w.smax_logged[i] = smax;
             }
+            let l_smax = w.log_smax[i].max(l_s);
+            w.eps_old[i] = self.ends[i].map(|end| end.law.strain_log10(end.log_s0, end.log_sp0, l_smax, l_s));
         }
     }
 
@@ -400,67 +438,126 @@ impl Column {
     /// θ-scheme's tridiagonal system that do not depend on the storage.
     fn prepare(&self, st: &ColumnState, w: &mut Scratch, theta: f64) {
         let (n, ne) = (self.nodes.len(), self.elements.len());
-        w.k.clear();
-        w.k.extend((0..ne).map(|e| self.conductivity(st, e)));
         w.s_old.clear();
         w.s_old.extend((0..n).map(|i| self.sigma_eff(st, i)));
-        for v in [&mut w.log_smax, &mut w.log_s, &mut w.log_new, &mut w.lower, &mut w.upper, &mut w.diag] {
+        w.k.clear();
+        w.k.extend((0..ne).map(|e| self.conductivity(st, &w.s_old, e)));
+        for v in [&mut w.lower, &mut w.upper, &mut w.diag, &mut w.rhs, &mut w.inv, &mut w.d] {
             v.resize(n, 0.0);
         }
-        for v in [&mut w.rhs, &mut w.b, &mut w.d] {
-            v.resize(n, 0.0);
-        }
-        w.eps_old.resize(ne, [0.0; 2]);
-        let (k, u) = (&w.k, &st.u);
+        w.eps_old.resize(n, [0.0; 2]);
+        let (fixed, ends, k, u) = (&self.fixed[..n], &self.ends[..n], &w.k[..ne], &st.u[..n]);
+        let (lower, upper, diag, rhs) = (&mut w.lower[..n], &mut w.upper[..n], &mut w.diag[..n], &mut w.rhs[..n]);
         for i in 0..n {
-            if self.fixed[i] {
-                (w.lower[i], w.upper[i], w.diag[i], w.rhs[i]) = (0.0, 0.0, 1.0, 0.0);
+            if fixed[i] {
+                (lower[i], upper[i], diag[i], rhs[i]) = (0.0, 0.0, 1.0, 0.0);
                 continue;
             }
-            let up = if i > 0 { k[i - 1] / self.elements[i - 1].h_m } else { 0.0 };
-            let down = if i < ne { k[i] / self.elements[i].h_m } else { 0.0 };
-            let mut r = 0.0;
+            let [above, below] = &ends[i];
+            let (mut up, mut down, mut r) = (0.0, 0.0, 0.0);
             if i > 0 {
-                r += self.sink(i - 1, i, k[i - 1]);
+                up = k[i - 1] / above.h_m;
+                r += above.sink_per_k * k[i - 1];
             }
             if i < ne {
-                r += self.sink(i, i, k[i]);
+                down = k[i] / below.h_m;
+                r += below.sink_per_k * k[i];
             }
             let uu = if i > 0 { u[i - 1] } else { 0.0 };
             let ud = if i + 1 < n { u[i + 1] } else { 0.0 };
             let flux = down * (ud - u[i]) - up * (u[i] - uu) - r * u[i];
-            w.lower[i] = -theta * up;
-            w.upper[i] = -theta * down;
-            w.diag[i] = theta * (up + down + r);
-            w.rhs[i] = (1.0 - theta) * flux;
+            lower[i] = -theta * up;
+            upper[i] = -theta * down;
+            diag[i] = theta * (up + down + r);
+            rhs[i] = (1.0 - theta) * flux;
         }
     }
 
-    /// Assemble and solve one pass of the θ-step with the storage of
-    /// `storage(…, trial)`; the new u is left in `w.d`.
-    fn solve_pass(&self, st: &ColumnState, w: &mut Scratch, dt: f64, trial: bool) {
+    /// Assemble and solve one pass of the θ-step with the storage at the
+    /// start of the step (`storage`); the new u is left in `w.d`. In linear
+    /// mode the matrix depends on the step length and θ alone, so from one
+    /// step to the next it is usually the same: where it equals the one
+    /// last factorised (compared exactly), that factorisation is reused.
+    fn tangent_pass(&self, st: &ColumnState, w: &mut Scratch, dt: f64) {
         let ne = self.elements.len();
+        let Scratch { s_old, lower, upper, diag, rhs, inv, d, factored, row_b, row_d, .. } = w;
+        row_b.clear();
+        row_d.clear();
         for i in 0..self.nodes.len() {
-            if self.fixed[i] {
-                (w.b[i], w.d[i]) = (1.0, 0.0);
-                continue;
-            }
-            let mut s = 0.0;
-            if i > 0 {
-                s += self.storage(st, w, i - 1, 1, trial);
-            }
-            if i < ne {
-                s += self.storage(st, w, i, 0, trial);
-            }
-            w.b[i] = s / dt + w.diag[i];
-            w.d[i] = s / dt * st.u[i] + w.rhs[i];
+            let (b, rhs) = if self.fixed[i] {
+                (1.0, 0.0)
+            } else {
+                let mut s = 0.0;
+                if i > 0 {
+                    s += self.storage(st, s_old, i - 1, 1);
+                }
+                if i < ne {
+                    s += self.storage(st, s_old, i, 0);
+                }
+                (s / dt + diag[i], s / dt * st.u[i] + rhs[i])
+            };
+            row_b.push(b);
+            row_d.push(rhs);
         }
-        thomas(&w.lower, &mut w.b, &w.upper, &mut w.d);
+        let linear = self.mode == ConsolidationMode::Linear;
+        let matrix = || lower.iter().chain(upper.iter()).chain(row_b.iter());
+        let reuse = linear && factored.len() == 3 * row_b.len() && factored.iter().eq(matrix());
+        thomas(lower, upper, |i| (row_b[i], row_d[i]), !reuse, inv, d);
+        if linear && !reuse {
+            factored.clear();
+            factored.extend(matrix());
+        }
     }
 
-    /// Radial sink conductance of element e's half-cell at node i, given the
-    /// element's K = k/γw.
-    fn sink(&self, e: usize, i: usize, k: f64) -> f64 {
+    /// One pass of the storage iteration (stress-dependent mode): assemble
+    /// the θ-step with the secant storage to the trial `w.u` and solve it;
+    /// the new u is left in `w.d`. The storage of an element end is mv·h/2
+    /// with mv the secant (ε(σ'new) − ε(σ'old)) / (σ'new − σ'old) of the
+    /// e–log σ' law, so that the step conserves volume exactly (the
+    /// modified Picard scheme of Celia, Bouloutas & Zarba 1990); where σ'
+    /// barely moves, the tangent at the start of the step. log10 σ'new is
+    /// taken once per node, for both element ends meeting there.
+    fn secant_pass(&self, st: &ColumnState, w: &mut Scratch, dt: f64) {
+        let n = self.nodes.len();
+        let (fixed, ends, u, smax) = (&self.fixed[..n], &self.ends[..n], &st.u[..n], &st.smax[..n]);
+        let Scratch { s_old, log_smax, eps_old, u: trial, lower, upper, diag, rhs, inv, d, factored, .. } = w;
+        // `inv` is about to factorise another matrix.
+        factored.clear();
+        let (s_olds, log_smax, eps_old, trial) = (&s_old[..n], &log_smax[..n], &eps_old[..n], &trial[..n]);
+        let (diag, rhs) = (&diag[..n], &rhs[..n]);
+        let row = |i: usize| {
+            if fixed[i] {
+                return (1.0, 0.0);
+            }
+            let s_old = s_olds[i];
+            let s_new = s_old + u[i] - trial[i];
+            let mut s = 0.0;
+            if (s_new - s_old).abs() < 1e-6 {
+                if i > 0 {
+                    s += self.storage(st, s_olds, i - 1, 1);
+                }
+                if i < self.elements.len() {
+                    s += self.storage(st, s_olds, i, 0);
+                }
+            } else {
+                // Σ (h/2)·Δε over the two ends, over the one Δσ'.
+                let l_s = log10(s_new.max(1e-3));
+                let l_smax = if s_new > smax[i] { l_s } else { log_smax[i] };
+                let mut compression = 0.0;
+                for (end, eps_old) in ends[i].iter().zip(eps_old[i]) {
+                    let eps_new = end.law.strain_log10(end.log_s0, end.log_sp0, l_smax, l_s);
+                    compression += end.half_h_m * (eps_new - eps_old);
+                }
+                s = compression / (s_new - s_old);
+            }
+            (s / dt + diag[i], s / dt * u[i] + rhs[i])
+        };
+        thomas(lower, upper, row, true, inv, d);
+    }
+
+    /// Radial sink conductance of element e's half-cell at node i per unit
+    /// K = k/γw of the element, 1/m.
+    fn sink_per_k(&self, e: usize, i: usize) -> f64 {
         if self.radial[i] == 0.0 {
             return 0.0;
         }
@@ -468,7 +565,7 @@ impl Column {
         let Some(c) = el.clay else { return 0.0 };
         // ch_eff = (ch/cv)·K/mv, so the sink per unit area is (h/2)·λ·mv =
         // (h/2)·8/(de²μ)·(ch/cv)·K, independent of mv.
-        0.5 * el.h_m * self.radial[i] * (c.ch_m2_per_day / c.cv_m2_per_day) * k
+        0.5 * el.h_m * self.radial[i] * (c.ch_m2_per_day / c.cv_m2_per_day)
     }
 
     /// Settlement of the column, m (positive down).
@@ -499,7 +596,10 @@ impl Column {
                     ConsolidationMode::Linear => el.mv_lin * (se - self.nodes[i].sigma_v0_eff_kpa),
                     ConsolidationMode::StressDependent => {
                         if logs.0 != i {
-                            logs = (i, log10(st.smax[i].max(se)), log10(se.max(1e-3)));
+                            // Where σ' has just set σ'max (loading), the
+                            // two logarithms are of the same number.
+                            let (l_s, smax) = (log10(se.max(1e-3)), st.smax[i].max(se));
+                            logs = (i, if smax == se.max(1e-3) { l_s } else { log10(smax) }, l_s);
                         }
                         ground::strain_log10(c, el.log_s0[end], el.log_sp0[end], logs.1, logs.2)
                     }
@@ -579,17 +679,41 @@ fn fixed_nodes(elements: &[Element], base_drained: bool) -> Vec<bool> {
     fixed
 }
 
-/// Thomas algorithm for a tridiagonal system; the solution replaces `d`.
-fn thomas(a: &[f64], b: &mut [f64], c: &[f64], d: &mut [f64]) {
-    let n = d.len();
-    for i in 1..n {
-        let w = a[i] / b[i - 1];
-        b[i] -= w * c[i - 1];
-        d[i] -= w * d[i - 1];
+/// Thomas algorithm for a tridiagonal system of n = `x.len()` rows with
+/// sub-diagonal `a` and super-diagonal `c`: `row(i)` gives row i's diagonal
+/// and right-hand side as the elimination reaches it (so that assembling
+/// the next row overlaps with eliminating this one), `inv` keeps the
+/// reciprocal pivots for the back substitution (a multiplication per row
+/// instead of a division, which would wait on the row below); the
+/// solution is left in `x`. Without `factorise`, `inv` already holds the
+/// reciprocal pivots of this matrix (the diagonals from `row` are then not
+/// used): the same arithmetic on the right-hand side, so the same bits. Inlined, so that the passes' row assembly is
+/// compiled into the elimination loop.
+#[inline(always)]
+fn thomas(
+    a: &[f64],
+    c: &[f64],
+    mut row: impl FnMut(usize) -> (f64, f64),
+    factorise: bool,
+    inv: &mut [f64],
+    x: &mut [f64],
+) {
+    let n = x.len();
+    let (a, c, inv) = (&a[..n], &c[..n], &mut inv[..n]);
+    // The row above the first: nothing to eliminate (w = 0).
+    let (mut inv_above, mut c_above, mut x_above) = (0.0, 0.0, 0.0);
+    for i in 0..n {
+        let (b, d) = row(i);
+        let w = a[i] * inv_above;
+        if factorise {
+            inv[i] = 1.0 / (b - w * c_above);
+        }
+        x[i] = d - w * x_above;
+        (inv_above, c_above, x_above) = (inv[i], c[i], x[i]);
     }
-    d[n - 1] /= b[n - 1];
+    x[n - 1] *= inv[n - 1];
     for i in (0..n - 1).rev() {
-        d[i] = (d[i] - c[i] * d[i + 1]) / b[i];
+        x[i] = (x[i] - c[i] * x[i + 1]) * inv[i];
     }
 }
 

@@ -227,10 +227,34 @@ pub fn strain(clay: &ClayProps, s0: f64, sp0: f64, smax: f64, s: f64) -> f64 {
 /// at least 1e-3 kPa): the consolidation column keeps the constant ones, so
 /// that each evaluation costs at most two logarithms.
 pub fn strain_log10(clay: &ClayProps, l_s0: f64, l_sp0: f64, l_smax: f64, l_s: f64) -> f64 {
-    let recompression = clay.cr * (l_smax.min(l_sp0) - l_s0).max(0.0);
-    let virgin = clay.cc * (l_smax - l_sp0).max(0.0);
-    let swell = clay.cr * (l_smax - l_s);
-    (recompression + virgin - swell) / (1.0 + clay.e0)
+    LogLaw::of(clay).strain_log10(l_s0, l_sp0, l_smax, l_s)
+}
+
+/// The constants of the e–log σ' law that a strain needs (Cr, Cc, 1 + e0),
+/// copied out of a clay's properties for the consolidation column's
+/// storage pass.
+#[derive(Debug, Clone, Copy)]
+pub struct LogLaw {
+    pub cr: f64,
+    pub cc: f64,
+    pub one_plus_e0: f64,
+}
+
+impl LogLaw {
+    /// Incompressible ground (sand, or no element at all): every strain 0.
+    pub const RIGID: LogLaw = LogLaw { cr: 0.0, cc: 0.0, one_plus_e0: 1.0 };
+
+    pub fn of(clay: &ClayProps) -> LogLaw {
+        LogLaw { cr: clay.cr, cc: clay.cc, one_plus_e0: 1.0 + clay.e0 }
+    }
+
+    /// `strain_log10` of a clay with these constants.
+    pub fn strain_log10(&self, l_s0: f64, l_sp0: f64, l_smax: f64, l_s: f64) -> f64 {
+        let recompression = self.cr * (l_smax.min(l_sp0) - l_s0).max(0.0);
+        let virgin = self.cc * (l_smax - l_sp0).max(0.0);
+        let swell = self.cr * (l_smax - l_s);
+        (recompression + virgin - swell) / self.one_plus_e0
+    }
 }
 
 /// Tangent coefficient of volume compressibility mv = dε/dσ', 1/kPa.

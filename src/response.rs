@@ -2,31 +2,96 @@
 //! half-width (centreline, crest edge, mid-slope, toe and beyond), loaded by
 //! the embankment's elastic stress increments as the fill rises, with the
 //! settlement make-up fill and the buoyancy of fill that settles below the
-//! water table both part of the load. It owns the evolving `State` and the
-//! strength field the stability engine samples.
+//! water table both part of the load. It owns the evolving `State`, the
+//! strength field the stability engine samples, and the elastic stress
+//! tables per geometry (`load::stress` at every node for each 0.25 m of
+//! fill, interpolated between), kept for the whole process so that every
+//! engine of one geometry shares them.
 
 use crate::consolidation::{Column, ColumnState};
 use crate::ground::{self, Node};
 use crate::load::{self, Stress};
 use crate::model::*;
 use serde::Serialize;
-use std::sync::OnceLock;
 use std::sync::atomic::{AtomicUsize, Ordering};
+use std::sync::{Arc, Mutex, OnceLock};
 
 /// Spacing of the fill-thickness levels at which stress fields are computed
 /// and between which they are interpolated linearly, m.
 const LEVEL_M: f64 = 0.25;
 /// Number of cached levels (0 … 60 m).
 const LEVELS: usize = 241;
+/// Geometries whose stress tables the process keeps for engines built
+/// later (the most recently used; an engine keeps its own tables alive).
+const KEPT_GEOMETRIES: usize = 16;
+
+/// Unit-weight stress fields of one geometry per thickness level:
+/// [level] → [column][node], each built on first use by whichever engine
+/// needs it first (the same numbers whichever does).
+struct Tables {
+    geometry: Geometry,
+    levels: Vec<OnceLock<Vec<Vec<Stress>>>>,
+}
+
+/// What the elastic stress tables depend on, compared exactly: the
+/// embankment (its fill weight, strength and reinforcement, which the
+/// tables do not use, left out) and the bit patterns of the column offsets
+/// and node depths.
+#[derive(Debug, PartialEq)]
+struct Geometry {
+    embankment: Embankment,
+    columns: Vec<(u64, Vec<u64>)>,
+}
+
+impl Geometry {
+    fn of(project: &Project, columns: &[Column]) -> Geometry {
+        let embankment = Embankment {
+            fill_unit_weight_kn_m3: 0.0,
+            fill_cohesion_kpa: 0.0,
+            fill_friction_deg: 0.0,
+            reinforcement_kn_per_m: 0.0,
+            ..project.embankment.clone()
+        };
+        let columns =
+            columns.iter().map(|c| (c.x_m.to_bits(), c.nodes.iter().map(|n| n.z_m.to_bits()).collect())).collect();
+        Geometry { embankment, columns }
+    }
+}
+
+/// The stress tables of every geometry met in this process (up to
+/// `KEPT_GEOMETRIES`, most recent last), so that engines built one after
+/// another (compare's alternatives, corridor sections, the hold-point fit,
+/// Monte Carlo realisations) share them.
+static KEPT: Mutex<Vec<Arc<Tables>>> = Mutex::new(Vec::new());
+
+/// The kept tables of `geometry`, or new empty ones (then kept).
+fn shared_tables(geometry: Geometry) -> Arc<Tables> {
+    // A panic elsewhere while holding the lock leaves the list valid.
+    let mut kept = KEPT.lock().unwrap_or_else(|e| e.into_inner());
+    let tables = match kept.iter().position(|t| t.geometry == geometry) {
+        Some(k) => kept.remove(k),
+        None => Arc::new(Tables::new(geometry)),
+    };
+    kept.push(tables.clone());
+    if kept.len() > KEPT_GEOMETRIES {
+        kept.remove(0);
+    }
+    tables
+}
+
+impl Tables {
+    fn new(geometry: Geometry) -> Tables {
+        Tables { geometry, levels: (0..LEVELS).map(|_| OnceLock::new()).collect() }
+    }
+}
 
 /// The response engine for one project.
 pub struct Engine<'p> {
     pub project: &'p Project,
     pub columns: Vec<Column>,
-    /// Unit-weight stress fields per thickness level: [level] → [column][node],
-    /// each built on first use; shared by engines of the same geometry
-    /// (`Engine::sharing`).
-    table: std::sync::Arc<Vec<OnceLock<Vec<Vec<Stress>>>>>,
+    /// Unit-weight stress fields per thickness level, shared by every
+    /// engine of the same geometry.
+    table: Arc<Tables>,
     /// Time steps taken so far (all columns advance together).
     steps: AtomicUsize,
     /// Column steps whose storage iteration stopped at its limit.
@@ -59,33 +124,32 @@ pub struct ColumnInfo {
 }
 
 impl<'p> Engine<'p> {
-    /// Build the columns at the standard offsets of the final section.
+    /// Build the columns at the standard offsets of the final section. The
+    /// stress tables are those of the last engines of the same geometry in
+    /// this process, if any (see `KEPT`), else built as levels are needed.
     pub fn new(project: &'p Project) -> Engine<'p> {
+        Engine::build(project, shared_tables)
+    }
+
+    /// `new` with stress tables of its own, built afresh as levels are
+    /// needed (for measuring the cost of building them).
+    pub fn with_own_tables(project: &'p Project) -> Engine<'p> {
+        Engine::build(project, |g| Arc::new(Tables::new(g)))
+    }
+
+    fn build(project: &'p Project, tables: impl FnOnce(Geometry) -> Arc<Tables>) -> Engine<'p> {
         let columns: Vec<Column> = column_offsets(project).iter().map(|c| Column::new(project, c.x_m)).collect();
-        let table = std::sync::Arc::new((0..LEVELS).map(|_| OnceLock::new()).collect());
+        let table = tables(Geometry::of(project, &columns));
         let interfaces = clay_interfaces(project, &columns);
         Engine { project, columns, table, steps: AtomicUsize::new(0), unconverged: AtomicUsize::new(0), interfaces }
     }
 
     /// `new`, sharing `other`'s stress tables when both have the same
-    /// embankment and the same column offsets and node depths (the elastic
-    /// stresses depend on nothing else), so that Monte Carlo realisations
-    /// varying soil parameters build none of their own. The tables are
-    /// the same numbers whichever engine builds a level first.
+    /// geometry (embankment, column offsets and node depths: the elastic
+    /// stresses depend on nothing else), whether or not the process still
+    /// keeps them.
     pub fn sharing(project: &'p Project, other: &Engine) -> Engine<'p> {
-        let mut e = Engine::new(project);
-        let same_nodes = |a: &Column, b: &Column| {
-            a.x_m == b.x_m
-                && a.nodes.len() == b.nodes.len()
-                && a.nodes.iter().zip(&b.nodes).all(|(m, n)| m.z_m == n.z_m)
-        };
-        if project.embankment == other.project.embankment
-            && e.columns.len() == other.columns.len()
-            && e.columns.iter().zip(&other.columns).all(|(a, b)| same_nodes(a, b))
-        {
-            e.table = other.table.clone();
-        }
-        e
+        Engine::build(project, |g| if g == other.table.geometry { other.table.clone() } else { shared_tables(g) })
     }
 
     /// Consolidation time steps taken so far by this engine.
@@ -126,7 +190,7 @@ impl<'p> Engine<'p> {
     }
 
     fn level(&self, j: usize) -> &Vec<Vec<Stress>> {
-        self.table[j].get_or_init(|| self.unit_stress(j as f64 * LEVEL_M))
+        self.table.levels[j].get_or_init(|| self.unit_stress(j as f64 * LEVEL_M))
     }
 
     /// Stress fields for unit fill weight and thickness t (all columns).
@@ -514,20 +578,27 @@ mod tests {
         d.project("demo varied").expect("demo validates")
     }
 
-    /// Engines that differ in a soil parameter share the stress tables and
-    /// give bit-for-bit the ground response of an engine with its own (the
-    /// tables are a function of the geometry alone); a different embankment
-    /// gets its own tables.
+    /// Engines that differ in a soil parameter or the fill's weight share
+    /// the stress tables, through `sharing` and through the process's kept
+    /// tables (`new`), and give bit-for-bit the ground response of an
+    /// engine with its own (the tables are a function of the geometry
+    /// alone); a different embankment gets its own tables. The reference
+    /// is an engine with tables of its own.
     #[test]
     fn stress_tables_are_shared_only_between_the_same_geometry() {
         let p = demo_with("ground.layers[1].cv_m2_per_year", 1.0);
         let soil = demo_with("ground.layers[1].cv_m2_per_year", 2.0);
+        let heavier = demo_with("embankment.fill_unit_weight_kn_m3", 1.1);
         let wider = demo_with("embankment.crest_width_m", 1.1);
         let base = Engine::new(&p);
         let shared = Engine::sharing(&soil, &base);
-        assert!(std::sync::Arc::ptr_eq(&base.table, &shared.table));
-        assert!(!std::sync::Arc::ptr_eq(&base.table, &Engine::sharing(&wider, &base).table));
-        let own = Engine::new(&soil);
+        assert!(Arc::ptr_eq(&base.table, &shared.table));
+        assert!(Arc::ptr_eq(&base.table, &Engine::new(&soil).table));
+        assert!(Arc::ptr_eq(&base.table, &Engine::new(&heavier).table));
+        assert!(!Arc::ptr_eq(&base.table, &Engine::sharing(&wider, &base).table));
+        assert!(!Arc::ptr_eq(&base.table, &Engine::new(&wider).table));
+        let own = Engine::with_own_tables(&soil);
+        assert!(!Arc::ptr_eq(&base.table, &own.table));
         let run = |e: &Engine| {
             let mut st = e.initial_state();
             e.advance(&mut st, 5.0, 2.0);

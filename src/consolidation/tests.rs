@@ -55,12 +55,20 @@ fn skempton_pore_pressure_from_principal_increments() {
 fn thomas_solves_small_system() {
     // [2 -1 0; -1 2 -1; 0 -1 2] x = [1 0 1] → x = [1 1 1]
     let a = [0.0, -1.0, -1.0];
-    let mut b = [2.0, 2.0, 2.0];
+    let b = [2.0, 2.0, 2.0];
     let c = [-1.0, -1.0, 0.0];
-    let mut d = [1.0, 0.0, 1.0];
-    thomas(&a, &mut b, &c, &mut d);
-    for x in d {
+    let d = [1.0, 0.0, 1.0];
+    let (mut inv, mut x) = ([0.0; 3], [0.0; 3]);
+    thomas(&a, &c, |i| (b[i], d[i]), true, &mut inv, &mut x);
+    for x in x {
         assert!((x - 1.0).abs() < 1e-12);
+    }
+    // The same matrix again, by the kept reciprocal pivots (the diagonal
+    // passed is then unused: NaN here): A [1 2 3] = [0 0 4] (hand).
+    let d = [0.0, 0.0, 4.0];
+    thomas(&a, &c, |i| (f64::NAN, d[i]), false, &mut inv, &mut x);
+    for (x, want) in x.iter().zip([1.0, 2.0, 3.0]) {
+        assert!((x - want).abs() < 1e-12, "{x} vs {want}");
     }
 }
 
