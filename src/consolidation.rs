@@ -135,9 +135,11 @@ pub struct ColumnState {
 }
 
 /// Scratch vectors of a column step, kept with the state so that a step
-/// does not allocate. A clone starts empty (the next step sizes it again).
-/// Only `log_smax` (with `smax_logged`) and, in linear mode, the last
-/// factorisation (`inv` with `factored`) carry over between steps.
+/// does not allocate. Only `log_smax` (with `smax_logged`) and, in linear
+/// mode, the last factorisation (`inv` with `factored`) carry over between
+/// steps; a clone keeps the first two (part of the state's history) and
+/// starts the rest empty (a factorisation is taken again, to the same
+/// bits).
 #[derive(Debug, Default)]
 struct Scratch {
     /// K = k/γw per element, m²/(kPa·day).
@@ -172,8 +174,12 @@ struct Scratch {
 }
 
 impl Clone for Scratch {
+    /// Keeps the logarithms of σ'max (they depend on the history: a log
+    /// carried by the series differs in its last bits from one taken
+    /// afresh), so that a state continued from a clone steps exactly as
+    /// the original would; the rest is sized again by the next step.
     fn clone(&self) -> Scratch {
-        Scratch::default()
+        Scratch { log_smax: self.log_smax.clone(), smax_logged: self.smax_logged.clone(), ..Scratch::default() }
     }
 }
 

@@ -139,6 +139,7 @@ fn same(a: &Value, b: &Value, key: &str, at: &str, skip: &[&str]) {
 
 #[test]
 fn fast_plans_match_the_exhaustive_path_and_accept_only_confirmed_lifts() {
+    let (mut fast_total, mut full_total) = (0, 0);
     for (name, text) in sites() {
         let p = fillpace::input::parse(&text, name).unwrap();
         let fast = plan(&p, false);
@@ -160,12 +161,18 @@ fn fast_plans_match_the_exhaustive_path_and_accept_only_confirmed_lifts() {
             fast.effort.stability_searches,
             full.effort.stability_searches
         );
+        fast_total += fast.effort.stability_searches;
+        full_total += full.effort.stability_searches;
         // The physical bound: every lift released meets the target by the
         // full search (each stage's FS is the full search's).
         for s in fast.stages.iter().filter(|s| s.kind == planner::StageKind::Lift) {
             assert!(s.fs_end >= p.criteria.fs_construction - 1e-12, "{name}: stage {} FS {}", s.number, s.fs_end);
         }
     }
+    assert!(
+        fast_total < full_total,
+        "warm trials saved no full search over the sites: {fast_total} against {full_total}"
+    );
 }
 
 #[test]

@@ -274,16 +274,22 @@ impl<'e, 'p> Runner<'e, 'p> {
     /// its `governing_fs()` with a target: it includes the fill face).
     /// A search asked again of the same crest height and ground field
     /// (bit for bit) is answered from the latest ones kept, not run again
-    /// (nor counted again in `effort` or the diagnostics).
+    /// (nor counted again in `effort` or the diagnostics, which count the
+    /// searches run).
     pub fn stability(&self, st: &State, effort: &mut Effort) -> Result<SearchResult> {
         let field = self.engine.field(st);
         let h = st.height_m;
         let reusable = self.seeds.is_empty();
-        if reusable
-            && let Some((_, _, found)) =
-                self.searched.borrow().iter().rev().find(|(k, f, _)| *k == h && same_field(f, &field))
-        {
-            return Ok(found.clone());
+        if reusable {
+            let kept = self.searched.borrow();
+            if let Some((_, _, found)) =
+                kept.iter().rev().find(|(k, f, _)| k.to_bits() == h.to_bits() && same_field(f, &field))
+            {
+                // The warm trials' seeds at this height are this search's
+                // bands again, as when it was run.
+                self.remember_bands(h, &found.bands);
+                return Ok(found.clone());
+            }
         }
         let mut found = self.stability_uncounted(st, &field, effort)?;
         if fill_load::applies(self.engine.project) {
@@ -385,8 +391,14 @@ impl<'e, 'p> Runner<'e, 'p> {
     }
 }
 
-/// Whether two ground fields hold the same numbers, bit for bit (NaN never
-/// matches, so such a field is always searched afresh).
+/// Whether two ground fields hold the same numbers, bit for bit (every
+/// field of `GroundField` named, so that one added later must be compared).
 fn same_field(a: &GroundField, b: &GroundField) -> bool {
-    a.xs == b.xs && a.zs == b.zs && a.settlement_m == b.settlement_m && a.su == b.su
+    let GroundField { xs, zs, su, settlement_m } = a;
+    let bits = |p: &[f64], q: &[f64]| p.len() == q.len() && p.iter().zip(q).all(|(x, y)| x.to_bits() == y.to_bits());
+    bits(xs, &b.xs)
+        && bits(zs, &b.zs)
+        && bits(settlement_m, &b.settlement_m)
+        && su.len() == b.su.len()
+        && su.iter().zip(&b.su).all(|(p, q)| bits(p, q))
 }

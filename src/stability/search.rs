@@ -143,8 +143,8 @@ impl Counter {
 /// A grid circle: (result, tangent elevation, grid index, tangent index).
 type Candidate = (CircleResult, f64, usize, usize);
 
-/// Full search on a section. The grid columns and then the bands are
-/// spread over rayon's pool; ties are broken by grid index, so the answer
+/// Full search on a section. The grid columns, then every band's starts,
+/// then the bands are spread over rayon's pool; ties are broken by grid index, so the answer
 /// does not depend on the number of threads.
 pub fn search(s: &Section) -> Result<SearchResult> {
     let bands = bands(s);
@@ -410,7 +410,8 @@ fn pattern(
     dirs: &[[f64; 3]],
     stride: Stride,
 ) -> (CircleResult, f64) {
-    let (mut best, yt) = start;
+    let (mut best, mut best_t) = start;
+    let yt = best_t;
     let mut unit = step;
     while 0.5 * unit >= min_step {
         unit *= 0.5;
@@ -445,7 +446,7 @@ fn pattern(
         }
         match improved {
             Some((better, [ni, nj, nk], t)) => {
-                (best, i, j) = (better, ni, nj);
+                (best, best_t, i, j) = (better, t, ni, nj);
                 // A tangent held at the band's limit moves on from there.
                 (k, t_origin) = if t != lo && t != hi { (nk, t_origin) } else { (0, t) };
                 if let Stride::GrowTo(_) = stride {
@@ -455,7 +456,7 @@ fn pattern(
             None => m /= 2,
         }
     }
-    (best, tangent(k, t_origin))
+    (best, best_t)
 }
 
 /// The 6 unit moves along the axes (xc, yc, tangent).

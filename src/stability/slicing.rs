@@ -1,11 +1,12 @@
 //! Geometry of one circle on the section: where it enters and leaves,
 //! where the tension crack cuts it, and the slice boundaries. Slices cover
 //! the sliding mass only (from the entry or the crack to the exit), with a
-//! break at every profile vertex and at every crossing of the arc with the
-//! settled ground, a layer boundary or the water table, so that each slice
-//! base lies in one material. The ground and the layer boundaries are
-//! linear between the response columns, so their crossings are found
-//! exactly, segment by segment. Width ≤ (mass span)/n and count ≤ n + breaks
+//! break at every profile vertex and where the arc crosses the settled
+//! ground, a layer boundary or the water table (on each side of the arc's
+//! lowest point, the crossing nearest it), so that each slice base lies in
+//! one material. The ground and the layer boundaries are linear between the
+//! response columns, so their crossings are found exactly, segment by
+//! segment. Width ≤ (mass span)/n and count ≤ n + breaks
 //! (`max_slices`), whatever the geometry.
 
 use super::{Circle, Crack, Section};
@@ -47,12 +48,9 @@ impl Section<'_> {
         for line in &self.layer_tops {
             breaks.extend(line_hits(line, c, x0, x1).into_iter().flatten());
         }
-        // The water table, a level line: where the lower arc meets it.
-        let dy = c.yc_m - self.water_y;
-        if dy > 0.0 && dy < c.r_m {
-            let half = (c.r_m * c.r_m - dy * dy).sqrt();
-            breaks.extend([c.xc_m - half, c.xc_m + half]);
-        }
+        let far = 1.0e5;
+        let water = [(-far, self.water_y), (far, self.water_y)];
+        breaks.extend(line_hits(&water, c, x0, x1).into_iter().flatten());
         breaks.retain(|x| *x >= x0 && *x <= x1);
         breaks.sort_by(f64::total_cmp);
         breaks.dedup_by(|a, b| (*a - *b).abs() < 1e-6);
@@ -169,7 +167,7 @@ fn line_hits(line: &[(f64, f64)], c: Circle, x0: f64, x1: f64) -> [Option<f64>; 
 }
 
 /// x of the points (at most two) where segment p–q meets the circle's
-/// lower half.
+/// lower half (a point at a vertex, to round-off, on both segments).
 fn segment_hits(p: (f64, f64), q: (f64, f64), c: Circle) -> [Option<f64>; 2] {
     let (dx, dy) = (q.0 - p.0, q.1 - p.1);
     let (fx, fy) = (p.0 - c.xc_m, p.1 - c.yc_m);
@@ -184,5 +182,5 @@ fn segment_hits(p: (f64, f64), q: (f64, f64), c: Circle) -> [Option<f64>; 2] {
         return [None, None];
     }
     [(-b - disc.sqrt()) / (2.0 * a), (-b + disc.sqrt()) / (2.0 * a)]
-        .map(|s| ((0.0..=1.0).contains(&s) && p.1 + s * dy <= c.yc_m).then_some(p.0 + s * dx))
+        .map(|s| ((-1e-12..=1.0 + 1e-12).contains(&s) && p.1 + s * dy <= c.yc_m).then_some(p.0 + s * dx))
 }

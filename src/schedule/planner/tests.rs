@@ -120,3 +120,29 @@ fn a_search_asked_again_of_the_same_state_is_reused_exactly() {
     r.stability(&st, &mut effort).unwrap();
     assert_eq!(effort.stability_searches, 2, "a later state was answered from the kept searches");
 }
+
+/// Consistency check (the engine against itself, not a truth test): the
+/// planner's trials rest from clones of states kept on the rest grid, and
+/// the stage then rests the original state without interruption; both must
+/// be the same state to the bit (the stage's FS is then the FS that
+/// accepted its lift). On the demo, in stress-dependent mode, through a
+/// lift and a rest.
+#[test]
+fn a_rest_continued_from_a_clone_is_the_uninterrupted_rest_bit_for_bit() {
+    let p = crate::input::parse(crate::app::DEMO, "demo").unwrap();
+    let engine = crate::response::Engine::new(&p);
+    let r = Runner::new(&engine);
+    let mut st = engine.initial_state();
+    r.place(&mut st, 2.0, &mut |_| {}).unwrap();
+    let mut through = st.clone();
+    r.rest_until(&mut through, 120, &mut |_| {});
+    let mut part = st.clone();
+    r.rest_until(&mut part, 60, &mut |_| {});
+    let mut resumed = part.clone();
+    r.rest_until(&mut resumed, 120, &mut |_| {});
+    for (a, b) in through.cols.iter().zip(&resumed.cols) {
+        assert!(a.u.iter().zip(&b.u).all(|(x, y)| x.to_bits() == y.to_bits()), "excess pore pressures differ");
+        assert!(a.smax.iter().zip(&b.smax).all(|(x, y)| x.to_bits() == y.to_bits()), "σ'max differs");
+    }
+    assert_eq!(through.settlement_centre_m.to_bits(), resumed.settlement_centre_m.to_bits());
+}
