@@ -201,8 +201,10 @@ impl Section<'_> {
             f.thickest = f.thickest.max(y_top - y_arc);
             let sin_a = (c.xc_m - x) / c.r_m;
             let cos_a = (1.0 - sin_a * sin_a).max(1e-9).sqrt();
-            let w = b * self.column_weight(s_x, y_arc, y_top);
-            let (coh, tan_phi, u) = self.strength_at(at, s_x, y_arc, w / b, &mut cur);
+            // The base's original depth, for its soil column and strength.
+            let z = self.original_depth(s_x, y_arc);
+            let w = b * self.column_weight(s_x, y_arc, y_top, z);
+            let (coh, tan_phi, u) = self.strength_at(at, s_x, y_arc, z, w / b, &mut cur);
             let l = b / cos_a;
             let normal = w * cos_a - u * l;
             if normal < 0.0 && tan_phi > 0.0 {

@@ -66,6 +66,8 @@ pub struct Section<'a> {
     /// Share of the crack depth filled with water.
     pub(super) crack_water_fraction: f64,
     pub(super) layers: Vec<SectionLayer>,
+    /// Weight of the original soil above each layer's top, kN/m².
+    soil_above: Vec<f64>,
     /// Lowest elevation a circle may reach (top of the stiff base), m.
     pub base_y: f64,
     pub(super) water_y: f64,
@@ -129,6 +131,7 @@ impl<'a> Section<'a> {
             },
             crack_water_fraction: o.crack_water_fraction,
             layers,
+            soil_above: Vec::new(),
             base_y: -top,
             water_y: -project.ground.groundwater_depth_m,
             field,
@@ -137,6 +140,15 @@ impl<'a> Section<'a> {
         };
         s.surface = s.build_surface();
         s.ground_line = s.build_ground_line();
+        s.soil_above = s
+            .layers
+            .iter()
+            .scan(0.0, |above, l| {
+                let here = *above;
+                *above += s.layer_weight(l, l.bottom_z);
+                Some(here)
+            })
+            .collect();
         s.layer_tops = s
             .layers
             .iter()
@@ -265,24 +277,39 @@ impl<'a> Section<'a> {
 
     /// Weight of a vertical strip of unit width at x from y_bot to the
     /// surface y_top, kN/m² (soil by its original column, fill below the
-    /// water table at its own unit weight).
-    pub(super) fn column_weight(&self, s: f64, y_bot: f64, y_top: f64) -> f64 {
+    /// water table at its own unit weight), where the surface has settled by
+    /// s; `z_bot` is y_bot's original depth (`original_depth(s, y_bot)`,
+    /// used only below the ground).
+    pub(super) fn column_weight(&self, s: f64, y_bot: f64, y_top: f64, z_bot: f64) -> f64 {
         let gy = -s;
-        let mut w = self.fill_gamma * (y_top - y_bot.max(gy)).max(0.0);
+        let w = self.fill_gamma * (y_top - y_bot.max(gy)).max(0.0);
         if y_bot >= gy {
             return w;
         }
-        let z_bot = self.original_depth(s, y_bot);
-        let zw = -self.water_y;
-        for l in &self.layers {
-            let (lo, hi) = (l.top_z, l.bottom_z.min(z_bot));
-            if hi <= lo {
-                break;
+        w + self.soil_weight(z_bot)
+    }
+
+    /// Weight of the original soil column from OGL to original depth z,
+    /// kN/m²: the layers above z's layer whole (`soil_above`), then the part
+    /// of its own.
+    fn soil_weight(&self, z: f64) -> f64 {
+        for (l, above) in self.layers.iter().zip(&self.soil_above) {
+            if z <= l.bottom_z {
+                return above + self.layer_weight(l, z);
             }
-            let wet = (hi - lo.max(zw)).max(0.0);
-            w += l.gamma_sat * wet + l.gamma * (hi - lo - wet);
         }
-        w
+        self.soil_above.last().zip(self.layers.last()).map_or(0.0, |(a, l)| a + self.layer_weight(l, l.bottom_z))
+    }
+
+    /// Weight of layer l from its top to original depth z (at most its
+    /// bottom), saturated below the water table, kN/m².
+    fn layer_weight(&self, l: &SectionLayer, z: f64) -> f64 {
+        let (lo, hi) = (l.top_z, l.bottom_z.min(z));
+        if hi <= lo {
+            return 0.0;
+        }
+        let wet = (hi - lo.max(-self.water_y)).max(0.0);
+        l.gamma_sat * wet + l.gamma * (hi - lo - wet)
     }
 
     /// (c kPa, tan φ, u kPa) at a slice base at height y, settlement s there,
@@ -294,13 +321,22 @@ impl<'a> Section<'a> {
     /// ground nodes, from the same `ground::head_m`). The clay's su is
     /// looked up at `at` (the slice's offset among the columns) from `cur`
     /// (the circle's cursor in the field).
-    pub(super) fn strength_at(&self, at: Across, s: f64, y: f64, sigma_v: f64, cur: &mut Cursor) -> (f64, f64, f64) {
+    /// z is y's original depth (`original_depth(s, y)`, used only below the
+    /// ground).
+    pub(super) fn strength_at(
+        &self,
+        at: Across,
+        s: f64,
+        y: f64,
+        z: f64,
+        sigma_v: f64,
+        cur: &mut Cursor,
+    ) -> (f64, f64, f64) {
         let hydrostatic = |level: f64| GAMMA_W * (level - y).max(0.0);
         if y >= -s - 1e-9 {
             let u = if self.fill_ru > 0.0 { self.fill_ru * sigma_v } else { hydrostatic(self.water_y) };
             return (self.fill_c, self.fill_tan_phi, u);
         }
-        let z = self.original_depth(s, y);
         match self.layer_at(z) {
             Some(SectionLayer { material: Material::Sand { c, tan_phi }, pore, head_m, .. }) => {
                 let u = match *pore {

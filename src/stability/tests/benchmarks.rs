@@ -178,8 +178,15 @@ fn pore_pressure_descriptions_by_hand() {
     let mut p = ru_slope(0.3);
     let s = Section::new(&p, 5.0, &field);
     assert!(
-        (s.strength_at(field.across_near(0.0, &mut Cursor::default()), 0.0, -3.0, 100.0, &mut Cursor::default()).2
-            - 30.0)
+        (s.strength_at(
+            field.across_near(0.0, &mut Cursor::default()),
+            0.0,
+            -3.0,
+            s.original_depth(0.0, -3.0),
+            100.0,
+            &mut Cursor::default()
+        )
+        .2 - 30.0)
             .abs()
             < 1e-9
     );
@@ -187,14 +194,28 @@ fn pore_pressure_descriptions_by_hand() {
     p.stability.fill_ru = 0.2;
     let s = Section::new(&p, 5.0, &field);
     assert!(
-        (s.strength_at(field.across_near(0.0, &mut Cursor::default()), 0.0, -3.0, 0.0, &mut Cursor::default()).2
-            - 49.05)
+        (s.strength_at(
+            field.across_near(0.0, &mut Cursor::default()),
+            0.0,
+            -3.0,
+            s.original_depth(0.0, -3.0),
+            0.0,
+            &mut Cursor::default()
+        )
+        .2 - 49.05)
             .abs()
             < 1e-9
     );
     assert!(
-        (s.strength_at(field.across_near(0.0, &mut Cursor::default()), 0.0, 1.0, 50.0, &mut Cursor::default()).2
-            - 10.0)
+        (s.strength_at(
+            field.across_near(0.0, &mut Cursor::default()),
+            0.0,
+            1.0,
+            s.original_depth(0.0, 1.0),
+            50.0,
+            &mut Cursor::default()
+        )
+        .2 - 10.0)
             .abs()
             < 1e-9
     );
@@ -202,8 +223,15 @@ fn pore_pressure_descriptions_by_hand() {
     p.ground.groundwater_depth_m = 0.0;
     let s = Section::new(&p, 5.0, &field);
     assert!(
-        (s.strength_at(field.across_near(0.0, &mut Cursor::default()), 0.0, -3.0, 0.0, &mut Cursor::default()).2
-            - 29.43)
+        (s.strength_at(
+            field.across_near(0.0, &mut Cursor::default()),
+            0.0,
+            -3.0,
+            s.original_depth(0.0, -3.0),
+            0.0,
+            &mut Cursor::default()
+        )
+        .2 - 29.43)
             .abs()
             < 1e-9
     );
