@@ -66,7 +66,8 @@ pub struct Section<'a> {
     /// Share of the crack depth filled with water.
     pub(super) crack_water_fraction: f64,
     pub(super) layers: Vec<SectionLayer>,
-    /// Weight of the original soil above each layer's top, kN/m².
+    /// Weight of the original soil above each layer's top, and last of
+    /// the whole column, kN/m².
     soil_above: Vec<f64>,
     /// Lowest elevation a circle may reach (top of the stiff base), m.
     pub base_y: f64,
@@ -140,15 +141,11 @@ impl<'a> Section<'a> {
         };
         s.surface = s.build_surface();
         s.ground_line = s.build_ground_line();
-        s.soil_above = s
-            .layers
-            .iter()
-            .scan(0.0, |above, l| {
-                let here = *above;
-                *above += s.layer_weight(l, l.bottom_z);
-                Some(here)
-            })
-            .collect();
+        s.soil_above = vec![0.0];
+        for l in &s.layers {
+            let above = s.soil_above[s.soil_above.len() - 1];
+            s.soil_above.push(above + s.layer_weight(l, l.bottom_z));
+        }
         s.layer_tops = s
             .layers
             .iter()
@@ -298,7 +295,7 @@ impl<'a> Section<'a> {
                 return above + self.layer_weight(l, z);
             }
         }
-        self.soil_above.last().zip(self.layers.last()).map_or(0.0, |(a, l)| a + self.layer_weight(l, l.bottom_z))
+        self.soil_above[self.layers.len()]
     }
 
     /// Weight of layer l from its top to original depth z (at most its

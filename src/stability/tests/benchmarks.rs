@@ -176,65 +176,22 @@ fn pore_pressure_descriptions_by_hand() {
     // ru = 0.2 under σv = 50 kPa gives 10 kPa.
     let field = uniform_su(1.0);
     let mut p = ru_slope(0.3);
+    // Pore pressure at the base point (0, y) under σv, no settlement.
+    let u_at = |s: &Section, y: f64, sigma_v: f64| {
+        let at = field.across_near(0.0, &mut Cursor::default());
+        s.strength_at(at, 0.0, y, s.original_depth(0.0, y), sigma_v, &mut Cursor::default()).2
+    };
     let s = Section::new(&p, 5.0, &field);
-    assert!(
-        (s.strength_at(
-            field.across_near(0.0, &mut Cursor::default()),
-            0.0,
-            -3.0,
-            s.original_depth(0.0, -3.0),
-            100.0,
-            &mut Cursor::default()
-        )
-        .2 - 30.0)
-            .abs()
-            < 1e-9
-    );
+    assert!((u_at(&s, -3.0, 100.0) - 30.0).abs() < 1e-9);
     p.ground.layers[0].pore = PoreWater::Level { elevation_m: 2.0 };
     p.stability.fill_ru = 0.2;
     let s = Section::new(&p, 5.0, &field);
-    assert!(
-        (s.strength_at(
-            field.across_near(0.0, &mut Cursor::default()),
-            0.0,
-            -3.0,
-            s.original_depth(0.0, -3.0),
-            0.0,
-            &mut Cursor::default()
-        )
-        .2 - 49.05)
-            .abs()
-            < 1e-9
-    );
-    assert!(
-        (s.strength_at(
-            field.across_near(0.0, &mut Cursor::default()),
-            0.0,
-            1.0,
-            s.original_depth(0.0, 1.0),
-            50.0,
-            &mut Cursor::default()
-        )
-        .2 - 10.0)
-            .abs()
-            < 1e-9
-    );
+    assert!((u_at(&s, -3.0, 0.0) - 49.05).abs() < 1e-9);
+    assert!((u_at(&s, 1.0, 50.0) - 10.0).abs() < 1e-9);
     p.ground.layers[0].pore = PoreWater::Hydrostatic;
     p.ground.groundwater_depth_m = 0.0;
     let s = Section::new(&p, 5.0, &field);
-    assert!(
-        (s.strength_at(
-            field.across_near(0.0, &mut Cursor::default()),
-            0.0,
-            -3.0,
-            s.original_depth(0.0, -3.0),
-            0.0,
-            &mut Cursor::default()
-        )
-        .2 - 29.43)
-            .abs()
-            < 1e-9
-    );
+    assert!((u_at(&s, -3.0, 0.0) - 29.43).abs() < 1e-9);
 }
 
 #[test]
