@@ -144,8 +144,9 @@ impl Counter {
 type Candidate = (CircleResult, f64, usize, usize);
 
 /// Full search on a section. The grid columns, then every band's starts,
-/// then the bands are spread over rayon's pool; ties are broken by grid index, so the answer
-/// does not depend on the number of threads.
+/// then the bands are spread over rayon's pool; ties are broken by grid
+/// index and start order, so the answer does not depend on the number of
+/// threads.
 pub fn search(s: &Section) -> Result<SearchResult> {
     let bands = bands(s);
     let h = s.crest_m().max(0.1);

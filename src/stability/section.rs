@@ -12,6 +12,9 @@ use crate::model::*;
 use crate::response::{Across, Cursor, GroundField};
 use crate::{ground, load};
 
+/// Far ends of the section's polylines either side of the centreline, m.
+const FAR_M: f64 = 1.0e5;
+
 #[derive(Debug, Clone, Copy)]
 pub(super) enum Material {
     Clay,
@@ -48,6 +51,8 @@ pub struct Section<'a> {
     /// linear between columns and a depth moves by s(x)(1 − z/D)); empty
     /// for the top layer.
     pub(super) layer_tops: Vec<Vec<(f64, f64)>>,
+    /// The water table as a polyline (a level line).
+    pub(super) water_line: [(f64, f64); 2],
     side_slope: f64,
     pub(super) fill_gamma: f64,
     /// Fill c' and tan φ' after `fill_strength_factor`.
@@ -116,6 +121,7 @@ impl<'a> Section<'a> {
             surface: Vec::new(),
             ground_line: Vec::new(),
             layer_tops: Vec::new(),
+            water_line: [(-FAR_M, -project.ground.groundwater_depth_m), (FAR_M, -project.ground.groundwater_depth_m)],
             profile,
             side_slope: e.side_slope_h_per_v,
             fill_gamma: e.fill_unit_weight_kn_m3,
@@ -212,7 +218,7 @@ impl<'a> Section<'a> {
     /// Full surface polyline: every profile vertex and column offset on both
     /// sides, plus the points where the fill slope meets the settled ground.
     fn build_surface(&self) -> Vec<(f64, f64)> {
-        let far = 1.0e5;
+        let far = FAR_M;
         let mut xs: Vec<f64> = self.profile.iter().map(|p| p.0).chain(self.field.xs.iter().copied()).collect();
         xs.extend(xs.clone().iter().map(|x| -x));
         xs.extend([-far, far]);
@@ -235,7 +241,7 @@ impl<'a> Section<'a> {
     /// Settled original ground as a polyline: every column offset on both
     /// sides and far points.
     fn build_ground_line(&self) -> Vec<(f64, f64)> {
-        let far = 1.0e5;
+        let far = FAR_M;
         let mut xs: Vec<f64> = self.field.xs.iter().flat_map(|x| [*x, -*x]).chain([-far, far]).collect();
         xs.sort_by(f64::total_cmp);
         xs.dedup_by(|a, b| (*a - *b).abs() < 1e-9);

@@ -48,9 +48,7 @@ impl Section<'_> {
         for line in &self.layer_tops {
             breaks.extend(line_hits(line, c, x0, x1).into_iter().flatten());
         }
-        let far = 1.0e5;
-        let water = [(-far, self.water_y), (far, self.water_y)];
-        breaks.extend(line_hits(&water, c, x0, x1).into_iter().flatten());
+        breaks.extend(line_hits(&self.water_line, c, x0, x1).into_iter().flatten());
         breaks.retain(|x| *x >= x0 && *x <= x1);
         breaks.sort_by(f64::total_cmp);
         breaks.dedup_by(|a, b| (*a - *b).abs() < 1e-6);
