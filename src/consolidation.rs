@@ -274,6 +274,20 @@ impl Column {
         }
     }
 
+    /// Storage Σ mv·h/2 at node i over the ends of the elements meeting
+    /// there (the bottom of the one above, the top of the one below) at the
+    /// start of the step (`storage`).
+    fn node_storage(&self, st: &ColumnState, s_old: &[f64], i: usize) -> f64 {
+        let mut s = 0.0;
+        if i > 0 {
+            s += self.storage(st, s_old, i - 1, 1);
+        }
+        if i < self.elements.len() {
+            s += self.storage(st, s_old, i, 0);
+        }
+        s
+    }
+
     /// Storage mv·h/2 of element e at its end `end` (0 top, 1 bottom) at the
     /// start of the step: mv the layer's constant in linear mode, else the
     /// tangent of the e–log σ' law. (The secant of the storage iteration is
@@ -485,7 +499,6 @@ impl Column {
     /// step to the next it is usually the same: where it equals the one
     /// last factorised (compared exactly), that factorisation is reused.
     fn tangent_pass(&self, st: &ColumnState, w: &mut Scratch, dt: f64) {
-        let ne = self.elements.len();
         let Scratch { s_old, lower, upper, diag, rhs, inv, d, factored, row_b, row_d, .. } = w;
         row_b.clear();
         row_d.clear();
@@ -493,13 +506,7 @@ impl Column {
             let (b, rhs) = if self.fixed[i] {
                 (1.0, 0.0)
             } else {
-                let mut s = 0.0;
-                if i > 0 {
-                    s += self.storage(st, s_old, i - 1, 1);
-                }
-                if i < ne {
-                    s += self.storage(st, s_old, i, 0);
-                }
+                let s = self.node_storage(st, s_old, i);
                 (s / dt + diag[i], s / dt * st.u[i] + rhs[i])
             };
             row_b.push(b);
@@ -537,14 +544,8 @@ impl Column {
             }
             let s_old = s_olds[i];
             let s_new = s_old + u[i] - trial[i];
-            let mut s = 0.0;
-            if (s_new - s_old).abs() < 1e-6 {
-                if i > 0 {
-                    s += self.storage(st, s_olds, i - 1, 1);
-                }
-                if i < self.elements.len() {
-                    s += self.storage(st, s_olds, i, 0);
-                }
+            let s = if (s_new - s_old).abs() < 1e-6 {
+                self.node_storage(st, s_olds, i)
             } else {
                 // Σ (h/2)·Δε over the two ends, over the one Δσ'.
                 let l_s = log10(s_new.max(1e-3));
@@ -554,8 +555,8 @@ impl Column {
                     let eps_new = end.law.strain_log10(end.log_s0, end.log_sp0, l_smax, l_s);
                     compression += end.half_h_m * (eps_new - eps_old);
                 }
-                s = compression / (s_new - s_old);
-            }
+                compression / (s_new - s_old)
+            };
             (s / dt + diag[i], s / dt * u[i] + rhs[i])
         };
         thomas(lower, upper, row, true, inv, d);
